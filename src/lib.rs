@@ -4,3 +4,13 @@
 //! ARCHITECTURE.md for the layers.
 
 pub mod algebra;
+pub mod curve;
+pub mod cancel;
+pub mod network;
+pub mod quad;
+pub mod walls;
+
+pub use cancel::CancelToken;
+pub use curve::Curve;
+pub use network::{compute, Network};
+pub use walls::Settings;

@@ -1,5 +1,14 @@
-//! The spectral curve `P(y, z) = y^K + u_2(z) y^(K-2) + ... + u_K(z) = 0`:
+//! The spectral curve `P(y, z) = y^K + u_1(z) y^(K-1) + ... + u_K(z) = 0`:
 //! its sheets at a point, branch points (classified) and punctures.
+//!
+//! A `y^(K-1)` term is allowed: walls, joints and branch points depend only
+//! on differences of sheets and on the discriminant, which a shift of y
+//! leaves unchanged.
+
+mod branch;
+mod sheets;
+
+pub use sheets::{roots_of_monic, sort_roots, ContinuationError};
 
 use crate::algebra::{Poly, PolyInY, Rational};
 use num_complex::Complex64;
@@ -9,35 +18,196 @@ use serde::{Deserialize, Serialize};
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct BranchPoint {
     pub z: Complex64,
-    /// The two sheets that meet (0-based labels at points just beside it;
-    /// see [`Curve::sheets_at`] for the labelling convention).
+    /// The two sheets that meet (0-based labels just above the point, in
+    /// the convention of [`Curve::sheets_at`]).
     pub sheets: [u8; 2],
     /// Exactly two sheets meet with square-root behaviour and the
     /// discriminant has a simple zero here.
     pub simple: bool,
     /// Order of the discriminant's zero (1 for a simple branch point).
     pub order: u32,
-    /// `c` in `y_i - y_j ~ c (z - b)^(1/2)`, for simple branch points.
+    /// Number of sheets that meet here (2 for a simple branch point).
+    pub n_sheets_meeting: u32,
+    /// `c` in `y_i - y_j ~ c (z - b)^(1/2)`, for simple branch points
+    /// (its sign is a convention; only `arg c mod pi` matters).
     pub series_coeff: Complex64,
 }
 
-/// A pole of the coefficients, or z = infinity.
+/// A pole of the coefficients u_k, or z = infinity.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Puncture {
     /// `None` is the point at infinity.
     pub z: Option<Complex64>,
-    /// Largest pole order among the u_k (for infinity: in the coordinate 1/z,
-    /// of the differential `lambda^K`, i.e. of `u_K dz^K` for rank 2 as the
-    /// quadratic differential `q dz^2`).
+    /// Largest pole order among the u_k at a finite point. At infinity, the
+    /// pole order of `u_K dz^K` in the coordinate w = 1/z (for rank 2: of the
+    /// quadratic differential; a polynomial q of degree n gives n + 4),
+    /// or 0 when infinity is a regular point.
     pub order: u32,
 }
 
-/// The curve with parameters substituted.
+/// The reference frame for sheet labels: a base point above everything.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct LabelFrame {
+    pub base: Complex64,
+    pub y_top: f64,
+    pub base_roots: Vec<Complex64>,
+}
+
+/// Problems that make a curve unusable.
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
+pub enum CurveError {
+    #[error("the equation must have degree at least 2 in y (found {0})")]
+    RankTooLow(usize),
+    #[error("the equation has degree {0} in y; wallflower handles up to 8 sheets")]
+    RankTooHigh(usize),
+    #[error("the coefficient of the top power of y vanishes identically")]
+    ZeroLeading,
+    #[error("a coefficient is not finite (NaN or infinity in the input)")]
+    NotFinite,
+    #[error("the sheets never separate: the discriminant vanishes identically (a repeated factor in y)")]
+    Degenerate,
+    #[error("a factored curve needs at least one zero or pole")]
+    Empty,
+}
+
+/// A non-fatal observation about the curve, shown to the user.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct CurveNote {
+    pub message: String,
+}
+
+/// The curve with parameters substituted, its singular points found.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Curve {
     /// Number of sheets K >= 2.
     pub rank: usize,
-    /// `u[k]` is the coefficient of `y^(K-k)`, for k = 0..=K, with `u[0] = 1`
-    /// and `u[1] = 0` after the traceless shift.
+    /// `u[k]` is the coefficient of `y^(K-k)` after dividing by the leading
+    /// coefficient, for k = 0..=K (`u[0] = 1`).
     pub u: Vec<Rational>,
+    pub branch_points: Vec<BranchPoint>,
+    pub punctures: Vec<Puncture>,
+    /// Branch points and finite punctures together: where cuts start and
+    /// where continuation must slow down.
+    pub singular_points: Vec<Complex64>,
+    pub frame: LabelFrame,
+    pub notes: Vec<CurveNote>,
+}
+
+pub const MAX_RANK: usize = 8;
+
+impl Curve {
+    /// Builds a curve from `P(y, z) = 0` given as a polynomial in y.
+    pub fn from_poly_in_y(p: &PolyInY) -> Result<Self, CurveError> {
+        let rank = p.degree_in_y();
+        if rank < 2 {
+            return Err(CurveError::RankTooLow(rank));
+        }
+        if rank > MAX_RANK {
+            return Err(CurveError::RankTooHigh(rank));
+        }
+        let lead = &p.coeffs[rank];
+        if lead.is_zero() {
+            return Err(CurveError::ZeroLeading);
+        }
+        let mut u = Vec::with_capacity(rank + 1);
+        for k in 0..=rank {
+            let ck = &p.coeffs[rank - k];
+            let r = if k == 0 {
+                Rational::one()
+            } else {
+                ck.div(lead).ok_or(CurveError::ZeroLeading)?.reduced()
+            };
+            let finite = r.num.coeffs.iter().chain(&r.den.coeffs).all(|c| c.is_finite());
+            if !finite {
+                return Err(CurveError::NotFinite);
+            }
+            u.push(r);
+        }
+        Self::from_monic(rank, u)
+    }
+
+    /// Builds `y^2 = q(z)` with `q = prefactor * prod (z - zeros) / prod (z - p)^order`.
+    pub fn from_quadratic(
+        prefactor: Complex64,
+        zeros: &[Complex64],
+        poles: &[(Complex64, u32)],
+    ) -> Result<Self, CurveError> {
+        if zeros.is_empty() && poles.is_empty() {
+            return Err(CurveError::Empty);
+        }
+        let num = Poly::from_roots(prefactor, zeros);
+        let mut den = Poly::one();
+        for &(p, order) in poles {
+            den = den.mul(&Poly::from_roots(Complex64::new(1.0, 0.0), &vec![p; order as usize]));
+        }
+        let q = Rational { num, den };
+        let zero = Rational::zero();
+        Self::from_monic(2, vec![Rational::one(), zero, q.neg()])
+    }
+
+    fn from_monic(rank: usize, u: Vec<Rational>) -> Result<Self, CurveError> {
+        let mut curve = Self {
+            rank,
+            u,
+            branch_points: Vec::new(),
+            punctures: Vec::new(),
+            singular_points: Vec::new(),
+            frame: LabelFrame { base: Complex64::new(0.0, 0.0), y_top: 0.0, base_roots: Vec::new() },
+            notes: Vec::new(),
+        };
+        let found = branch::find_singularities(&curve)?;
+        curve.punctures = found.punctures;
+        curve.notes = found.notes;
+        curve.singular_points = found
+            .branch_z
+            .iter()
+            .copied()
+            .chain(curve.punctures.iter().filter_map(|p| p.z))
+            .collect();
+        curve.frame = branch::label_frame(&curve)?;
+        curve.branch_points = branch::classify(&curve, &found.branch_z, &found.branch_orders);
+        Ok(curve)
+    }
+
+    /// For rank 2: `q(z)` with `y^2 = q` (after removing any linear term).
+    pub fn quadratic_differential(&self) -> Option<Rational> {
+        (self.rank == 2).then(|| {
+            // y^2 + u1 y + u2 = 0  <=>  (y + u1/2)^2 = u1^2/4 - u2.
+            let quarter = Rational::constant(Complex64::new(0.25, 0.0));
+            self.u[1].mul(&self.u[1]).mul(&quarter).sub(&self.u[2])
+        })
+    }
+
+    /// A length that sets the scale of the picture: the spread of the
+    /// singular points, at least 1e-3 and at most 1e6.
+    pub fn length_scale(&self) -> f64 {
+        let pts = &self.singular_points;
+        if pts.len() < 2 {
+            return pts.first().map_or(1.0, |p| p.norm().max(1.0)).clamp(1e-3, 1e6);
+        }
+        let mut spread = 0.0_f64;
+        for a in pts {
+            for b in pts {
+                spread = spread.max((a - b).norm());
+            }
+        }
+        spread.clamp(1e-3, 1e6)
+    }
+
+    /// `dP/dz` and `d^2P/dy^2` at `(y, z)`, for the local series at branch points.
+    pub fn partials(&self, y: Complex64, z: Complex64) -> (Complex64, Complex64) {
+        let k = self.rank;
+        let mut pz = Complex64::new(0.0, 0.0);
+        let mut pyy = Complex64::new(0.0, 0.0);
+        for (idx, r) in self.u.iter().enumerate() {
+            let power = (k - idx) as i32;
+            let (_, d) = r.eval_with_derivative(z);
+            pz += d * y.powi(power);
+            if power >= 2 {
+                let (v, _) = r.eval_with_derivative(z);
+                pyy += v * f64::from(power * (power - 1)) * y.powi(power - 2);
+            }
+        }
+        (pz, pyy)
+    }
 }

@@ -1,0 +1,191 @@
+//! Roots of `P(., z)` and their analytic continuation along a path.
+//!
+//! Continuation moves in small steps, Newton-polishing each root from its
+//! previous value, and refuses a step when the roots move by more than a
+//! fraction of their separation (the match would be ambiguous); it then
+//! halves the step. Every loop has a budget.
+
+use super::Curve;
+use num_complex::Complex64;
+
+/// Why a continuation failed.
+#[derive(Clone, Debug, PartialEq, thiserror::Error)]
+pub enum ContinuationError {
+    #[error("sheets could not be told apart near z = {0} (two roots nearly equal)")]
+    Ambiguous(Complex64),
+    #[error("continuation step budget exhausted")]
+    Budget,
+    #[error("the curve is singular at z = {0}")]
+    Singular(Complex64),
+}
+
+/// Fraction of the smallest root separation that one step may move a root.
+const MAX_MOVE_FRACTION: f64 = 0.3;
+
+impl Curve {
+    /// Monic coefficients of `P(., z)` in descending powers of y: `[1, u1, .., uK]`.
+    pub fn coeffs_at(&self, z: Complex64) -> Vec<Complex64> {
+        self.u.iter().map(|r| r.eval(z)).collect()
+    }
+
+    /// The K roots of `P(., z)` in no particular order.
+    pub fn roots_unordered(&self, z: Complex64) -> Vec<Complex64> {
+        let c = self.coeffs_at(z);
+        roots_of_monic(&c)
+    }
+
+    /// `P(y, z)` and `dP/dy` for monic coefficients `c` (descending).
+    pub fn eval_p(c: &[Complex64], y: Complex64) -> (Complex64, Complex64) {
+        let mut p = Complex64::new(0.0, 0.0);
+        let mut dp = Complex64::new(0.0, 0.0);
+        for ck in c {
+            dp = dp * y + p;
+            p = p * y + ck;
+        }
+        (p, dp)
+    }
+
+    /// Newton-polishes `guess` as a root of the monic polynomial `c`.
+    /// Returns `None` if the iteration does not settle.
+    pub fn newton_root(c: &[Complex64], guess: Complex64) -> Option<Complex64> {
+        let mut y = guess;
+        for _ in 0..30 {
+            let (p, dp) = Self::eval_p(c, y);
+            let step = p / dp;
+            if !step.is_finite() {
+                return if p.norm() == 0.0 { Some(y) } else { None };
+            }
+            y -= step;
+            if step.norm() <= 1e-15 * (1.0 + y.norm()) {
+                return Some(y);
+            }
+        }
+        let (p, dp) = Self::eval_p(c, y);
+        ((p / dp).norm() <= 1e-10 * (1.0 + y.norm())).then_some(y)
+    }
+
+    /// Moves a full, ordered set of roots from `z0` to `z1` in one step, or
+    /// reports that the step is too long to match roots unambiguously.
+    pub fn step_roots(&self, roots: &[Complex64], z1: Complex64) -> Option<Vec<Complex64>> {
+        let c = self.coeffs_at(z1);
+        if c.iter().any(|x| !x.is_finite()) {
+            return None;
+        }
+        let k = roots.len();
+        let mut next = Vec::with_capacity(k);
+        if k == 2 {
+            // Closed form: the two roots are -u1/2 +- s.
+            let half = -c[1] * 0.5;
+            let s = (half * half - c[2]).sqrt();
+            let (a, b) = (half + s, half - s);
+            let keep = (a - roots[0]).norm() + (b - roots[1]).norm()
+                <= (b - roots[0]).norm() + (a - roots[1]).norm();
+            next.extend(if keep { [a, b] } else { [b, a] });
+        } else {
+            for &r in roots {
+                next.push(Self::newton_root(&c, r)?);
+            }
+        }
+        // Ambiguity check: every root moved much less than its distance to
+        // the nearest other root.
+        for a in 0..k {
+            let mut sep = f64::INFINITY;
+            for b in 0..k {
+                if a != b {
+                    sep = sep.min((roots[a] - roots[b]).norm());
+                    sep = sep.min((next[a] - next[b]).norm());
+                }
+            }
+            if (next[a] - roots[a]).norm() > MAX_MOVE_FRACTION * sep || !next[a].is_finite() {
+                return None;
+            }
+        }
+        Some(next)
+    }
+
+    /// Continues an ordered set of roots along the straight segment `z0 -> z1`.
+    pub fn continue_roots(
+        &self,
+        roots: &[Complex64],
+        z0: Complex64,
+        z1: Complex64,
+        budget: &mut usize,
+    ) -> Result<Vec<Complex64>, ContinuationError> {
+        let mut cur = roots.to_vec();
+        let mut s = 0.0_f64;
+        let len = (z1 - z0).norm();
+        if len == 0.0 {
+            return Ok(cur);
+        }
+        let mut ds = 1.0_f64;
+        // First guess for the step: a quarter of the distance to the nearest singularity.
+        while s < 1.0 {
+            if *budget == 0 {
+                return Err(ContinuationError::Budget);
+            }
+            *budget -= 1;
+            let w = z0 + (z1 - z0) * s;
+            let room = 0.25 * self.distance_to_singular(w) / len;
+            ds = ds.min(room.max(1e-12)).min(1.0 - s).max(1e-300);
+            let w1 = z0 + (z1 - z0) * (s + ds);
+            match self.step_roots(&cur, w1) {
+                Some(next) => {
+                    cur = next;
+                    s += ds;
+                    ds *= 2.0;
+                }
+                None => {
+                    ds *= 0.5;
+                    if ds * len < 1e-13 * (1.0 + w.norm()) {
+                        return Err(ContinuationError::Ambiguous(w));
+                    }
+                }
+            }
+        }
+        Ok(cur)
+    }
+
+    /// Distance from `z` to the nearest branch point or pole (infinite if none).
+    pub fn distance_to_singular(&self, z: Complex64) -> f64 {
+        self.singular_points
+            .iter()
+            .map(|s| (s - z).norm())
+            .fold(f64::INFINITY, f64::min)
+    }
+
+    /// The sheets at `z`, labelled by the project's convention:
+    ///
+    /// ```text
+    /// label the K roots at the base point  b0 = x_ref + i y_top  by increasing
+    /// real part (ties: imaginary part); continue them along the horizontal line
+    /// Im z = y_top to Re z + i y_top, then straight down (or up) to z.
+    /// ```
+    ///
+    /// `y_top` lies above every branch point and pole, so the labelling is
+    /// continuous except across the vertical rays running down from each
+    /// branch point and pole: those rays are the branch cuts.
+    pub fn sheets_at(&self, z: Complex64) -> Result<Vec<Complex64>, ContinuationError> {
+        let mut budget = 20_000;
+        let top = Complex64::new(z.re, self.frame.y_top);
+        let base = self.frame.base_roots.clone();
+        let at_top = self.continue_roots(&base, self.frame.base, top, &mut budget)?;
+        self.continue_roots(&at_top, top, z, &mut budget)
+    }
+}
+
+/// Roots of the monic polynomial with descending coefficients `c`.
+pub fn roots_of_monic(c: &[Complex64]) -> Vec<Complex64> {
+    let k = c.len() - 1;
+    if k == 2 {
+        let half = -c[1] * 0.5;
+        let s = (half * half - c[2]).sqrt();
+        return vec![half + s, half - s];
+    }
+    let ascending: Vec<Complex64> = c.iter().rev().copied().collect();
+    crate::algebra::Poly { coeffs: ascending }.roots()
+}
+
+/// Orders roots by increasing real part, then imaginary part.
+pub fn sort_roots(roots: &mut [Complex64]) {
+    roots.sort_by(|a, b| a.re.total_cmp(&b.re).then(a.im.total_cmp(&b.im)));
+}

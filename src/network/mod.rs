@@ -1,0 +1,122 @@
+//! A spectral network at one phase: the walls, the joints where new walls
+//! are born (rank >= 3), and what the user should be warned about.
+
+use crate::cancel::CancelToken;
+use crate::curve::{BranchPoint, Curve, Puncture};
+use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Settings, Wall};
+use num_complex::Complex64;
+use serde::{Deserialize, Serialize};
+
+/// Where a wall of type ij crossed one of type jk and a wall of type ik was born.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Joint {
+    pub z: Complex64,
+    /// Indices into [`Network::walls`]: the ij parent and the jk parent.
+    pub parents: [usize; 2],
+    /// Index of the child wall.
+    pub child: usize,
+}
+
+/// Something the user should know about a result.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Warning {
+    pub message: String,
+}
+
+/// Counters for benchmarks and the status bar.
+#[derive(Clone, Debug, Default, PartialEq, Serialize, Deserialize)]
+pub struct Stats {
+    pub rhs_evals: u64,
+    pub steps: u64,
+    pub n_points: usize,
+}
+
+/// Which bound, if any, stopped the growth of the network early.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub enum GrowthLimit {
+    None,
+    MaxWalls,
+    MaxGenerations,
+    Cancelled,
+}
+
+/// The network of walls at one phase.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Network {
+    pub theta: f64,
+    pub reach: f64,
+    pub bounds: Bounds,
+    pub branch_points: Vec<BranchPoint>,
+    pub punctures: Vec<Puncture>,
+    pub walls: Vec<Wall>,
+    pub joints: Vec<Joint>,
+    pub warnings: Vec<Warning>,
+    pub limit: GrowthLimit,
+    pub stats: Stats,
+}
+
+/// The default bounding box: a square around the singular points, three
+/// times their spread.
+pub fn default_bounds(curve: &Curve) -> Bounds {
+    let pts = &curve.singular_points;
+    let n = pts.len().max(1) as f64;
+    let centre = pts.iter().fold(Complex64::new(0.0, 0.0), |a, b| a + b) / n;
+    let half = 1.5 * curve.length_scale().max(1e-3) + if pts.len() < 2 { 0.5 } else { 0.0 };
+    Bounds::square(centre.re, centre.im, half)
+}
+
+/// Grows the network of `curve` at phase `theta`.
+pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelToken) -> Network {
+    let bounds = settings.bounds.unwrap_or_else(|| default_bounds(curve));
+    let mut warnings: Vec<Warning> =
+        curve.notes.iter().map(|n| Warning { message: n.message.clone() }).collect();
+    for (idx, bp) in curve.branch_points.iter().enumerate() {
+        if !bp.simple {
+            warnings.push(Warning {
+                message: format!(
+                    "branch point {} at {:.6}{:+.6}i is not simple ({} sheets meet, order {}): no walls drawn from it; the curve is not generic",
+                    idx + 1,
+                    bp.z.re,
+                    bp.z.im,
+                    bp.n_sheets_meeting,
+                    bp.order
+                ),
+            });
+        }
+    }
+    let ctx = GrowContext { curve, theta, settings, bounds, cancel };
+    let mut walls = Vec::new();
+    let mut limit = GrowthLimit::None;
+    for seed in primary_seeds(curve, theta) {
+        if walls.len() >= settings.max_walls {
+            limit = GrowthLimit::MaxWalls;
+            break;
+        }
+        if cancel.is_cancelled() {
+            limit = GrowthLimit::Cancelled;
+            break;
+        }
+        walls.push(grow_wall(&ctx, seed));
+    }
+    let mut stats = Stats::default();
+    for w in &walls {
+        stats.rhs_evals += w.rhs_evals;
+        stats.steps += w.steps;
+        stats.n_points += w.points.len();
+    }
+    if limit == GrowthLimit::MaxWalls {
+        warnings.push(Warning { message: format!("stopped at max_walls = {}", settings.max_walls) });
+    }
+    Network {
+        theta,
+        reach: settings.reach,
+        bounds,
+        branch_points: curve.branch_points.clone(),
+        punctures: curve.punctures.clone(),
+        walls,
+        joints: Vec::new(),
+        warnings,
+        limit,
+        stats,
+    }
+}

@@ -1,0 +1,295 @@
+//! Integrating one wall: an adaptive Dormand-Prince 5(4) pair in the mass
+//! parameter t, with the sheets carried along by root tracking.
+//!
+//! ```text
+//! dz/dt = e^(i theta) / (y_i(z) - y_j(z)),   error on z  <=  tol (|z| + 1)
+//! ```
+//!
+//! A step is also refused (and halved) when the sheets at a stage point
+//! cannot be matched unambiguously to those at the step's start, and it is
+//! never longer than half the distance to the nearest singular point, so a
+//! wall cannot jump across a branch point or a pole.
+
+use super::{Bounds, EndReason, Origin, Settings, Wall, WallPoint, WallType};
+use crate::cancel::CancelToken;
+use crate::curve::Curve;
+use num_complex::Complex64;
+
+/// Everything a wall needs to start: its first point, the labelled sheets
+/// there and the mass it already carries.
+#[derive(Clone, Debug)]
+pub struct WallSeed {
+    pub z: Complex64,
+    /// All K sheets at `z`, in the labelling of [`Curve::sheets_at`].
+    pub roots: Vec<Complex64>,
+    pub kind: WallType,
+    pub mass: f64,
+    pub origin: Origin,
+    pub generation: u32,
+    pub multiplicity: i64,
+    /// Points drawn before `z` (for a primary wall: its branch point).
+    pub prefix: Vec<WallPoint>,
+}
+
+/// Fixed inputs shared by all walls of one network.
+pub struct GrowContext<'a> {
+    pub curve: &'a Curve,
+    pub theta: f64,
+    pub settings: &'a Settings,
+    pub bounds: Bounds,
+    pub cancel: &'a CancelToken,
+}
+
+// Dormand-Prince 5(4) tableau (the nodes c are implicit: the system is autonomous).
+const A: [[f64; 6]; 7] = [
+    [0.0; 6],
+    [0.2, 0.0, 0.0, 0.0, 0.0, 0.0],
+    [3.0 / 40.0, 9.0 / 40.0, 0.0, 0.0, 0.0, 0.0],
+    [44.0 / 45.0, -56.0 / 15.0, 32.0 / 9.0, 0.0, 0.0, 0.0],
+    [19372.0 / 6561.0, -25360.0 / 2187.0, 64448.0 / 6561.0, -212.0 / 729.0, 0.0, 0.0],
+    [9017.0 / 3168.0, -355.0 / 33.0, 46732.0 / 5247.0, 49.0 / 176.0, -5103.0 / 18656.0, 0.0],
+    [35.0 / 384.0, 0.0, 500.0 / 1113.0, 125.0 / 192.0, -2187.0 / 6784.0, 11.0 / 84.0],
+];
+/// Fifth-order weights minus fourth-order weights: the error estimate.
+const E: [f64; 7] = [
+    71.0 / 57600.0,
+    0.0,
+    -71.0 / 16695.0,
+    71.0 / 1920.0,
+    -17253.0 / 339200.0,
+    22.0 / 525.0,
+    -1.0 / 40.0,
+];
+
+/// How often (in steps) the cancel flag is polled.
+const CANCEL_POLL: u64 = 32;
+
+/// Grows one wall from its seed until one of the stop conditions holds.
+pub fn grow_wall(ctx: &GrowContext, seed: WallSeed) -> Wall {
+    let mut wall = Wall {
+        kind: seed.kind,
+        relabels: Vec::new(),
+        multiplicity: seed.multiplicity,
+        origin: seed.origin,
+        generation: seed.generation,
+        points: seed.prefix.clone(),
+        end: EndReason::Reach,
+        rhs_evals: 0,
+        steps: 0,
+    };
+    wall.points.push(WallPoint { z: seed.z, mass: seed.mass });
+    wall.end = integrate(ctx, &seed, &mut wall);
+    wall
+}
+
+fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
+    let curve = ctx.curve;
+    let settings = ctx.settings;
+    let rot = Complex64::from_polar(1.0, ctx.theta);
+    let scale = curve.length_scale();
+    let punct_r = settings.puncture_radius * scale;
+    let hit_r = settings.branch_hit_radius * scale;
+    let (mut i, mut j) = (seed.kind.i as usize, seed.kind.j as usize);
+    let mut z = seed.z;
+    let mut t = seed.mass;
+    let mut roots = seed.roots.clone();
+    let rhs = |r: &[Complex64], i: usize, j: usize| rot / (r[i] - r[j]);
+    let mut f0 = rhs(&roots, i, j);
+    wall.rhs_evals += 1;
+    if !f0.is_finite() {
+        return EndReason::Degenerate("sheets coincide at the start".into());
+    }
+    let mut h = 0.05 * curve.distance_to_singular(z).min(scale) / f0.norm();
+    let reach = settings.reach;
+    let mut stages = [Complex64::new(0.0, 0.0); 7];
+    let mut stage_roots: Vec<Complex64> = Vec::new();
+    loop {
+        if t >= reach * (1.0 - 1e-14) {
+            return EndReason::Reach;
+        }
+        if wall.steps >= settings.step_budget as u64 {
+            return EndReason::StepBudget;
+        }
+        if wall.steps % CANCEL_POLL == 0 && ctx.cancel.is_cancelled() {
+            return EndReason::Cancelled;
+        }
+        wall.steps += 1;
+        // Never step further than half the distance to a singular point.
+        let room = curve.distance_to_singular(z);
+        let h_room = 0.5 * room / f0.norm();
+        h = h.min(h_room).min(reach - t);
+        if !(h > 1e-15 * (1.0 + t)) {
+            return EndReason::Degenerate(format!(
+                "step size underflow at z = {:.6}{:+.6}i",
+                z.re, z.im
+            ));
+        }
+        stages[0] = f0;
+        let mut refused = false;
+        for s in 1..7 {
+            let mut dz = Complex64::new(0.0, 0.0);
+            for (k, a) in A[s].iter().enumerate().take(s) {
+                dz += stages[k] * *a;
+            }
+            let zs = z + dz * h;
+            match curve.step_roots(&roots, zs) {
+                Some(r) => {
+                    stages[s] = rhs(&r, i, j);
+                    wall.rhs_evals += 1;
+                    if !stages[s].is_finite() {
+                        refused = true;
+                        break;
+                    }
+                    if s == 6 {
+                        stage_roots = r;
+                    }
+                }
+                None => {
+                    refused = true;
+                    break;
+                }
+            }
+        }
+        if refused {
+            h *= 0.25;
+            continue;
+        }
+        let mut err = Complex64::new(0.0, 0.0);
+        let mut dz = Complex64::new(0.0, 0.0);
+        for k in 0..7 {
+            err += stages[k] * E[k];
+        }
+        for k in 0..6 {
+            dz += stages[k] * A[6][k];
+        }
+        let err_norm = (err * h).norm() / (settings.tolerance * (z.norm() + 1.0));
+        if !err_norm.is_finite() || err_norm > 1.0 {
+            let factor = if err_norm.is_finite() { 0.9 * err_norm.powf(-0.2) } else { 0.1 };
+            h *= factor.clamp(0.1, 0.9);
+            continue;
+        }
+        // Accept.
+        let z_new = z + dz * h;
+        let f_new = stages[6];
+        let t_new = t + h;
+        push_dense(wall, z, z_new, f0, f_new, t, h, settings.max_turn_rad);
+        // Branch cuts: vertical rays down from each singular point.
+        if let Some(z_cut) = crossed_cut(curve, z, z_new) {
+            let frac = ((z_cut - z).norm() / (z_new - z).norm()).clamp(0.0, 1.0);
+            let idx = wall.points.len();
+            wall.points.push(WallPoint { z: z_cut, mass: t + frac * h });
+            match relabel(curve, &stage_roots, z_new) {
+                Some((fresh, perm)) => {
+                    stage_roots = fresh;
+                    i = perm[i];
+                    j = perm[j];
+                    wall.relabels.push((idx, WallType::new(i, j)));
+                }
+                None => {
+                    wall.points.push(WallPoint { z: z_new, mass: t_new });
+                    return EndReason::Degenerate("sheets ambiguous where the wall crosses a cut".into());
+                }
+            }
+        }
+        wall.points.push(WallPoint { z: z_new, mass: t_new });
+        z = z_new;
+        t = t_new;
+        roots.clone_from(&stage_roots);
+        f0 = f_new;
+        // Stop conditions.
+        for (idx, p) in curve.punctures.iter().enumerate() {
+            if let Some(pz) = p.z {
+                if (z - pz).norm() < punct_r {
+                    return EndReason::Puncture(idx);
+                }
+            }
+        }
+        for (idx, b) in curve.branch_points.iter().enumerate() {
+            if (z - b.z).norm() < hit_r {
+                return EndReason::BranchPoint(idx);
+            }
+        }
+        if !ctx.bounds.contains(z.re, z.im) {
+            return EndReason::OutOfBounds;
+        }
+        let grow = if err_norm > 0.0 { 0.9 * err_norm.powf(-0.2) } else { 5.0 };
+        h *= grow.clamp(0.2, 5.0);
+    }
+}
+
+/// Adds interpolated points (cubic Hermite in t) inside a step whose
+/// direction turns by more than `max_turn`, then nothing else: the step's
+/// end point is pushed by the caller.
+fn push_dense(
+    wall: &mut Wall,
+    z0: Complex64,
+    z1: Complex64,
+    f0: Complex64,
+    f1: Complex64,
+    t0: f64,
+    h: f64,
+    max_turn: f64,
+) {
+    let turn = (f1 / f0).arg().abs();
+    if turn.is_nan() || turn <= max_turn {
+        return;
+    }
+    let pieces = ((turn / max_turn).ceil() as usize).min(32);
+    for p in 1..pieces {
+        let s = p as f64 / pieces as f64;
+        let (h00, h10, h01, h11) = (
+            2.0 * s * s * s - 3.0 * s * s + 1.0,
+            s * s * s - 2.0 * s * s + s,
+            -2.0 * s * s * s + 3.0 * s * s,
+            s * s * s - s * s,
+        );
+        let z = z0 * h00 + f0 * (h * h10) + z1 * h01 + f1 * (h * h11);
+        wall.points.push(WallPoint { z, mass: t0 + s * h });
+    }
+}
+
+/// Where the segment `a -> b` crosses a branch cut (a vertical ray running
+/// down from a singular point), if it does.
+pub fn crossed_cut(curve: &Curve, a: Complex64, b: Complex64) -> Option<Complex64> {
+    let mut best: Option<(f64, Complex64)> = None;
+    for s in &curve.singular_points {
+        let (da, db) = (a.re - s.re, b.re - s.re);
+        if (da < 0.0) == (db < 0.0) {
+            continue;
+        }
+        let frac = da / (da - db);
+        let y = a.im + frac * (b.im - a.im);
+        if y < s.im && best.is_none_or(|(f, _)| frac < f) {
+            best = Some((frac, Complex64::new(s.re, y)));
+        }
+    }
+    best.map(|(_, z)| z)
+}
+
+/// Fresh labels at `z` and the permutation taking old label to new label.
+pub fn relabel(
+    curve: &Curve,
+    tracked: &[Complex64],
+    z: Complex64,
+) -> Option<(Vec<Complex64>, Vec<usize>)> {
+    let fresh = curve.sheets_at(z).ok()?;
+    let k = fresh.len();
+    let mut perm = vec![usize::MAX; k];
+    for (a, y) in tracked.iter().enumerate() {
+        let mut order: Vec<(usize, f64)> =
+            fresh.iter().enumerate().map(|(b, f)| (b, (f - y).norm())).collect();
+        order.sort_by(|x, y| x.1.total_cmp(&y.1));
+        if k > 1 && order[0].1 > 0.3 * order[1].1 {
+            return None;
+        }
+        perm[a] = order[0].0;
+    }
+    let mut seen = vec![false; k];
+    for &p in &perm {
+        if p >= k || seen[p] {
+            return None;
+        }
+        seen[p] = true;
+    }
+    Some((fresh, perm))
+}

@@ -1,0 +1,129 @@
+//! Numerical settings for growing walls, with documented ranges.
+
+use serde::{Deserialize, Serialize};
+
+/// A rectangle in the z-plane: walls that leave it stop.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Bounds {
+    pub min: [f64; 2],
+    pub max: [f64; 2],
+}
+
+impl Bounds {
+    pub fn contains(&self, x: f64, y: f64) -> bool {
+        x >= self.min[0] && x <= self.max[0] && y >= self.min[1] && y <= self.max[1]
+    }
+
+    /// A square centred at (cx, cy) with the given half side.
+    pub fn square(cx: f64, cy: f64, half: f64) -> Self {
+        Self { min: [cx - half, cy - half], max: [cx + half, cy + half] }
+    }
+}
+
+/// How walls are integrated and when they stop.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct Settings {
+    /// Mass cutoff: a wall stops when the mass it carries reaches this.
+    /// Range (0, 1e6]. Default 8: enough to show the structure of the
+    /// worked scenarios at unit scale.
+    pub reach: f64,
+    /// Local error tolerance of the integrator on z, relative to `|z| + 1`.
+    /// Range [1e-13, 1e-3]. Default 1e-9: curves are then accurate far
+    /// beyond what a figure can show and masses to about 1e-8.
+    pub tolerance: f64,
+    /// Integration steps (accepted or rejected) allowed per wall.
+    /// Range [10, 10^7]. Default 20 000.
+    pub step_budget: usize,
+    /// Largest number of walls in a network. Range [1, 10^6]. Default 2000.
+    pub max_walls: usize,
+    /// Rounds of joint growth (rank >= 3). Range [0, 50]. Default 4.
+    pub max_generations: u32,
+    /// Walls stop outside this rectangle; `None` picks one from the curve
+    /// (a square about three times the spread of its singular points).
+    pub bounds: Option<Bounds>,
+    /// A wall stops within this distance of a puncture, relative to the
+    /// curve's length scale. Range (0, 0.1]. Default 1e-3.
+    pub puncture_radius: f64,
+    /// A wall that comes within this distance of a branch point (relative
+    /// to the length scale) ends there. Range (0, 1e-2]. Default 1e-6.
+    pub branch_hit_radius: f64,
+    /// Largest turn of the wall between two drawn points, in radians:
+    /// finer curves for figures. Range [0.005, 1]. Default 0.05.
+    pub max_turn_rad: f64,
+}
+
+impl Default for Settings {
+    fn default() -> Self {
+        Self {
+            reach: 8.0,
+            tolerance: 1e-9,
+            step_budget: 20_000,
+            max_walls: 2000,
+            max_generations: 4,
+            bounds: None,
+            puncture_radius: 1e-3,
+            branch_hit_radius: 1e-6,
+            max_turn_rad: 0.05,
+        }
+    }
+}
+
+impl Settings {
+    /// Checks every field against its documented range; the messages name
+    /// the field and the range.
+    pub fn validate(&self) -> Result<(), Vec<String>> {
+        let mut errors = Vec::new();
+        let mut check = |ok: bool, msg: String| {
+            if !ok {
+                errors.push(msg);
+            }
+        };
+        check(
+            self.reach.is_finite() && self.reach > 0.0 && self.reach <= 1e6,
+            format!("reach must be in (0, 1e6], got {}", self.reach),
+        );
+        check(
+            self.tolerance.is_finite() && (1e-13..=1e-3).contains(&self.tolerance),
+            format!("tolerance must be in [1e-13, 1e-3], got {}", self.tolerance),
+        );
+        check(
+            (10..=10_000_000).contains(&self.step_budget),
+            format!("step_budget must be in [10, 10000000], got {}", self.step_budget),
+        );
+        check(
+            (1..=1_000_000).contains(&self.max_walls),
+            format!("max_walls must be in [1, 1000000], got {}", self.max_walls),
+        );
+        check(
+            self.max_generations <= 50,
+            format!("max_generations must be at most 50, got {}", self.max_generations),
+        );
+        check(
+            self.puncture_radius.is_finite() && self.puncture_radius > 0.0 && self.puncture_radius <= 0.1,
+            format!("puncture_radius must be in (0, 0.1], got {}", self.puncture_radius),
+        );
+        check(
+            self.branch_hit_radius.is_finite()
+                && self.branch_hit_radius > 0.0
+                && self.branch_hit_radius <= 1e-2,
+            format!("branch_hit_radius must be in (0, 0.01], got {}", self.branch_hit_radius),
+        );
+        check(
+            self.max_turn_rad.is_finite() && (0.005..=1.0).contains(&self.max_turn_rad),
+            format!("max_turn_rad must be in [0.005, 1], got {}", self.max_turn_rad),
+        );
+        if let Some(b) = &self.bounds {
+            let finite = b.min.iter().chain(&b.max).all(|v| v.is_finite() && v.abs() < 1e12);
+            check(
+                finite && b.min[0] < b.max[0] && b.min[1] < b.max[1],
+                "bounds must be a finite rectangle with min < max".to_string(),
+            );
+        }
+        if errors.is_empty() {
+            Ok(())
+        } else {
+            Err(errors)
+        }
+    }
+}

@@ -1,0 +1,131 @@
+//! The three walls that leave a simple branch point.
+//!
+//! Near a simple branch point b where sheets i and j meet,
+//!
+//! ```text
+//! y_i - y_j ~ c (z - b)^(1/2),   W(z) = int_b^z (y_i - y_j) dz ~ (2c/3) (z - b)^(3/2)
+//! ```
+//!
+//! and a wall of type ij is where `e^(-i theta) W` is real and positive, so
+//! the walls leave along `arg(z - b) = (2/3)(theta - arg c) + 2 pi n / 3`.
+//! We place each start a small distance r0 out along that ray, then correct
+//! it so that W, computed by Gauss-Legendre quadrature from b (in the
+//! variable s with z = b + s^2 (z0 - b), which removes the square root), is
+//! exactly on the ray `e^(i theta) R_+`. The wall's mass starts at |W|.
+
+use super::{Origin, WallPoint, WallSeed, WallType};
+use crate::curve::{BranchPoint, Curve};
+use crate::quad::gauss_legendre_unit;
+use num_complex::Complex64;
+use std::f64::consts::TAU;
+
+/// Start distance as a fraction of the room around the branch point.
+const START_FRACTION: f64 = 1e-3;
+
+/// Seeds of the three primary walls of every simple branch point.
+/// Branch points that are not simple give none (the caller warns).
+pub fn primary_seeds(curve: &Curve, theta: f64) -> Vec<WallSeed> {
+    let mut seeds = Vec::new();
+    for (index, bp) in curve.branch_points.iter().enumerate() {
+        if !bp.simple {
+            continue;
+        }
+        for n in 0..3u8 {
+            if let Some(seed) = seed_for(curve, bp, index, n, theta) {
+                seeds.push(seed);
+            }
+        }
+    }
+    seeds
+}
+
+fn room_around(curve: &Curve, b: Complex64) -> f64 {
+    curve
+        .singular_points
+        .iter()
+        .map(|s| (s - b).norm())
+        .filter(|d| *d > 1e-12 * (1.0 + b.norm()))
+        .fold(curve.length_scale(), f64::min)
+}
+
+fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) -> Option<WallSeed> {
+    let b = bp.z;
+    let r0 = START_FRACTION * room_around(curve, b);
+    let phi = (2.0 / 3.0) * (theta - bp.series_coeff.arg()) + TAU * f64::from(n) / 3.0;
+    let dir = Complex64::from_polar(1.0, phi);
+    let mut z0 = b + dir * r0;
+    let mut roots = curve.sheets_at(z0).ok()?;
+    let rot = Complex64::from_polar(1.0, theta);
+    // The two sheets that meet at b are the closest pair at z0 (their labels
+    // there may differ from those above b when z0 lies across b's cut).
+    let (a, c) = closest_pair(&roots);
+    // Orient the pair so that the wall moves away from b.
+    let outward = |r: &[Complex64], i: usize, j: usize| ((rot / (r[i] - r[j])) / dir).re > 0.0;
+    let (i, j) = if outward(&roots, a, c) { (a, c) } else { (c, a) };
+    for _ in 0..3 {
+        let w = period_from_branch_point(curve, b, z0, roots[i] - roots[j]);
+        let off = (w / rot).im;
+        let delta = -Complex64::new(0.0, 1.0) * rot * off / (roots[i] - roots[j]);
+        if !delta.is_finite() || delta.norm() > 0.5 * r0 {
+            break;
+        }
+        let moved = z0 + delta;
+        roots = curve.step_roots(&roots, moved)?;
+        z0 = moved;
+        if delta.norm() < 1e-15 * (1.0 + z0.norm()) {
+            break;
+        }
+    }
+    let w = period_from_branch_point(curve, b, z0, roots[i] - roots[j]);
+    let mass = (w / rot).re;
+    if !(mass > 0.0) || !mass.is_finite() {
+        return None;
+    }
+    Some(WallSeed {
+        z: z0,
+        roots,
+        kind: WallType::new(i, j),
+        mass,
+        origin: Origin::BranchPoint { index, n },
+        generation: 0,
+        multiplicity: 1,
+        prefix: vec![WallPoint { z: b, mass: 0.0 }],
+    })
+}
+
+fn closest_pair(r: &[Complex64]) -> (usize, usize) {
+    let mut best = (0, 1, f64::INFINITY);
+    for a in 0..r.len() {
+        for c in a + 1..r.len() {
+            let d = (r[a] - r[c]).norm();
+            if d < best.2 {
+                best = (a, c, d);
+            }
+        }
+    }
+    (best.0, best.1)
+}
+
+/// `int_b^z0 (y_i - y_j) dz` along the straight segment, where `diff_at_end`
+/// is `y_i - y_j` at z0 (it fixes which square root is meant). The two
+/// sheets that meet at b are the closest pair at every node.
+pub fn period_from_branch_point(
+    curve: &Curve,
+    b: Complex64,
+    z0: Complex64,
+    diff_at_end: Complex64,
+) -> Complex64 {
+    let delta = z0 - b;
+    let mut total = Complex64::new(0.0, 0.0);
+    for (s, w) in gauss_legendre_unit(24) {
+        let z = b + delta * (s * s);
+        let roots = curve.roots_unordered(z);
+        let (a, c) = closest_pair(&roots);
+        let d = roots[a] - roots[c];
+        // y_i - y_j grows like s along the segment: compare with s * diff_at_end.
+        let reference = diff_at_end * s;
+        let d = if (d - reference).norm() <= (d + reference).norm() { d } else { -d };
+        total += d * (2.0 * s) * delta * w;
+    }
+    total
+}
