@@ -101,6 +101,10 @@ impl Equation {
 
     /// `lhs - rhs` as a polynomial in y with rational coefficients in z.
     ///
+    /// The coefficients share one monic denominator (each with the powers
+    /// of z it has in common with that coefficient cancelled); other common
+    /// factors are not cancelled.
+    ///
     /// Fails, with a column, on a parameter missing from `params`, division
     /// by something that involves y or vanishes identically, a negative power
     /// of y, an exponent that is not a small integer, a result of degree
@@ -836,6 +840,10 @@ impl Value {
     }
 
     fn add(&self, other: &Self) -> Self {
+        // Every sum starts from zero; skipping it keeps the denominator as is.
+        if self.num.coeffs.iter().all(Rational::is_zero) {
+            return other.clone();
+        }
         if self.den == other.den {
             return Self {
                 num: self.num.add(&other.num),
