@@ -4,8 +4,8 @@
 //! ARCHITECTURE.md for the layers.
 
 pub mod algebra;
-pub mod curve;
 pub mod cancel;
+pub mod curve;
 pub mod network;
 pub mod quad;
 pub mod walls;

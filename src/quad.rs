@@ -47,7 +47,10 @@ mod tests {
             assert!((total - 1.0).abs() < 1e-14, "n = {n}");
             let deg = 2 * n - 1;
             let integral: f64 = rule.iter().map(|(x, w)| w * x.powi(deg as i32)).sum();
-            assert!((integral - 1.0 / (deg as f64 + 1.0)).abs() < 1e-13, "n = {n}");
+            assert!(
+                (integral - 1.0 / (deg as f64 + 1.0)).abs() < 1e-13,
+                "n = {n}"
+            );
         }
     }
 }

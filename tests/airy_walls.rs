@@ -20,9 +20,13 @@ fn crossing_at_radius(points: &[wallflower::walls::WallPoint], r: f64) -> Option
 
 #[test]
 fn airy_walls_leave_along_stokes_lines() {
-    let curve = Curve::from_quadratic(Complex64::new(1.0, 0.0), &[Complex64::new(0.0, 0.0)], &[]).unwrap();
+    let curve =
+        Curve::from_quadratic(Complex64::new(1.0, 0.0), &[Complex64::new(0.0, 0.0)], &[]).unwrap();
     assert_eq!(curve.branch_points.len(), 1);
-    let settings = Settings { reach: 4.0, ..Settings::default() };
+    let settings = Settings {
+        reach: 4.0,
+        ..Settings::default()
+    };
     let net = compute(&curve, 0.0, &settings, &CancelToken::new());
     assert_eq!(net.walls.len(), 3);
     let mut args: Vec<f64> = net
@@ -39,11 +43,22 @@ fn airy_walls_leave_along_stokes_lines() {
         args.rotate_right(1);
         args[0] -= std::f64::consts::TAU;
     }
-    let want = [0.0, std::f64::consts::TAU / 3.0, 2.0 * std::f64::consts::TAU / 3.0];
+    let want = [
+        0.0,
+        std::f64::consts::TAU / 3.0,
+        2.0 * std::f64::consts::TAU / 3.0,
+    ];
     for (got, want) in args.iter().zip(want) {
         assert!((got - want).abs() < 1e-6, "wall at arg {got}, want {want}");
     }
     for w in &net.walls {
-        println!("{} {:?} {} pts, mass {}, evals {}", w.kind, w.end, w.points.len(), w.mass(), w.rhs_evals);
+        println!(
+            "{} {:?} {} pts, mass {}, evals {}",
+            w.kind,
+            w.end,
+            w.points.len(),
+            w.mass(),
+            w.rhs_evals
+        );
     }
 }

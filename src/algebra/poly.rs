@@ -70,7 +70,10 @@ impl Poly {
     }
 
     pub fn leading(&self) -> Complex64 {
-        *self.coeffs.last().expect("a Poly always has one coefficient")
+        *self
+            .coeffs
+            .last()
+            .expect("a Poly always has one coefficient")
     }
 
     /// Horner evaluation.
@@ -219,12 +222,7 @@ fn aberth(p: &Poly) -> Vec<Complex64> {
     // root moduli (|c0|^(1/n) for a monic polynomial), rotated off symmetry axes.
     let radius = monic[0].norm().powf(1.0 / n as f64).max(1e-300);
     let mut z: Vec<Complex64> = (0..n)
-        .map(|k| {
-            Complex64::from_polar(
-                radius,
-                std::f64::consts::TAU * k as f64 / n as f64 + 0.4,
-            )
-        })
+        .map(|k| Complex64::from_polar(radius, std::f64::consts::TAU * k as f64 / n as f64 + 0.4))
         .collect();
     let mp = Poly { coeffs: monic };
     const MAX_ITER: usize = 500;

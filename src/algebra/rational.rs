@@ -15,7 +15,10 @@ pub struct Rational {
 
 impl Rational {
     pub fn from_poly(num: Poly) -> Self {
-        Self { num, den: Poly::one() }
+        Self {
+            num,
+            den: Poly::one(),
+        }
     }
 
     pub fn constant(c: Complex64) -> Self {
@@ -47,7 +50,10 @@ impl Rational {
 
     pub fn add(&self, other: &Self) -> Self {
         if self.den == other.den {
-            return Self { num: self.num.add(&other.num), den: self.den.clone() };
+            return Self {
+                num: self.num.add(&other.num),
+                den: self.den.clone(),
+            };
         }
         Self {
             num: self.num.mul(&other.den).add(&other.num.mul(&self.den)),
@@ -56,7 +62,10 @@ impl Rational {
     }
 
     pub fn neg(&self) -> Self {
-        Self { num: self.num.scale(Complex64::new(-1.0, 0.0)), den: self.den.clone() }
+        Self {
+            num: self.num.scale(Complex64::new(-1.0, 0.0)),
+            den: self.den.clone(),
+        }
     }
 
     pub fn sub(&self, other: &Self) -> Self {
@@ -64,7 +73,10 @@ impl Rational {
     }
 
     pub fn mul(&self, other: &Self) -> Self {
-        Self { num: self.num.mul(&other.num), den: self.den.mul(&other.den) }
+        Self {
+            num: self.num.mul(&other.num),
+            den: self.den.mul(&other.den),
+        }
     }
 
     /// `self / other`; `None` when `other` is identically zero.
@@ -72,21 +84,33 @@ impl Rational {
         if other.is_zero() {
             return None;
         }
-        Some(Self { num: self.num.mul(&other.den), den: self.den.mul(&other.num) })
+        Some(Self {
+            num: self.num.mul(&other.den),
+            den: self.den.mul(&other.num),
+        })
     }
 
     pub fn scale(&self, s: Complex64) -> Self {
-        Self { num: self.num.scale(s), den: self.den.clone() }
+        Self {
+            num: self.num.scale(s),
+            den: self.den.clone(),
+        }
     }
 
     /// Integer power; negative powers need a non-zero function.
     pub fn powi(&self, k: i32) -> Option<Self> {
         if k >= 0 {
-            Some(Self { num: self.num.pow(k as u32), den: self.den.pow(k as u32) })
+            Some(Self {
+                num: self.num.pow(k as u32),
+                den: self.den.pow(k as u32),
+            })
         } else if self.is_zero() {
             None
         } else {
-            Some(Self { num: self.den.pow((-k) as u32), den: self.num.pow((-k) as u32) })
+            Some(Self {
+                num: self.den.pow((-k) as u32),
+                den: self.num.pow((-k) as u32),
+            })
         }
     }
 
@@ -98,7 +122,10 @@ impl Rational {
         let num = Poly::new(self.num.coeffs[k.min(self.num.coeffs.len() - 1)..].to_vec());
         let den = Poly::new(self.den.coeffs[k.min(self.den.coeffs.len() - 1)..].to_vec());
         let lead = den.leading();
-        Self { num: num.scale(1.0 / lead), den: den.scale(1.0 / lead) }
+        Self {
+            num: num.scale(1.0 / lead),
+            den: den.scale(1.0 / lead),
+        }
     }
 }
 
@@ -116,7 +143,9 @@ pub struct PolyInY {
 
 impl PolyInY {
     pub fn zero() -> Self {
-        Self { coeffs: vec![Rational::zero()] }
+        Self {
+            coeffs: vec![Rational::zero()],
+        }
     }
 
     /// A polynomial of degree 0 in y.
@@ -164,7 +193,9 @@ impl PolyInY {
     }
 
     pub fn neg(&self) -> Self {
-        Self { coeffs: self.coeffs.iter().map(Rational::neg).collect() }
+        Self {
+            coeffs: self.coeffs.iter().map(Rational::neg).collect(),
+        }
     }
 
     pub fn sub(&self, other: &Self) -> Self {
@@ -182,7 +213,11 @@ impl PolyInY {
                     continue;
                 }
                 let term = ca.mul(cb);
-                out[a + b] = if out[a + b].is_zero() { term } else { out[a + b].add(&term) };
+                out[a + b] = if out[a + b].is_zero() {
+                    term
+                } else {
+                    out[a + b].add(&term)
+                };
             }
         }
         Self { coeffs: out }.trimmed()
@@ -190,7 +225,10 @@ impl PolyInY {
 
     /// Multiplies every coefficient by a rational function of z.
     pub fn mul_rational(&self, r: &Rational) -> Self {
-        Self { coeffs: self.coeffs.iter().map(|c| c.mul(r)).collect() }.trimmed()
+        Self {
+            coeffs: self.coeffs.iter().map(|c| c.mul(r)).collect(),
+        }
+        .trimmed()
     }
 
     /// True when y does not occur.

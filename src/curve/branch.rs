@@ -91,9 +91,14 @@ fn order_at_infinity(curve: &Curve) -> u32 {
 
 pub(super) fn find_singularities(curve: &Curve) -> Result<Singularities, CurveError> {
     let poles = finite_poles(curve);
-    let mut punctures: Vec<Puncture> =
-        poles.iter().map(|&(p, order)| Puncture { z: Some(p), order }).collect();
-    punctures.push(Puncture { z: None, order: order_at_infinity(curve) });
+    let mut punctures: Vec<Puncture> = poles
+        .iter()
+        .map(|&(p, order)| Puncture { z: Some(p), order })
+        .collect();
+    punctures.push(Puncture {
+        z: None,
+        order: order_at_infinity(curve),
+    });
     let mut notes = Vec::new();
     let zeros = if curve.rank == 2 {
         let q = curve.quadratic_differential().expect("rank 2");
@@ -125,11 +130,19 @@ pub(super) fn find_singularities(curve: &Curve) -> Result<Singularities, CurveEr
             candidates.push(z);
         }
     }
-    let polished: Vec<Complex64> = candidates.iter().map(|&z| polish_branch_point(curve, z)).collect();
+    let polished: Vec<Complex64> = candidates
+        .iter()
+        .map(|&z| polish_branch_point(curve, z))
+        .collect();
     let groups = cluster(&polished, CLUSTER_REL);
     let branch_z = groups.iter().map(|g| g.0).collect();
     let branch_orders = groups.iter().map(|g| g.1).collect();
-    Ok(Singularities { branch_z, branch_orders, punctures, notes })
+    Ok(Singularities {
+        branch_z,
+        branch_orders,
+        punctures,
+        notes,
+    })
 }
 
 /// Discriminant `prod_{a<b} (y_a - y_b)^2` at z, from the roots.
@@ -209,13 +222,17 @@ fn discriminant_zeros(
     let mut radius = scale;
     let mut n_poly = interpolate(&cleared, degree, radius);
     // Re-centre the interpolation circle on the roots' geometric mean scale.
-    let mean = (n_poly.coeffs[0] / n_poly.coeffs[degree]).norm().powf(1.0 / degree as f64);
+    let mean = (n_poly.coeffs[0] / n_poly.coeffs[degree])
+        .norm()
+        .powf(1.0 / degree as f64);
     if mean.is_finite() && mean > 0.0 && (mean / radius > 3.0 || radius / mean > 3.0) {
         radius = mean;
         n_poly = interpolate(&cleared, degree, radius);
     }
     if n_poly.coeffs.iter().any(|c| !c.is_finite()) {
-        notes.push(CurveNote { message: "discriminant could not be interpolated".into() });
+        notes.push(CurveNote {
+            message: "discriminant could not be interpolated".into(),
+        });
         return Err(CurveError::NotFinite);
     }
     Ok(n_poly.roots())
@@ -227,13 +244,21 @@ fn interpolate(f: &impl Fn(Complex64) -> Complex64, d: usize, radius: f64) -> Po
     // Rotate the sample circle off any symmetry axis of the curve.
     let offset = 0.123_456;
     let values: Vec<Complex64> = (0..m)
-        .map(|j| f(Complex64::from_polar(radius, TAU * j as f64 / m as f64 + offset)))
+        .map(|j| {
+            f(Complex64::from_polar(
+                radius,
+                TAU * j as f64 / m as f64 + offset,
+            ))
+        })
         .collect();
     let coeffs = (0..=d)
         .map(|k| {
             let mut acc = Complex64::new(0.0, 0.0);
             for (j, v) in values.iter().enumerate() {
-                acc += v * Complex64::from_polar(1.0, -(TAU * j as f64 / m as f64 + offset) * k as f64);
+                acc += v * Complex64::from_polar(
+                    1.0,
+                    -(TAU * j as f64 / m as f64 + offset) * k as f64,
+                );
             }
             acc / (m as f64 * radius.powi(k as i32))
         })
@@ -327,7 +352,11 @@ pub(super) fn label_frame(curve: &Curve) -> Result<LabelFrame, CurveError> {
         let (_, _, sep) = closest_pair(&roots);
         let size = roots.iter().map(|r| r.norm()).fold(0.0, f64::max);
         if sep > 1e-6 * (1.0 + size) {
-            return Ok(LabelFrame { base, y_top, base_roots: roots });
+            return Ok(LabelFrame {
+                base,
+                y_top,
+                base_roots: roots,
+            });
         }
     }
     Err(CurveError::Degenerate)
@@ -375,7 +404,11 @@ pub(super) fn classify(curve: &Curve, zs: &[Complex64], orders: &[u32]) -> Vec<B
                 simple,
                 order,
                 n_sheets_meeting: n_meeting,
-                series_coeff: if series_coeff.is_finite() { series_coeff } else { Complex64::new(0.0, 0.0) },
+                series_coeff: if series_coeff.is_finite() {
+                    series_coeff
+                } else {
+                    Complex64::new(0.0, 0.0)
+                },
             }
         })
         .collect()

@@ -64,7 +64,9 @@ pub enum CurveError {
     ZeroLeading,
     #[error("a coefficient is not finite (NaN or infinity in the input)")]
     NotFinite,
-    #[error("the sheets never separate: the discriminant vanishes identically (a repeated factor in y)")]
+    #[error(
+        "the sheets never separate: the discriminant vanishes identically (a repeated factor in y)"
+    )]
     Degenerate,
     #[error("a factored curve needs at least one zero or pole")]
     Empty,
@@ -117,7 +119,12 @@ impl Curve {
             } else {
                 ck.div(lead).ok_or(CurveError::ZeroLeading)?.reduced()
             };
-            let finite = r.num.coeffs.iter().chain(&r.den.coeffs).all(|c| c.is_finite());
+            let finite = r
+                .num
+                .coeffs
+                .iter()
+                .chain(&r.den.coeffs)
+                .all(|c| c.is_finite());
             if !finite {
                 return Err(CurveError::NotFinite);
             }
@@ -138,7 +145,10 @@ impl Curve {
         let num = Poly::from_roots(prefactor, zeros);
         let mut den = Poly::one();
         for &(p, order) in poles {
-            den = den.mul(&Poly::from_roots(Complex64::new(1.0, 0.0), &vec![p; order as usize]));
+            den = den.mul(&Poly::from_roots(
+                Complex64::new(1.0, 0.0),
+                &vec![p; order as usize],
+            ));
         }
         let q = Rational { num, den };
         let zero = Rational::zero();
@@ -152,7 +162,11 @@ impl Curve {
             branch_points: Vec::new(),
             punctures: Vec::new(),
             singular_points: Vec::new(),
-            frame: LabelFrame { base: Complex64::new(0.0, 0.0), y_top: 0.0, base_roots: Vec::new() },
+            frame: LabelFrame {
+                base: Complex64::new(0.0, 0.0),
+                y_top: 0.0,
+                base_roots: Vec::new(),
+            },
             notes: Vec::new(),
         };
         let found = branch::find_singularities(&curve)?;
@@ -183,7 +197,10 @@ impl Curve {
     pub fn length_scale(&self) -> f64 {
         let pts = &self.singular_points;
         if pts.len() < 2 {
-            return pts.first().map_or(1.0, |p| p.norm().max(1.0)).clamp(1e-3, 1e6);
+            return pts
+                .first()
+                .map_or(1.0, |p| p.norm().max(1.0))
+                .clamp(1e-3, 1e6);
         }
         let mut spread = 0.0_f64;
         for a in pts {

@@ -68,8 +68,13 @@ pub fn default_bounds(curve: &Curve) -> Bounds {
 /// Grows the network of `curve` at phase `theta`.
 pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelToken) -> Network {
     let bounds = settings.bounds.unwrap_or_else(|| default_bounds(curve));
-    let mut warnings: Vec<Warning> =
-        curve.notes.iter().map(|n| Warning { message: n.message.clone() }).collect();
+    let mut warnings: Vec<Warning> = curve
+        .notes
+        .iter()
+        .map(|n| Warning {
+            message: n.message.clone(),
+        })
+        .collect();
     for (idx, bp) in curve.branch_points.iter().enumerate() {
         if !bp.simple {
             warnings.push(Warning {
@@ -84,7 +89,13 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
             });
         }
     }
-    let ctx = GrowContext { curve, theta, settings, bounds, cancel };
+    let ctx = GrowContext {
+        curve,
+        theta,
+        settings,
+        bounds,
+        cancel,
+    };
     let mut walls = Vec::new();
     let mut limit = GrowthLimit::None;
     for seed in primary_seeds(curve, theta) {
@@ -105,7 +116,9 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
         stats.n_points += w.points.len();
     }
     if limit == GrowthLimit::MaxWalls {
-        warnings.push(Warning { message: format!("stopped at max_walls = {}", settings.max_walls) });
+        warnings.push(Warning {
+            message: format!("stopped at max_walls = {}", settings.max_walls),
+        });
     }
     Network {
         theta,

@@ -46,9 +46,30 @@ const A: [[f64; 6]; 7] = [
     [0.2, 0.0, 0.0, 0.0, 0.0, 0.0],
     [3.0 / 40.0, 9.0 / 40.0, 0.0, 0.0, 0.0, 0.0],
     [44.0 / 45.0, -56.0 / 15.0, 32.0 / 9.0, 0.0, 0.0, 0.0],
-    [19372.0 / 6561.0, -25360.0 / 2187.0, 64448.0 / 6561.0, -212.0 / 729.0, 0.0, 0.0],
-    [9017.0 / 3168.0, -355.0 / 33.0, 46732.0 / 5247.0, 49.0 / 176.0, -5103.0 / 18656.0, 0.0],
-    [35.0 / 384.0, 0.0, 500.0 / 1113.0, 125.0 / 192.0, -2187.0 / 6784.0, 11.0 / 84.0],
+    [
+        19372.0 / 6561.0,
+        -25360.0 / 2187.0,
+        64448.0 / 6561.0,
+        -212.0 / 729.0,
+        0.0,
+        0.0,
+    ],
+    [
+        9017.0 / 3168.0,
+        -355.0 / 33.0,
+        46732.0 / 5247.0,
+        49.0 / 176.0,
+        -5103.0 / 18656.0,
+        0.0,
+    ],
+    [
+        35.0 / 384.0,
+        0.0,
+        500.0 / 1113.0,
+        125.0 / 192.0,
+        -2187.0 / 6784.0,
+        11.0 / 84.0,
+    ],
 ];
 /// Fifth-order weights minus fourth-order weights: the error estimate.
 const E: [f64; 7] = [
@@ -77,7 +98,10 @@ pub fn grow_wall(ctx: &GrowContext, seed: WallSeed) -> Wall {
         rhs_evals: 0,
         steps: 0,
     };
-    wall.points.push(WallPoint { z: seed.z, mass: seed.mass });
+    wall.points.push(WallPoint {
+        z: seed.z,
+        mass: seed.mass,
+    });
     wall.end = integrate(ctx, &seed, &mut wall);
     wall
 }
@@ -164,7 +188,11 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         }
         let err_norm = (err * h).norm() / (settings.tolerance * (z.norm() + 1.0));
         if !err_norm.is_finite() || err_norm > 1.0 {
-            let factor = if err_norm.is_finite() { 0.9 * err_norm.powf(-0.2) } else { 0.1 };
+            let factor = if err_norm.is_finite() {
+                0.9 * err_norm.powf(-0.2)
+            } else {
+                0.1
+            };
             h *= factor.clamp(0.1, 0.9);
             continue;
         }
@@ -177,7 +205,10 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         if let Some(z_cut) = crossed_cut(curve, z, z_new) {
             let frac = ((z_cut - z).norm() / (z_new - z).norm()).clamp(0.0, 1.0);
             let idx = wall.points.len();
-            wall.points.push(WallPoint { z: z_cut, mass: t + frac * h });
+            wall.points.push(WallPoint {
+                z: z_cut,
+                mass: t + frac * h,
+            });
             match relabel(curve, &stage_roots, z_new) {
                 Some((fresh, perm)) => {
                     stage_roots = fresh;
@@ -186,12 +217,20 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
                     wall.relabels.push((idx, WallType::new(i, j)));
                 }
                 None => {
-                    wall.points.push(WallPoint { z: z_new, mass: t_new });
-                    return EndReason::Degenerate("sheets ambiguous where the wall crosses a cut".into());
+                    wall.points.push(WallPoint {
+                        z: z_new,
+                        mass: t_new,
+                    });
+                    return EndReason::Degenerate(
+                        "sheets ambiguous where the wall crosses a cut".into(),
+                    );
                 }
             }
         }
-        wall.points.push(WallPoint { z: z_new, mass: t_new });
+        wall.points.push(WallPoint {
+            z: z_new,
+            mass: t_new,
+        });
         z = z_new;
         t = t_new;
         roots.clone_from(&stage_roots);
@@ -212,7 +251,11 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         if !ctx.bounds.contains(z.re, z.im) {
             return EndReason::OutOfBounds;
         }
-        let grow = if err_norm > 0.0 { 0.9 * err_norm.powf(-0.2) } else { 5.0 };
+        let grow = if err_norm > 0.0 {
+            0.9 * err_norm.powf(-0.2)
+        } else {
+            5.0
+        };
         h *= grow.clamp(0.2, 5.0);
     }
 }
@@ -244,7 +287,10 @@ fn push_dense(
             s * s * s - s * s,
         );
         let z = z0 * h00 + f0 * (h * h10) + z1 * h01 + f1 * (h * h11);
-        wall.points.push(WallPoint { z, mass: t0 + s * h });
+        wall.points.push(WallPoint {
+            z,
+            mass: t0 + s * h,
+        });
     }
 }
 
@@ -276,8 +322,11 @@ pub fn relabel(
     let k = fresh.len();
     let mut perm = vec![usize::MAX; k];
     for (a, y) in tracked.iter().enumerate() {
-        let mut order: Vec<(usize, f64)> =
-            fresh.iter().enumerate().map(|(b, f)| (b, (f - y).norm())).collect();
+        let mut order: Vec<(usize, f64)> = fresh
+            .iter()
+            .enumerate()
+            .map(|(b, f)| (b, (f - y).norm()))
+            .collect();
         order.sort_by(|x, y| x.1.total_cmp(&y.1));
         if k > 1 && order[0].1 > 0.3 * order[1].1 {
             return None;

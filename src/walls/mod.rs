@@ -23,11 +23,17 @@ pub struct WallType {
 
 impl WallType {
     pub fn new(i: usize, j: usize) -> Self {
-        Self { i: i as u8, j: j as u8 }
+        Self {
+            i: i as u8,
+            j: j as u8,
+        }
     }
 
     pub fn reversed(self) -> Self {
-        Self { i: self.j, j: self.i }
+        Self {
+            i: self.j,
+            j: self.i,
+        }
     }
 
     /// 1-based sheet labels, as shown to users.

@@ -16,7 +16,10 @@ impl Bounds {
 
     /// A square centred at (cx, cy) with the given half side.
     pub fn square(cx: f64, cy: f64, half: f64) -> Self {
-        Self { min: [cx - half, cy - half], max: [cx + half, cy + half] }
+        Self {
+            min: [cx - half, cy - half],
+            max: [cx + half, cy + half],
+        }
     }
 }
 
@@ -89,7 +92,10 @@ impl Settings {
         );
         check(
             (10..=10_000_000).contains(&self.step_budget),
-            format!("step_budget must be in [10, 10000000], got {}", self.step_budget),
+            format!(
+                "step_budget must be in [10, 10000000], got {}",
+                self.step_budget
+            ),
         );
         check(
             (1..=1_000_000).contains(&self.max_walls),
@@ -97,24 +103,42 @@ impl Settings {
         );
         check(
             self.max_generations <= 50,
-            format!("max_generations must be at most 50, got {}", self.max_generations),
+            format!(
+                "max_generations must be at most 50, got {}",
+                self.max_generations
+            ),
         );
         check(
-            self.puncture_radius.is_finite() && self.puncture_radius > 0.0 && self.puncture_radius <= 0.1,
-            format!("puncture_radius must be in (0, 0.1], got {}", self.puncture_radius),
+            self.puncture_radius.is_finite()
+                && self.puncture_radius > 0.0
+                && self.puncture_radius <= 0.1,
+            format!(
+                "puncture_radius must be in (0, 0.1], got {}",
+                self.puncture_radius
+            ),
         );
         check(
             self.branch_hit_radius.is_finite()
                 && self.branch_hit_radius > 0.0
                 && self.branch_hit_radius <= 1e-2,
-            format!("branch_hit_radius must be in (0, 0.01], got {}", self.branch_hit_radius),
+            format!(
+                "branch_hit_radius must be in (0, 0.01], got {}",
+                self.branch_hit_radius
+            ),
         );
         check(
             self.max_turn_rad.is_finite() && (0.005..=1.0).contains(&self.max_turn_rad),
-            format!("max_turn_rad must be in [0.005, 1], got {}", self.max_turn_rad),
+            format!(
+                "max_turn_rad must be in [0.005, 1], got {}",
+                self.max_turn_rad
+            ),
         );
         if let Some(b) = &self.bounds {
-            let finite = b.min.iter().chain(&b.max).all(|v| v.is_finite() && v.abs() < 1e12);
+            let finite = b
+                .min
+                .iter()
+                .chain(&b.max)
+                .all(|v| v.is_finite() && v.abs() < 1e12);
             check(
                 finite && b.min[0] < b.max[0] && b.min[1] < b.max[1],
                 "bounds must be a finite rectangle with min < max".to_string(),

@@ -61,7 +61,11 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
     let (a, c) = closest_pair(&roots);
     // Orient the pair so that the wall moves away from b.
     let outward = |r: &[Complex64], i: usize, j: usize| ((rot / (r[i] - r[j])) / dir).re > 0.0;
-    let (i, j) = if outward(&roots, a, c) { (a, c) } else { (c, a) };
+    let (i, j) = if outward(&roots, a, c) {
+        (a, c)
+    } else {
+        (c, a)
+    };
     for _ in 0..3 {
         let w = period_from_branch_point(curve, b, z0, roots[i] - roots[j]);
         let off = (w / rot).im;
@@ -124,7 +128,11 @@ pub fn period_from_branch_point(
         let d = roots[a] - roots[c];
         // y_i - y_j grows like s along the segment: compare with s * diff_at_end.
         let reference = diff_at_end * s;
-        let d = if (d - reference).norm() <= (d + reference).norm() { d } else { -d };
+        let d = if (d - reference).norm() <= (d + reference).norm() {
+            d
+        } else {
+            -d
+        };
         total += d * (2.0 * s) * delta * w;
     }
     total
