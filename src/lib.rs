@@ -14,3 +14,5 @@ pub use cancel::CancelToken;
 pub use curve::Curve;
 pub use network::{compute, Network};
 pub use walls::Settings;
+pub mod scenario;
+pub mod scene;
