@@ -16,3 +16,5 @@ pub use network::{compute, Network};
 pub use walls::Settings;
 pub mod scenario;
 pub mod scene;
+#[cfg(feature = "gui")]
+pub mod app;
