@@ -16,24 +16,49 @@ use wallflower::{compute, CancelToken, Curve, Settings};
 
 fn sextic() -> Curve {
     // Six generic zeros on a loose spiral (our own demo configuration).
-    let zeros: Vec<Complex64> = (0..6).map(|k| Complex64::from_polar(1.0 + 0.1 * f64::from(k), 1.1 * f64::from(k))).collect();
+    let zeros: Vec<Complex64> = (0..6)
+        .map(|k| Complex64::from_polar(1.0 + 0.1 * f64::from(k), 1.1 * f64::from(k)))
+        .collect();
     Curve::from_quadratic(Complex64::new(1.0, 0.0), &zeros, &[]).unwrap()
 }
 
 fn equation(text: &str) -> Curve {
-    Curve::from_poly_in_y(&parse_equation(text).unwrap().evaluate(&BTreeMap::new()).unwrap()).unwrap()
+    Curve::from_poly_in_y(
+        &parse_equation(text)
+            .unwrap()
+            .evaluate(&BTreeMap::new())
+            .unwrap(),
+    )
+    .unwrap()
 }
 
 fn report_counters() {
     let c = sextic();
-    let s = Settings { reach: 12.0, tolerance: 1e-9, ..Settings::default() };
+    let s = Settings {
+        reach: 12.0,
+        tolerance: 1e-9,
+        ..Settings::default()
+    };
     let net = compute(&c, 0.3, &s, &CancelToken::new());
     let per_wall = net.stats.rhs_evals as f64 / net.walls.len() as f64;
-    eprintln!("sextic reach 12, tol 1e-9: {} walls, {per_wall:.0} RHS evaluations per wall, {} points", net.walls.len(), net.stats.n_points);
+    eprintln!(
+        "sextic reach 12, tol 1e-9: {} walls, {per_wall:.0} RHS evaluations per wall, {} points",
+        net.walls.len(),
+        net.stats.n_points
+    );
     let r3 = equation("y^3 - 3*z*y + z^3 - 1 = 0");
-    let s3 = Settings { reach: 40.0, max_walls: 1000, max_generations: 50, ..Settings::default() };
+    let s3 = Settings {
+        reach: 40.0,
+        max_walls: 1000,
+        max_generations: 50,
+        ..Settings::default()
+    };
     let big = compute(&r3, 0.3, &s3, &CancelToken::new());
-    let bytes: usize = big.walls.iter().map(|w| w.points.capacity() * std::mem::size_of::<wallflower::walls::WallPoint>()).sum();
+    let bytes: usize = big
+        .walls
+        .iter()
+        .map(|w| w.points.capacity() * std::mem::size_of::<wallflower::walls::WallPoint>())
+        .sum();
     eprintln!(
         "rank 3, reach 40: {} walls, {} joints, {} points, {:.1} MB of wall points ({:?})",
         big.walls.len(),
@@ -47,12 +72,19 @@ fn report_counters() {
 fn networks(c: &mut Criterion) {
     report_counters();
     let sextic = sextic();
-    let s12 = Settings { reach: 12.0, ..Settings::default() };
+    let s12 = Settings {
+        reach: 12.0,
+        ..Settings::default()
+    };
     c.bench_function("network rank 2, 6 branch points, reach 12", |b| {
         b.iter(|| compute(black_box(&sextic), 0.3, &s12, &CancelToken::new()))
     });
     let r3 = equation("y^3 - 3*z*y + z^3 - 1 = 0");
-    let s6 = Settings { reach: 6.0, max_generations: 0, ..Settings::default() };
+    let s6 = Settings {
+        reach: 6.0,
+        max_generations: 0,
+        ..Settings::default()
+    };
     c.bench_function("primary walls rank 3, reach 6", |b| {
         b.iter(|| {
             let seeds = primary_seeds(&r3, 0.3);
@@ -61,12 +93,19 @@ fn networks(c: &mut Criterion) {
         })
     });
     let four = equation("y^3 - 3 y + z^2 = 0");
-    let s10 = Settings { reach: 10.0, max_generations: 3, ..Settings::default() };
+    let s10 = Settings {
+        reach: 10.0,
+        max_generations: 3,
+        ..Settings::default()
+    };
     c.bench_function("rank 3, 4 branch points, reach 10, 3 generations", |b| {
         b.iter(|| compute(black_box(&four), 0.3, &s10, &CancelToken::new()))
     });
     c.bench_function("curve from equation (rank 3, discriminant)", |b| {
-        let p = parse_equation("y^3 - 3*z*y + z^3 - 1 = 0").unwrap().evaluate(&BTreeMap::new()).unwrap();
+        let p = parse_equation("y^3 - 3*z*y + z^3 - 1 = 0")
+            .unwrap()
+            .evaluate(&BTreeMap::new())
+            .unwrap();
         b.iter(|| Curve::from_poly_in_y(black_box(&p)).unwrap())
     });
 }
@@ -75,7 +114,12 @@ fn crossing_search(c: &mut Criterion) {
     let four = equation("y^3 - 3 y + z^2 = 0");
     let mut group = c.benchmark_group("crossing search");
     for reach in [5.0, 10.0, 20.0, 40.0] {
-        let s = Settings { reach, max_generations: 2, bounds: Some(wallflower::walls::Bounds::square(0.0, 0.0, 1e3)), ..Settings::default() };
+        let s = Settings {
+            reach,
+            max_generations: 2,
+            bounds: Some(wallflower::walls::Bounds::square(0.0, 0.0, 1e3)),
+            ..Settings::default()
+        };
         let net = compute(&four, 0.3, &s, &CancelToken::new());
         let n_segments: usize = net.walls.iter().map(|w| w.points.len() - 1).sum();
         group.bench_with_input(BenchmarkId::new("segments", n_segments), &net, |b, net| {

@@ -11,7 +11,7 @@ use num_complex::Complex64;
 use std::collections::BTreeMap;
 use wallflower::algebra::parse_equation;
 use wallflower::quad::gauss_legendre_unit;
-use wallflower::walls::{EndReason, Wall};
+use wallflower::walls::{EndReason, Origin, Wall};
 use wallflower::{compute, CancelToken, Curve, Settings};
 
 fn roots(curve: &Curve, z: Complex64) -> Vec<Complex64> {
@@ -28,8 +28,31 @@ fn follow(rs: &[Complex64], prev_i: Complex64, prev_j: Complex64) -> (Complex64,
     (near(prev_i), near(prev_j))
 }
 
-/// Independent |W| along the wall's points (a primary wall: points[0] is its branch point).
+/// Independent |W| along a child wall's points, which start at its joint
+/// (the two sheets are those of its type there, labelled afresh).
+fn independent_child_mass(curve: &Curve, wall: &Wall) -> f64 {
+    let rule = gauss_legendre_unit(10);
+    let r0 = curve.sheets_at(wall.points[0].z).unwrap();
+    let (mut yi, mut yj) = (r0[wall.kind.i as usize], r0[wall.kind.j as usize]);
+    let mut total = Complex64::new(0.0, 0.0);
+    for seg in wall.points.windows(2) {
+        let (za, zb) = (seg[0].z, seg[1].z);
+        for &(s, w) in &rule {
+            let (ni, nj) = follow(&roots(curve, za + (zb - za) * s), yi, yj);
+            total += (ni - nj) * (zb - za) * w;
+            (yi, yj) = (ni, nj);
+        }
+        (yi, yj) = follow(&roots(curve, zb), yi, yj);
+    }
+    total.norm()
+}
+
+/// Independent |W| along the wall's points, from where the wall starts:
+/// for a primary wall points[0] is its branch point.
 pub fn independent_mass(curve: &Curve, wall: &Wall) -> f64 {
+    if matches!(wall.origin, Origin::Joint { .. }) {
+        return wall.points[0].mass + independent_child_mass(curve, wall);
+    }
     let rule = gauss_legendre_unit(10);
     let b = wall.points[0].z;
     let z1 = wall.points[1].z;
@@ -75,6 +98,12 @@ fn check_curve(label: &str, curve: &Curve, theta: f64, reach: f64) {
     };
     let net = compute(curve, theta, &settings, &CancelToken::new());
     assert!(!net.walls.is_empty(), "{label}: no walls");
+    if curve.rank >= 3 {
+        assert!(
+            !net.joints.is_empty(),
+            "{label}: expected joints to check child walls too"
+        );
+    }
     for (k, w) in net.walls.iter().enumerate() {
         if matches!(w.end, EndReason::Degenerate(_) | EndReason::Cancelled) {
             panic!("{label}: wall {k} ended {:?}", w.end);

@@ -82,7 +82,7 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
     }
     let w = period_from_branch_point(curve, b, z0, roots[i], roots[j]);
     let mass = (w / rot).re;
-    if !(mass > 0.0) || !mass.is_finite() {
+    if mass.is_nan() || mass <= 0.0 || !mass.is_finite() {
         return None;
     }
     Some(WallSeed {
