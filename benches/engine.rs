@@ -11,7 +11,6 @@ use std::collections::BTreeMap;
 use std::hint::black_box;
 use wallflower::algebra::parse_equation;
 use wallflower::network::crossings::SegmentGrid;
-use wallflower::walls::primary_seeds;
 use wallflower::{compute, CancelToken, Curve, Settings};
 
 fn sextic() -> Curve {
@@ -86,11 +85,7 @@ fn networks(c: &mut Criterion) {
         ..Settings::default()
     };
     c.bench_function("primary walls rank 3, reach 6", |b| {
-        b.iter(|| {
-            let seeds = primary_seeds(&r3, 0.3);
-            black_box(seeds.len());
-            compute(black_box(&r3), 0.3, &s6, &CancelToken::new())
-        })
+        b.iter(|| compute(black_box(&r3), 0.3, &s6, &CancelToken::new()))
     });
     let four = equation("y^3 - 3 y + z^2 = 0");
     let s10 = Settings {

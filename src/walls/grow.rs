@@ -127,7 +127,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     let mut h = 0.05 * curve.distance_to_singular(z).min(scale) / f0.norm();
     let reach = settings.reach;
     let mut stages = [Complex64::new(0.0, 0.0); 7];
-    let mut stage_roots: Vec<Complex64> = Vec::new();
+    let mut stage_roots: Vec<Complex64> = roots.clone();
     loop {
         if t >= reach * (1.0 - 1e-14) {
             return EndReason::Reach;
@@ -157,22 +157,17 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
                 dz += stages[k] * *a;
             }
             let zs = z + dz * h;
-            match curve.step_roots(&roots, zs) {
-                Some(r) => {
-                    stages[s] = rhs(&r, i, j);
-                    wall.rhs_evals += 1;
-                    if !stages[s].is_finite() {
-                        refused = true;
-                        break;
-                    }
-                    if s == 6 {
-                        stage_roots = r;
-                    }
-                }
-                None => {
-                    refused = true;
-                    break;
-                }
+            // Only the last stage's roots are kept (they are the roots at
+            // the step's end, FSAL); earlier stages reuse the same buffer.
+            if !curve.step_roots_into(&roots, zs, &mut stage_roots) {
+                refused = true;
+                break;
+            }
+            stages[s] = rhs(&stage_roots, i, j);
+            wall.rhs_evals += 1;
+            if !stages[s].is_finite() {
+                refused = true;
+                break;
             }
         }
         if refused {

@@ -76,7 +76,7 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
         let moved = z0 + delta;
         roots = curve.step_roots(&roots, moved)?;
         z0 = moved;
-        if delta.norm() < 1e-15 * (1.0 + z0.norm()) {
+        if delta.norm() < 1e-12 * r0 {
             break;
         }
     }
