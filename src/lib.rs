@@ -6,6 +6,7 @@
 pub mod algebra;
 pub mod cancel;
 pub mod curve;
+pub mod export;
 pub mod network;
 pub mod quad;
 pub mod walls;
@@ -14,7 +15,7 @@ pub use cancel::CancelToken;
 pub use curve::Curve;
 pub use network::{compute, Network};
 pub use walls::Settings;
-pub mod scenario;
-pub mod scene;
 #[cfg(feature = "gui")]
 pub mod app;
+pub mod scenario;
+pub mod scene;
