@@ -92,11 +92,19 @@ pub fn independent_mass(curve: &Curve, wall: &Wall) -> f64 {
 }
 
 fn check_curve(label: &str, curve: &Curve, theta: f64, reach: f64) {
-    let settings = Settings {
-        reach,
-        ..Settings::default()
-    };
-    let net = compute(curve, theta, &settings, &CancelToken::new());
+    check_curve_with(
+        label,
+        curve,
+        theta,
+        &Settings {
+            reach,
+            ..Settings::default()
+        },
+    );
+}
+
+fn check_curve_with(label: &str, curve: &Curve, theta: f64, settings: &Settings) {
+    let net = compute(curve, theta, settings, &CancelToken::new());
     assert!(!net.walls.is_empty(), "{label}: no walls");
     if curve.rank >= 3 {
         assert!(
@@ -122,6 +130,34 @@ fn check_curve(label: &str, curve: &Curve, theta: f64, reach: f64) {
 fn eq(text: &str, params: &[(&str, Complex64)]) -> Curve {
     let p: BTreeMap<String, Complex64> = params.iter().map(|(n, v)| (n.to_string(), *v)).collect();
     Curve::from_poly_in_y(&parse_equation(text).unwrap().evaluate(&p).unwrap()).unwrap()
+}
+
+/// Every wall of every worked scenario in scenarios/.
+#[test]
+fn masses_agree_for_every_scenario() {
+    let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("scenarios");
+    let mut n_files = 0;
+    let mut names: Vec<_> = std::fs::read_dir(&dir)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .collect();
+    names.sort();
+    for path in names
+        .iter()
+        .filter(|p| p.extension().is_some_and(|e| e == "ron"))
+    {
+        let text = std::fs::read_to_string(path).unwrap();
+        let scenario = wallflower::scenario::Scenario::from_ron(&text).unwrap();
+        let curve = scenario.build_curve().unwrap();
+        let settings = scenario.settings().unwrap();
+        let label = path.file_name().unwrap().to_string_lossy().to_string();
+        check_curve_with(&label, &curve, scenario.phase, &settings);
+        n_files += 1;
+    }
+    assert!(
+        n_files >= 6,
+        "expected the six worked scenarios, found {n_files}"
+    );
 }
 
 #[test]
