@@ -295,3 +295,22 @@ fn unknown_keys_warn_on_stderr_and_still_run() {
     let v: Value = serde_json::from_str(&stdout).unwrap();
     assert_eq!(v["walls"].as_array().unwrap().len(), 3);
 }
+
+/// Regression: a reader that stops early (`wallflower network | head -1`)
+/// made the binary panic on the broken pipe.
+#[test]
+fn a_closed_stdout_is_not_a_panic() {
+    use std::process::Stdio;
+    let mut child = Command::new(env!("CARGO_BIN_EXE_wallflower"))
+        .args(["network", &scenario("rank-three.ron"), "--json"])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    // Close our end of the pipe before the child writes its ~100 kB.
+    drop(child.stdout.take());
+    let out = child.wait_with_output().unwrap();
+    let stderr = String::from_utf8_lossy(&out.stderr);
+    assert!(!stderr.contains("panicked"), "{stderr}");
+    assert_eq!(out.status.code(), Some(0), "{stderr}");
+}

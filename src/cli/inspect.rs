@@ -5,6 +5,7 @@
 use super::bad_input;
 use super::json::{BranchPointJson, PunctureJson};
 use super::source::{load, SourceArgs};
+use super::{emit, say};
 use clap::Args;
 use num_complex::Complex64;
 use serde::Serialize;
@@ -59,6 +60,7 @@ fn fmt_z(z: Complex64) -> String {
 }
 
 pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
+    let mut out = String::new();
     let at = args.at.as_deref().map(parse_point).transpose()?;
     let loaded = load(&args.source)?;
     loaded.print_warnings();
@@ -74,7 +76,7 @@ pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
         },
     };
     if args.json {
-        let out = InspectJson {
+        let doc = InspectJson {
             title: loaded.scenario.title.clone(),
             curve: loaded.scenario.curve.clone(),
             rank: curve.rank,
@@ -87,19 +89,21 @@ pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
             }),
             warnings: loaded.warnings.clone(),
         };
-        println!("{}", serde_json::to_string(&out)?);
+        emit(&serde_json::to_string(&doc)?)?;
+        emit("\n")?;
         return Ok(ExitCode::SUCCESS);
     }
     let what = match &loaded.scenario.curve {
         Some(eq) => eq.clone(),
         None => "factored y^2 = q(z)".to_string(),
     };
-    println!("{}: {what} (rank {})", loaded.label, curve.rank);
-    println!("branch points: {}", curve.branch_points.len());
+    say!(out, "{}: {what} (rank {})", loaded.label, curve.rank);
+    say!(out, "branch points: {}", curve.branch_points.len());
     if !curve.branch_points.is_empty() {
-        println!("{:>4}  {:>26}  sheets  simple  order", "#", "z");
+        say!(out, "{:>4}  {:>26}  sheets  simple  order", "#", "z");
         for (idx, bp) in curve.branch_points.iter().enumerate() {
-            println!(
+            say!(
+                out,
                 "{:>4}  {:>26}  {:>6}  {:>6}  {:>5}",
                 idx + 1,
                 fmt_z(bp.z),
@@ -109,19 +113,20 @@ pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
             );
         }
     }
-    println!("punctures: {}", curve.punctures.len());
+    say!(out, "punctures: {}", curve.punctures.len());
     if !curve.punctures.is_empty() {
-        println!("{:>4}  {:>26}  order", "#", "z");
+        say!(out, "{:>4}  {:>26}  order", "#", "z");
         for (idx, p) in curve.punctures.iter().enumerate() {
             let z = p.z.map_or_else(|| "infinity".to_string(), fmt_z);
-            println!("{:>4}  {:>26}  {:>5}", idx + 1, z, p.order);
+            say!(out, "{:>4}  {:>26}  {:>5}", idx + 1, z, p.order);
         }
     }
     if let Some((z, y)) = sheets {
-        println!("sheets at {}:", fmt_z(z));
+        say!(out, "sheets at {}:", fmt_z(z));
         for (idx, v) in y.iter().enumerate() {
-            println!("{:>4}  y = {}", idx + 1, fmt_z(*v));
+            say!(out, "{:>4}  y = {}", idx + 1, fmt_z(*v));
         }
     }
+    emit(&out)?;
     Ok(ExitCode::SUCCESS)
 }

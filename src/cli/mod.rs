@@ -40,6 +40,30 @@ macro_rules! bad_input {
 }
 pub(crate) use bad_input;
 
+/// Appends one formatted line to a `String` buffer (writing to a `String`
+/// cannot fail).
+macro_rules! say {
+    ($out:expr, $($arg:tt)*) => {{
+        use std::fmt::Write as _;
+        let _ = writeln!($out, $($arg)*);
+    }};
+}
+pub(crate) use say;
+
+/// Writes `text` to stdout. A closed pipe (`wallflower network | head`) is
+/// not an error: the reader has what it wanted.
+pub fn emit(text: &str) -> anyhow::Result<()> {
+    use std::io::Write as _;
+    let mut stdout = std::io::stdout().lock();
+    match stdout
+        .write_all(text.as_bytes())
+        .and_then(|()| stdout.flush())
+    {
+        Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(e.into()),
+        _ => Ok(()),
+    }
+}
+
 /// Joins the lines of `text` into one, collapsing runs of whitespace.
 pub fn one_line(text: &str) -> String {
     text.split_whitespace().collect::<Vec<_>>().join(" ")
@@ -154,6 +178,7 @@ fn open_window(_file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
 }
 
 fn check(args: &SourceArgs) -> anyhow::Result<ExitCode> {
+    let mut out = String::new();
     let loaded = source::load(args)?;
     loaded.print_warnings();
     let curve = &loaded.curve;
@@ -162,7 +187,8 @@ fn check(args: &SourceArgs) -> anyhow::Result<ExitCode> {
     } else {
         format!(" \"{}\"", loaded.scenario.title)
     };
-    println!(
+    say!(
+        out,
         "{}{title}: ok; rank {}, {} branch point{}, {} puncture{}, phase {}, reach {}",
         loaded.label,
         curve.rank,
@@ -177,5 +203,6 @@ fn check(args: &SourceArgs) -> anyhow::Result<ExitCode> {
         loaded.theta,
         loaded.settings.reach,
     );
+    emit(&out)?;
     Ok(ExitCode::SUCCESS)
 }

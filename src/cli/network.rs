@@ -3,10 +3,12 @@
 
 use super::json::NetworkJson;
 use super::source::{load, SourceArgs};
+use super::{emit, say};
 use std::process::ExitCode;
 use wallflower::{compute, CancelToken};
 
 pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
+    let mut out = String::new();
     let loaded = load(args)?;
     loaded.print_warnings();
     let net = compute(
@@ -16,16 +18,18 @@ pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
         &CancelToken::new(),
     );
     if json {
-        let out = NetworkJson::new(
+        let doc = NetworkJson::new(
             &loaded.scenario.title,
             loaded.curve.rank,
             &net,
             &loaded.warnings,
         );
-        println!("{}", serde_json::to_string(&out)?);
+        emit(&serde_json::to_string(&doc)?)?;
+        emit("\n")?;
         return Ok(ExitCode::SUCCESS);
     }
-    println!(
+    say!(
+        out,
         "{}: rank {}, phase {}, reach {}: {} walls, {} joints",
         loaded.label,
         loaded.curve.rank,
@@ -34,12 +38,18 @@ pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
         net.walls.len(),
         net.joints.len()
     );
-    println!(
+    say!(
+        out,
         "{:>5}  {:>4}  {:>5}  {:>10}  {:>7}  end",
-        "wall", "type", "mult", "mass", "points"
+        "wall",
+        "type",
+        "mult",
+        "mass",
+        "points"
     );
     for (idx, w) in net.walls.iter().enumerate() {
-        println!(
+        say!(
+            out,
             "{:>5}  {:>4}  {:>5}  {:>10.6}  {:>7}  {}",
             idx,
             w.kind.to_string(),
@@ -50,9 +60,10 @@ pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
         );
     }
     if !net.joints.is_empty() {
-        println!("{:>5}  {:>24}  parents  child", "joint", "z");
+        say!(out, "{:>5}  {:>24}  parents  child", "joint", "z");
         for (idx, j) in net.joints.iter().enumerate() {
-            println!(
+            say!(
+                out,
                 "{:>5}  {:>24}  {:>3} {:>3}  {:>5}",
                 idx,
                 format!("{:.6}{:+.6}i", j.z.re, j.z.im),
@@ -67,5 +78,6 @@ pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
             eprintln!("warning: {}", super::one_line(&w.message));
         }
     }
+    emit(&out)?;
     Ok(ExitCode::SUCCESS)
 }
