@@ -134,3 +134,20 @@ fn latex_output() {
         "{out}"
     );
 }
+
+#[test]
+fn inspect_reports_flatness() {
+    let scenario = concat!(env!("CARGO_MANIFEST_DIR"), "/scenarios/rank-three.ron");
+    let (code, out, err) = run(&["inspect", scenario, "--json"]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let f = &v["flatness"];
+    assert!(
+        !f["joints"].as_array().unwrap().is_empty(),
+        "the rank-3 scenario has joints"
+    );
+    assert!(f["worst"].as_f64().unwrap() < 1e-12, "{f}");
+    let (code, out, _) = run(&["inspect", scenario]);
+    assert_eq!(code, 0);
+    assert!(out.contains("flatness at phase"), "{out}");
+}
