@@ -18,3 +18,4 @@ pub use walls::Settings;
 pub mod app;
 pub mod scenario;
 pub mod scene;
+pub mod spectrum;
