@@ -40,7 +40,7 @@ pub use settings::SpectrumSettings;
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
 use crate::network::default_bounds;
-use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Settings, Wall};
+use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Origin, Settings, Wall};
 use num_complex::Complex64;
 use period::Quadratic;
 use serde::{Deserialize, Serialize};
@@ -184,6 +184,13 @@ pub fn find(
     finder.into_spectrum(warnings)
 }
 
+/// A charge to confirm, and the branch point its saddle would start from
+/// when known (then only that point's walls are grown).
+struct Candidate {
+    z: Complex64,
+    from: Option<usize>,
+}
+
 /// The state of one run of [`find`].
 struct Finder<'a> {
     curve: &'a Curve,
@@ -195,7 +202,7 @@ struct Finder<'a> {
     states: Vec<BpsState>,
     /// Candidate charges already confirmed or rejected.
     tried: Vec<Complex64>,
-    queue: Vec<Complex64>,
+    queue: Vec<Candidate>,
     stats: SpectrumStats,
     cancelled: bool,
     budget_hit: bool,
@@ -241,8 +248,9 @@ impl<'a> Finder<'a> {
         }
     }
 
-    /// The primary walls at phase `theta`, reaching just past the reach.
-    fn walls_at(&mut self, theta: f64, tolerance: f64) -> Vec<Wall> {
+    /// The primary walls at phase `theta` (only those from branch point
+    /// `from` if given), reaching just past the reach.
+    fn walls_at(&mut self, theta: f64, tolerance: f64, from: Option<usize>) -> Vec<Wall> {
         let settings = self.wall_settings(tolerance, self.settings.reach * (1.0 + 1e-6));
         let ctx = GrowContext {
             curve: self.curve,
@@ -253,6 +261,10 @@ impl<'a> Finder<'a> {
         };
         let walls: Vec<Wall> = primary_seeds(self.curve, theta)
             .into_iter()
+            .filter(|seed| match (from, seed.origin) {
+                (Some(f), Origin::BranchPoint { index, .. }) => index == f,
+                _ => true,
+            })
             .map(|seed| grow_wall(&ctx, seed))
             .collect();
         self.stats.walls_grown += walls.len();
@@ -269,7 +281,10 @@ impl<'a> Finder<'a> {
             }
             if pair.branch_points.iter().all(Option::is_some) && pair.period.norm() < 2.0 * reach
             {
-                self.queue.push(pair.period * 0.5);
+                self.queue.push(Candidate {
+                    z: pair.period * 0.5,
+                    from: pair.branch_points[0],
+                });
             }
         }
         self.drain_queue();
@@ -280,11 +295,17 @@ impl<'a> Finder<'a> {
                 break;
             }
             let theta = PI * (m as f64 + 0.5) / n as f64;
-            let walls = self.walls_at(theta, self.settings.scan_tolerance);
+            let walls = self.walls_at(theta, self.settings.scan_tolerance, None);
             for wall in &walls {
                 for pass in saddle::passes(&self.quad, self.curve, wall, theta, &self.radii) {
-                    if pass.z_wall.norm() < reach * (1.0 + 1e-6) {
-                        self.queue.push(pass.z_wall);
+                    if pass.z_wall.norm() < reach * (1.0 + 1e-6) && !self.known(pass.z_wall) {
+                        // The class's exact period: its phase is the
+                        // critical phase, so confirmation starts there.
+                        let z = saddle::quadrature_charge(&self.quad, wall, &pass, theta);
+                        self.queue.push(Candidate {
+                            z,
+                            from: Some(pass.from),
+                        });
                     }
                 }
             }
@@ -314,7 +335,7 @@ impl<'a> Finder<'a> {
     }
 
     fn drain_queue(&mut self) {
-        while let Some(z) = self.queue.pop() {
+        while let Some(Candidate { z, from }) = self.queue.pop() {
             if self.stop() {
                 return;
             }
@@ -327,7 +348,7 @@ impl<'a> Finder<'a> {
             }
             self.stats.candidates_tried += 1;
             self.tried.push(z);
-            if let Some(state) = self.confirm_hyper(z) {
+            if let Some(state) = self.confirm_hyper(z, from) {
                 if !self.known_state(state.z) {
                     self.add_lattice_candidates(&state);
                     self.states.push(state);
@@ -358,14 +379,14 @@ impl<'a> Finder<'a> {
                     for n in -n_max..=n_max {
                         let z = h + v * n as f64;
                         if z.norm() < reach {
-                            self.queue.push(z);
+                            self.queue.push(Candidate { z, from: None });
                         }
                     }
                 }
                 (Kind::Hyper, Kind::Hyper) => {
                     for z in [s.z + new.z, s.z - new.z] {
                         if z.norm() < reach {
-                            self.queue.push(z);
+                            self.queue.push(Candidate { z, from: None });
                         }
                     }
                 }
@@ -415,14 +436,14 @@ impl<'a> Finder<'a> {
 
     /// Re-integrates at the candidate's phase until the phase settles; a
     /// state if a wall then reaches the far branch point with this charge.
-    fn confirm_hyper(&mut self, candidate: Complex64) -> Option<BpsState> {
+    fn confirm_hyper(&mut self, candidate: Complex64, from: Option<usize>) -> Option<BpsState> {
         let mut z_cand = candidate;
         let mut theta = phase_mod_pi(z_cand.arg());
         for _ in 0..MAX_REFINE {
             if self.stop() {
                 return None;
             }
-            let walls = self.walls_at(theta, self.settings.tolerance);
+            let walls = self.walls_at(theta, self.settings.tolerance, from);
             let mut best: Option<(usize, saddle::Pass, f64)> = None;
             for (w_idx, wall) in walls.iter().enumerate() {
                 for pass in saddle::passes(&self.quad, self.curve, wall, theta, &self.radii) {

@@ -10,9 +10,10 @@ pub struct SpectrumSettings {
     /// the wall reach of the default network settings.
     pub reach: f64,
     /// Phases sampled uniformly in [0, pi) by the scan. Range [8, 100 000].
-    /// Default 180 (one degree): each sample proposes the exact critical
-    /// phase of every saddle whose wall passes near its far branch point,
-    /// so the scan only has to land in a wide window around each phase.
+    /// Default 64: each sample proposes the exact critical phase of every
+    /// saddle whose wall passes near its far branch point, so the scan only
+    /// has to land in a wide window around each phase, and the charge
+    /// lattice proposes the phases that accumulate.
     pub theta_samples: usize,
     /// Integrator tolerance of the scan (relative, see
     /// [`crate::walls::Settings::tolerance`]). Range [1e-12, 1e-4].
@@ -39,7 +40,7 @@ impl Default for SpectrumSettings {
     fn default() -> Self {
         Self {
             reach: 8.0,
-            theta_samples: 180,
+            theta_samples: 64,
             scan_tolerance: 1e-7,
             tolerance: 1e-10,
             phase_tolerance: 1e-10,
