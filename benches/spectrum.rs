@@ -4,7 +4,6 @@
 //! reach 10, target under 300 ms.
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use num_complex::Complex64;
 use std::collections::BTreeMap;
 use std::hint::black_box;
 use std::time::Duration;
@@ -44,13 +43,19 @@ fn spectrum(c: &mut Criterion) {
         reach: 10.0,
         ..SpectrumSettings::default()
     };
-    let _ = Complex64::new(0.0, 0.0);
     let mut group = c.benchmark_group("spectrum");
     group.sample_size(10);
     group.warm_up_time(Duration::from_millis(500));
     group.measurement_time(Duration::from_secs(5));
     group.bench_function("su2_u3_reach_8zw", |b| {
-        b.iter(|| find(black_box(&su2), &su2_settings, &CancelToken::new(), &mut |_| {}))
+        b.iter(|| {
+            find(
+                black_box(&su2),
+                &su2_settings,
+                &CancelToken::new(),
+                &mut |_| {},
+            )
+        })
     });
     group.bench_function("quartic_reach_10", |b| {
         b.iter(|| {

@@ -70,7 +70,10 @@ fn pick(d: Complex64, prev: Complex64) -> Complex64 {
 fn leg(u: Complex64, b: Complex64, w: Complex64, d_w: Complex64) -> Complex64 {
     let rule = gauss_legendre_unit(48);
     let mut nodes: Vec<(f64, f64)> = (0..8)
-        .flat_map(|p| rule.iter().map(move |&(x, wt)| ((p as f64 + x) / 8.0, wt / 8.0)))
+        .flat_map(|p| {
+            rule.iter()
+                .map(move |&(x, wt)| ((p as f64 + x) / 8.0, wt / 8.0))
+        })
         .collect();
     nodes.sort_by(|a, b| b.0.total_cmp(&a.0));
     let delta = w - b;

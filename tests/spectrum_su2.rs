@@ -130,7 +130,7 @@ fn loop_integral(u: f64, centre: Complex64, radius: f64) -> Complex64 {
 fn weak_coupling_w_boson_and_dyon_tower() {
     let u = 3.0;
     let z_w = loop_integral(u, Complex64::new(0.0, 0.0), 1.0);
-    let reach = 4.5 * z_w.norm();
+    let reach = 8.0 * z_w.norm();
     let spec = spectrum(u, reach);
     let vectors: Vec<_> = spec
         .states
@@ -155,7 +155,7 @@ fn weak_coupling_w_boson_and_dyon_tower() {
         .map(|n| z_d + z_w * n as f64)
         .filter(|z| z.norm() < reach)
         .collect();
-    assert!(tower.len() >= 7, "a tower of {} only", tower.len());
+    assert!(tower.len() >= 15, "a tower of {} only", tower.len());
     let hypers: Vec<_> = spec
         .states
         .iter()

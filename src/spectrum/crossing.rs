@@ -40,7 +40,11 @@ pub struct CrossingReport {
 
 /// Counts of states by kind: what must change for a crossing.
 fn signature(s: &Spectrum) -> [usize; 3] {
-    [s.count(Kind::Hyper), s.count(Kind::Vector), s.count(Kind::Other)]
+    [
+        s.count(Kind::Hyper),
+        s.count(Kind::Vector),
+        s.count(Kind::Other),
+    ]
 }
 
 /// Follows the spectrum from `from` to `to` in `steps` equal steps, then

@@ -279,8 +279,7 @@ impl<'a> Finder<'a> {
             if pair.period.norm() < reach {
                 self.try_vector(pair);
             }
-            if pair.branch_points.iter().all(Option::is_some) && pair.period.norm() < 2.0 * reach
-            {
+            if pair.branch_points.iter().all(Option::is_some) && pair.period.norm() < 2.0 * reach {
                 self.queue.push(Candidate {
                     z: pair.period * 0.5,
                     from: pair.branch_points[0],
@@ -467,8 +466,7 @@ impl<'a> Finder<'a> {
                     return None;
                 }
                 let z = Complex64::from_polar(z_quad.norm(), theta_new);
-                let mut web: Vec<Complex64> =
-                    wall.points[..=pass.k].iter().map(|p| p.z).collect();
+                let mut web: Vec<Complex64> = wall.points[..=pass.k].iter().map(|p| p.z).collect();
                 web.push(pass.target_z);
                 return Some(BpsState {
                     z,

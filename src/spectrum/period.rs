@@ -47,7 +47,10 @@ impl Quadratic {
         let base = gauss_legendre_unit(12);
         let mut endpoint_rule = Vec::with_capacity(base.len() * ENDPOINT_PANELS);
         for p in 0..ENDPOINT_PANELS {
-            let (a, h) = (p as f64 / ENDPOINT_PANELS as f64, 1.0 / ENDPOINT_PANELS as f64);
+            let (a, h) = (
+                p as f64 / ENDPOINT_PANELS as f64,
+                1.0 / ENDPOINT_PANELS as f64,
+            );
             endpoint_rule.extend(base.iter().map(|&(x, w)| (a + h * x, h * w)));
         }
         Self {

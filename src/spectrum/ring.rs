@@ -21,7 +21,9 @@
 use super::period::Quadratic;
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
-use crate::walls::{grow_wall, Bounds, EndReason, GrowContext, Origin, Settings, WallSeed, WallType};
+use crate::walls::{
+    grow_wall, Bounds, EndReason, GrowContext, Origin, Settings, WallSeed, WallType,
+};
 use num_complex::Complex64;
 
 /// The loop around a pair of odd singular points and its period.
@@ -182,7 +184,10 @@ fn room_from(curve: &Curve, base: Complex64, foci: &[Complex64; 2]) -> f64 {
     curve
         .singular_points
         .iter()
-        .filter(|s| foci.iter().all(|f| (*s - f).norm() > 1e-9 * len.max(1e-300)))
+        .filter(|s| {
+            foci.iter()
+                .all(|f| (*s - f).norm() > 1e-9 * len.max(1e-300))
+        })
         .map(|s| (s - base).norm())
         .fold(curve.length_scale().max(2.0 * len), f64::min)
 }
