@@ -184,6 +184,10 @@ fn pentagon_across_the_wall_of_marginal_stability() {
         }
     }
     let t_star = 0.5 * (a + b);
+    println!(
+        "crossing located at t = {:.9}, direct arg Z_g1 = arg Z_g2 at t = {t_star:.9}",
+        c.parameter
+    );
     assert!(
         (c.parameter - t_star).abs() < 1e-6,
         "crossing at {} vs arg Z_g1 = arg Z_g2 at {t_star}",
