@@ -107,6 +107,15 @@ fn progress_bar(what: &str) -> ProgressBar {
     bar
 }
 
+/// A number for CSV: shortest round-trip form, in exponent notation when tiny.
+fn num(x: f64) -> String {
+    if x != 0.0 && x.abs() < 1e-4 {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
+}
+
 fn fmt_z(z: Complex64) -> String {
     format!("{:.10}{:+.10}i", z.re, z.im)
 }
@@ -140,14 +149,14 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
         for s in &found.states {
             out.push_str(&format!(
                 "{},{},{},{},{},{},{}\n",
-                s.z.re,
-                s.z.im,
-                s.abs,
-                s.phase,
+                num(s.z.re),
+                num(s.z.im),
+                num(s.abs),
+                num(s.phase),
                 kind_name(s.kind),
                 s.omega
                     .map_or_else(|| "unknown".to_string(), |o| o.to_string()),
-                s.z_error
+                num(s.z_error)
             ));
         }
         emit(&out)?;
@@ -219,7 +228,21 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
     if args.steps == 0 || args.steps > 10_000 {
         bad_input!("--steps must be between 1 and 10000, got {}", args.steps);
     }
-    let loaded = load(&args.source)?;
+    // The path's start is the parameter's value for loading.
+    let source = SourceArgs {
+        file: args.source.file.clone(),
+        curve: args.source.curve.clone(),
+        set: args
+            .source
+            .set
+            .iter()
+            .cloned()
+            .chain(std::iter::once(args.from.clone()))
+            .collect(),
+        phase: args.source.phase,
+        reach: args.source.reach,
+    };
+    let loaded = load(&source)?;
     loaded.print_warnings();
     if !loaded.scenario.parameter_names().contains(&name) {
         bad_input!(
