@@ -2,19 +2,8 @@
 //! simple branch point gives the identity (Airy Stokes relation closed by the
 //! cut, NIST DLMF 9.2.12), a short path across one wall gives 1 + mu e_ij.
 
-use std::process::Command;
-
-fn run(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_wallflower"))
-        .args(args)
-        .output()
-        .unwrap();
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into(),
-        String::from_utf8_lossy(&out.stderr).into(),
-    )
-}
+mod common;
+use common::run;
 
 fn matrix(json: &serde_json::Value) -> Vec<Vec<(f64, f64)>> {
     json["matrix"]

@@ -5,19 +5,8 @@
 //! 2 -> 3 with Z_(g1+g2) = Z_g1 + Z_g2 (the pentagon identity,
 //! Kontsevich-Soibelman; Gaiotto-Moore-Neitzke 2008).
 
-use std::process::Command;
-
-fn run(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_wallflower"))
-        .args(args)
-        .output()
-        .unwrap();
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into(),
-        String::from_utf8_lossy(&out.stderr).into(),
-    )
-}
+mod common;
+use common::run;
 
 #[test]
 fn oscillator_json_contract() {
