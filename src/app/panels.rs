@@ -1,0 +1,482 @@
+//! The controls around the canvas: the file and export bar, the curve
+//! editor, the phase control and the status bar. They only read state and
+//! push commands (local widget buffers aside).
+
+use super::command::{Command, PointRef, Selection};
+use super::explorer::{Tool, WallflowerApp};
+use crate::scenario::Theme;
+use eframe::egui::{self, Color32, RichText};
+use num_complex::Complex64;
+use std::f64::consts::TAU;
+use std::path::PathBuf;
+
+/// Phase step of the fine step buttons and keys, in degrees.
+pub const FINE_STEP_DEG: f64 = 0.5;
+
+fn error_color(ui: &egui::Ui) -> Color32 {
+    ui.visuals().error_fg_color
+}
+
+impl WallflowerApp {
+    pub(super) fn top_bar(&mut self, ui: &mut egui::Ui) {
+        egui::Panel::top("file_bar").show(ui, |ui| {
+            if self.recovery_offer.is_some() {
+                ui.horizontal(|ui| {
+                    ui.label(
+                        RichText::new("Unsaved edits from an earlier session were kept.")
+                            .color(ui.visuals().warn_fg_color),
+                    );
+                    if ui.button("Restore them").clicked() {
+                        self.commands.push(Command::RestoreRecovery);
+                    }
+                    if ui.button("Discard").clicked() {
+                        self.commands.push(Command::DiscardRecovery);
+                    }
+                });
+            }
+            ui.horizontal_wrapped(|ui| {
+                let l = ui.label("File");
+                ui.add(egui::TextEdit::singleline(&mut self.path_field).desired_width(220.0))
+                    .labelled_by(l.id);
+                let field = PathBuf::from(self.path_field.trim());
+                if ui.button("Open").clicked() {
+                    self.commands.push(Command::Open(field.clone()));
+                }
+                if ui.button("Save").on_hover_text("Ctrl+S").clicked() {
+                    self.commands.push(Command::Save);
+                }
+                if ui
+                    .button("Save as")
+                    .on_hover_text("save to the path in the field")
+                    .clicked()
+                {
+                    self.commands.push(Command::SaveAs(field));
+                }
+                ui.menu_button("Recent", |ui| {
+                    if self.recent.is_empty() {
+                        ui.label("no recent files");
+                    }
+                    for p in self.recent.clone() {
+                        if ui.button(p.display().to_string()).clicked() {
+                            self.commands.push(Command::Open(p));
+                            ui.close();
+                        }
+                    }
+                });
+                ui.separator();
+                if ui
+                    .add_enabled(self.history.can_undo(), egui::Button::new("Undo"))
+                    .on_hover_text("Ctrl+Z")
+                    .clicked()
+                {
+                    self.commands.push(Command::Undo);
+                }
+                if ui
+                    .add_enabled(self.history.can_redo(), egui::Button::new("Redo"))
+                    .on_hover_text("Ctrl+Shift+Z")
+                    .clicked()
+                {
+                    self.commands.push(Command::Redo);
+                }
+                ui.separator();
+                let mut theme = self.scenario.theme;
+                ui.selectable_value(&mut theme, Theme::Paper, "Paper")
+                    .on_hover_text("light canvas, for papers");
+                ui.selectable_value(&mut theme, Theme::Projector, "Projector")
+                    .on_hover_text("dark canvas, for talks");
+                if theme != self.scenario.theme {
+                    self.commands.push(Command::SetTheme(theme));
+                }
+                ui.checkbox(&mut self.show_labels, "Wall labels");
+                if ui.button("Fit").on_hover_text("F").clicked() {
+                    self.commands.push(Command::Fit);
+                }
+                ui.separator();
+                let l = ui.label("Export to");
+                ui.add(egui::TextEdit::singleline(&mut self.export_path).desired_width(150.0))
+                    .labelled_by(l.id);
+                ui.add(
+                    egui::DragValue::new(&mut self.export_size[0])
+                        .range(16..=8000)
+                        .suffix(" px"),
+                )
+                .on_hover_text("width");
+                ui.label("x");
+                ui.add(
+                    egui::DragValue::new(&mut self.export_size[1])
+                        .range(16..=8000)
+                        .suffix(" px"),
+                )
+                .on_hover_text("height");
+                egui::ComboBox::from_id_salt("export_theme")
+                    .selected_text(match self.export_theme {
+                        Theme::Paper => "paper",
+                        Theme::Projector => "projector",
+                    })
+                    .show_ui(ui, |ui| {
+                        ui.selectable_value(&mut self.export_theme, Theme::Paper, "paper");
+                        ui.selectable_value(&mut self.export_theme, Theme::Projector, "projector");
+                    });
+                if ui
+                    .button("Export")
+                    .on_hover_text("SVG or PNG, by the file extension")
+                    .clicked()
+                {
+                    self.commands
+                        .push(Command::ExportTo(PathBuf::from(self.export_path.trim())));
+                }
+                if let Some(msg) = &self.file_message {
+                    ui.separator();
+                    ui.label(msg);
+                }
+            });
+        });
+    }
+
+    pub(super) fn bottom_bar(&mut self, ui: &mut egui::Ui) {
+        egui::Panel::bottom("status_bar").show(ui, |ui| {
+            ui.horizontal(|ui| self.status_line(ui));
+        });
+        egui::Panel::bottom("phase_bar").show(ui, |ui| {
+            ui.horizontal(|ui| self.phase_control(ui));
+        });
+    }
+
+    fn phase_control(&mut self, ui: &mut egui::Ui) {
+        let mut theta = self.scenario.phase;
+        let l = ui.label("Phase \u{3b8}");
+        let width = (ui.available_width() - 430.0).max(160.0);
+        ui.spacing_mut().slider_width = width;
+        let r = ui
+            .add(
+                egui::Slider::new(&mut theta, 0.0..=TAU)
+                    .custom_formatter(|v, _| format!("{v:.4} rad = {:.2}\u{b0}", v.to_degrees()))
+                    .custom_parser(|s| {
+                        let s = s.trim();
+                        s.strip_suffix('\u{b0}')
+                            .and_then(|d| d.trim().parse::<f64>().ok())
+                            .map(f64::to_radians)
+                            .or_else(|| s.trim_end_matches("rad").trim().parse().ok())
+                    }),
+            )
+            .labelled_by(l.id);
+        self.phase_dragging = r.dragged();
+        if r.changed() {
+            self.commands.push(Command::SetPhase(theta));
+        }
+        let fine = FINE_STEP_DEG.to_radians();
+        if ui
+            .button("<")
+            .on_hover_text("step back 0.5\u{b0} (Left; Shift+Left: 5\u{b0})")
+            .clicked()
+        {
+            self.commands
+                .push(Command::SetPhase(self.scenario.phase - fine));
+        }
+        if ui
+            .button(">")
+            .on_hover_text("step forward 0.5\u{b0} (Right; Shift+Right: 5\u{b0})")
+            .clicked()
+        {
+            self.commands
+                .push(Command::SetPhase(self.scenario.phase + fine));
+        }
+        let play = if self.playing { "Pause" } else { "Play" };
+        if ui.button(play).on_hover_text("Space").clicked() {
+            self.playing = !self.playing;
+        }
+        let l = ui.label("speed");
+        ui.add(
+            egui::DragValue::new(&mut self.speed_deg_per_s)
+                .range(0.1..=360.0)
+                .speed(0.5)
+                .suffix("\u{b0}/s"),
+        )
+        .labelled_by(l.id);
+        ui.checkbox(&mut self.looping, "Loop");
+    }
+
+    fn status_line(&mut self, ui: &mut egui::Ui) {
+        if self.is_computing() {
+            ui.add(egui::Spinner::new().size(12.0));
+            ui.label("computing");
+        } else if self.compute_error.is_some() {
+            ui.label(RichText::new("not computed").color(error_color(ui)));
+        } else {
+            ui.label("up to date");
+        }
+        if let Some(s) = &self.shown {
+            let net = &s.computed.network;
+            ui.separator();
+            ui.label(format!("{:.0} ms", s.compute_ms))
+                .on_hover_text("engine time of the network shown");
+            ui.separator();
+            ui.label(format!(
+                "{} walls, {} joints at \u{3b8} = {:.2}\u{b0}",
+                net.walls.len(),
+                net.joints.len(),
+                net.theta.to_degrees()
+            ));
+            if !net.warnings.is_empty() {
+                ui.separator();
+                let n = net.warnings.len();
+                let text = net
+                    .warnings
+                    .iter()
+                    .map(|w| w.message.as_str())
+                    .collect::<Vec<_>>()
+                    .join("\n");
+                ui.label(
+                    RichText::new(format!(
+                        "{n} warning{}: {}",
+                        if n == 1 { "" } else { "s" },
+                        net.warnings[0].message
+                    ))
+                    .color(ui.visuals().warn_fg_color),
+                )
+                .on_hover_text(text);
+            }
+        }
+        if let Some(e) = &self.compute_error {
+            ui.separator();
+            ui.label(RichText::new(e).color(error_color(ui)));
+        }
+        ui.with_layout(egui::Layout::right_to_left(egui::Align::Center), |ui| {
+            ui.label(
+                RichText::new(format!(
+                    "frame {:.1} ms (median {:.1})",
+                    self.frame_stats.recent_ms.last().copied().unwrap_or(0.0),
+                    self.frame_stats.median_ms()
+                ))
+                .weak(),
+            );
+        });
+    }
+
+    pub(super) fn curve_panel(&mut self, ui: &mut egui::Ui) {
+        egui::Panel::left("curve_panel")
+            .default_size(270.0)
+            .resizable(true)
+            .show(ui, |ui| {
+                egui::ScrollArea::vertical().show(ui, |ui| {
+                    if !self.scenario.title.is_empty() {
+                        ui.heading(&self.scenario.title);
+                    }
+                    if !self.scenario.notes.is_empty() {
+                        ui.label(RichText::new(&self.scenario.notes).italics());
+                    }
+                    ui.separator();
+                    if self.scenario.quadratic.is_some() {
+                        self.quadratic_editor(ui);
+                    } else {
+                        self.equation_editor(ui);
+                    }
+                    ui.separator();
+                    ui.strong("Settings");
+                    let mut reach = self.scenario.reach;
+                    ui.horizontal(|ui| {
+                        let l = ui.label("reach (mass cutoff)");
+                        let r = ui
+                            .add(
+                                egui::DragValue::new(&mut reach)
+                                    .range(0.01..=1e4)
+                                    .speed(0.05),
+                            )
+                            .labelled_by(l.id);
+                        if r.changed() {
+                            self.commands.push(Command::SetReach(reach));
+                        }
+                        if r.drag_stopped() || r.lost_focus() {
+                            self.commands.push(Command::EndInteraction);
+                        }
+                    });
+                });
+            });
+    }
+
+    fn quadratic_editor(&mut self, ui: &mut egui::Ui) {
+        ui.strong("Curve y\u{b2} = q(z), factored");
+        ui.label(
+            RichText::new("q = c \u{3a0}(z \u{2212} a_k) / \u{3a0}(z \u{2212} p_k)^n_k")
+                .monospace(),
+        );
+        ui.horizontal_wrapped(|ui| {
+            ui.selectable_value(&mut self.tool, Tool::Select, "Select / move")
+                .on_hover_text("click to select, drag points to move them, drag empty space to pan");
+            ui.selectable_value(&mut self.tool, Tool::AddBranchPoint, "Add branch point")
+                .on_hover_text("click the canvas to add a zero of q");
+            ui.selectable_value(&mut self.tool, Tool::AddPuncture, "Add puncture")
+                .on_hover_text("click the canvas to add a pole of q");
+            let l = ui.label("order");
+            ui.add(egui::DragValue::new(&mut self.pole_order).range(1..=12))
+                .labelled_by(l.id);
+        });
+        let Some(q) = self.scenario.quadratic.clone() else {
+            return;
+        };
+        ui.horizontal(|ui| {
+            ui.label("c =");
+            if let Some(v) = complex_drag(ui, "prefactor", q.prefactor, &mut self.commands) {
+                self.commands.push(Command::SetPrefactor(v));
+            }
+        });
+        ui.label(format!("Zeros (branch points): {}", q.zeros.len()));
+        for (i, z) in q.zeros.iter().enumerate() {
+            let r = PointRef::Zero(i);
+            ui.horizontal(|ui| {
+                let sel = self.selection == Some(Selection::Point(r));
+                if ui.selectable_label(sel, format!("a{}", i + 1)).clicked() {
+                    self.commands.push(Command::Select(Some(Selection::Point(r))));
+                }
+                if let Some(v) = complex_drag(ui, &format!("zero {}", i + 1), *z, &mut self.commands)
+                {
+                    self.commands
+                        .push(Command::MovePoint(r, Complex64::new(v[0], v[1])));
+                }
+                if ui.small_button("x").on_hover_text("delete").clicked() {
+                    self.commands.push(Command::DeletePoint(r));
+                }
+            });
+        }
+        ui.label(format!("Poles (punctures): {}", q.poles.len()));
+        for (i, p) in q.poles.iter().enumerate() {
+            let r = PointRef::Pole(i);
+            ui.horizontal(|ui| {
+                let sel = self.selection == Some(Selection::Point(r));
+                if ui.selectable_label(sel, format!("p{}", i + 1)).clicked() {
+                    self.commands.push(Command::Select(Some(Selection::Point(r))));
+                }
+                if let Some(v) =
+                    complex_drag(ui, &format!("pole {}", i + 1), p.z, &mut self.commands)
+                {
+                    self.commands
+                        .push(Command::MovePoint(r, Complex64::new(v[0], v[1])));
+                }
+                let mut order = p.order;
+                if ui
+                    .add(egui::DragValue::new(&mut order).range(1..=12).prefix("n="))
+                    .changed()
+                {
+                    self.commands.push(Command::SetPoleOrder(i, order));
+                }
+                if ui.small_button("x").on_hover_text("delete").clicked() {
+                    self.commands.push(Command::DeletePoint(r));
+                }
+            });
+        }
+        if ui
+            .button("Edit as equation")
+            .on_hover_text("rewrite q as an equation in y and z, to edit it as text")
+            .clicked()
+        {
+            self.commands.push(Command::ConvertToEquation);
+        }
+    }
+
+    fn equation_editor(&mut self, ui: &mut egui::Ui) {
+        ui.strong("Curve");
+        let l = ui.label("Equation");
+        let r = ui
+            .add(
+                egui::TextEdit::multiline(&mut self.equation_buffer)
+                    .font(egui::TextStyle::Monospace)
+                    .desired_rows(2)
+                    .desired_width(f32::INFINITY),
+            )
+            .labelled_by(l.id);
+        if r.changed() {
+            self.commands
+                .push(Command::SetEquation(self.equation_buffer.clone()));
+        }
+        if r.lost_focus() {
+            self.commands.push(Command::EndInteraction);
+        }
+        if let Some((col, msg)) = &self.equation_error {
+            // A caret under the offending column (1-based), in the same font.
+            let line: String = self.equation_buffer.lines().next().unwrap_or("").into();
+            let caret = format!("{}^", " ".repeat(col.saturating_sub(1)));
+            ui.label(RichText::new(format!("{line}\n{caret}")).monospace().color(error_color(ui)));
+            ui.label(
+                RichText::new(format!("column {col}: {msg}"))
+                    .color(error_color(ui)),
+            );
+            ui.label(RichText::new("showing the last network that computed").weak());
+        }
+        let names: Vec<String> = crate::algebra::parse::parse_equation(
+            self.scenario.curve.as_deref().unwrap_or(""),
+        )
+        .map(|e| e.parameter_names())
+        .unwrap_or_default();
+        if !names.is_empty() {
+            ui.strong("Parameters");
+        }
+        for name in names {
+            let v = self.scenario.params.get(&name).copied().unwrap_or([1.0, 0.0]);
+            ui.horizontal(|ui| {
+                ui.label(RichText::new(format!("{name} =")).monospace());
+                let mut changed = complex_drag(ui, &name, v, &mut self.commands);
+                if let Some(p) = complex_pad(ui, &name, changed.unwrap_or(v), &mut self.commands) {
+                    changed = Some(p);
+                }
+                if let Some(v) = changed {
+                    self.commands.push(Command::SetParam(name.clone(), v));
+                }
+            });
+        }
+    }
+}
+
+/// Drag values for the real and imaginary parts; `Some` when changed.
+/// The end of a drag closes the undo step.
+fn complex_drag(
+    ui: &mut egui::Ui,
+    name: &str,
+    v: [f64; 2],
+    commands: &mut Vec<Command>,
+) -> Option<[f64; 2]> {
+    let mut out = v;
+    let mut changed = false;
+    for (k, part) in ["re", "im"].iter().enumerate() {
+        let r = ui.add(
+            egui::DragValue::new(&mut out[k])
+                .speed(0.005)
+                .max_decimals(6)
+                .prefix(if k == 0 { "" } else { "i " }),
+        );
+        let r = r.on_hover_text(format!("{part} {name}"));
+        changed |= r.changed();
+        if r.drag_stopped() || r.lost_focus() {
+            commands.push(Command::EndInteraction);
+        }
+    }
+    changed.then_some(out)
+}
+
+/// A small 2-D pad: dragging in it moves the complex value, 1 unit per
+/// pad width.
+fn complex_pad(
+    ui: &mut egui::Ui,
+    name: &str,
+    v: [f64; 2],
+    commands: &mut Vec<Command>,
+) -> Option<[f64; 2]> {
+    let size = egui::vec2(22.0, 22.0);
+    let (r, painter) = ui.allocate_painter(size, egui::Sense::drag());
+    let r = r.on_hover_text(format!("drag to move {name} in the complex plane"));
+    let rect = r.rect;
+    let stroke = ui.visuals().widgets.inactive.fg_stroke;
+    painter.rect_stroke(rect, 2.0, stroke, egui::StrokeKind::Inside);
+    painter.line_segment([rect.center_top(), rect.center_bottom()], stroke);
+    painter.line_segment([rect.left_center(), rect.right_center()], stroke);
+    if r.drag_stopped() {
+        commands.push(Command::EndInteraction);
+    }
+    if r.dragged() {
+        let d = r.drag_delta();
+        if d != egui::Vec2::ZERO {
+            let scale = 1.0 / f64::from(size.x) / 4.0;
+            return Some([v[0] + f64::from(d.x) * scale, v[1] - f64::from(d.y) * scale]);
+        }
+    }
+    None
+}
