@@ -14,7 +14,7 @@ pub use cancel::CancelToken;
 pub use curve::Curve;
 pub use network::{compute, Network};
 pub use walls::Settings;
-pub mod scenario;
-pub mod scene;
 #[cfg(feature = "gui")]
 pub mod app;
+pub mod scenario;
+pub mod scene;

@@ -69,7 +69,11 @@ pub enum Hit {
     Puncture(usize),
     /// A wall, the index of the segment's first point, and the mass at the
     /// nearest point of the segment.
-    Wall { wall: usize, point: usize, mass: f64 },
+    Wall {
+        wall: usize,
+        point: usize,
+        mass: f64,
+    },
 }
 
 /// Colours of the canvas furniture per theme.
@@ -228,9 +232,9 @@ impl WallflowerApp {
         }
         let extent = (hi.re - lo.re).max(hi.im - lo.im).max(0.5);
         let pad = 0.45 * extent;
-        let aspect = self
-            .transform
-            .map_or(1.4, |t| f64::from(t.rect.width() / t.rect.height().max(1.0)));
+        let aspect = self.transform.map_or(1.4, |t| {
+            f64::from(t.rect.width() / t.rect.height().max(1.0))
+        });
         let half_w = ((hi.re - lo.re) / 2.0 + pad).max(((hi.im - lo.im) / 2.0 + pad) * aspect);
         self.view = View {
             center: [(lo.re + hi.re) / 2.0, (lo.im + hi.im) / 2.0],
@@ -344,7 +348,8 @@ impl WallflowerApp {
             let hit = origin.and_then(|p| self.hit_test(tf, p));
             self.drag = Some(match hit {
                 Some(Hit::Point(p)) => {
-                    self.commands.push(Command::Select(Some(Selection::Point(p))));
+                    self.commands
+                        .push(Command::Select(Some(Selection::Point(p))));
                     DragState::Point(p)
                 }
                 _ => DragState::Pan,
@@ -463,9 +468,7 @@ impl WallflowerApp {
     fn hover_tooltip(&self, response: &egui::Response, hit: Hit) {
         let Some(shown) = &self.shown else {
             if let Hit::Point(p) = hit {
-                response
-                    .clone()
-                    .on_hover_text_at_pointer(format!("{p:?}"));
+                response.clone().on_hover_text_at_pointer(format!("{p:?}"));
             }
             return;
         };
@@ -493,7 +496,9 @@ impl WallflowerApp {
                 }
             }
             Hit::BranchPoint(i) => {
-                let Some(b) = net.branch_points.get(i) else { return };
+                let Some(b) = net.branch_points.get(i) else {
+                    return;
+                };
                 format!(
                     "branch point {}\nz = {}\nsheets {} and {} meet; {}",
                     i + 1,
@@ -511,8 +516,11 @@ impl WallflowerApp {
                 )
             }
             Hit::Puncture(i) => {
-                let Some(p) = net.punctures.get(i) else { return };
-                let z = p.z.map_or("infinity".to_string(), |z| complex_label([z.re, z.im]));
+                let Some(p) = net.punctures.get(i) else {
+                    return;
+                };
+                let z =
+                    p.z.map_or("infinity".to_string(), |z| complex_label([z.re, z.im]));
                 format!("puncture {}\nz = {z}\npole order {}", i + 1, p.order)
             }
             Hit::Wall { wall, point, mass } => {
@@ -549,7 +557,8 @@ impl WallflowerApp {
         let Some(shown) = &self.shown else { return };
         let net = &shown.computed.network;
         for (idx, w) in net.walls.iter().enumerate() {
-            let selected = matches!(self.selection, Some(Selection::Wall { wall, .. }) if wall == idx);
+            let selected =
+                matches!(self.selection, Some(Selection::Wall { wall, .. }) if wall == idx);
             if !(self.show_labels || selected) || w.points.len() < 2 {
                 continue;
             }
@@ -685,6 +694,9 @@ mod tests {
         let z = Complex64::new(0.3, -1.7);
         let back = tf.to_plane(tf.to_screen(z));
         assert!((back - z).norm() < 1e-5);
-        assert_eq!(tf.to_screen(Complex64::new(1.0, -2.0)), Pos2::new(500.0, 350.0));
+        assert_eq!(
+            tf.to_screen(Complex64::new(1.0, -2.0)),
+            Pos2::new(500.0, 350.0)
+        );
     }
 }

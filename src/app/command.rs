@@ -18,7 +18,10 @@ pub enum PointRef {
 pub enum Selection {
     /// A wall, and the point index where it was picked (the wall's type
     /// can change along it where it crosses a cut).
-    Wall { wall: usize, point: usize },
+    Wall {
+        wall: usize,
+        point: usize,
+    },
     Point(PointRef),
     /// A branch point of a curve typed as an equation (not editable).
     BranchPoint(usize),

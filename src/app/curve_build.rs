@@ -23,8 +23,7 @@ pub fn build_curve(s: &Scenario) -> Result<Curve, String> {
     let Some(text) = &s.curve else {
         return Err("the scenario has neither `curve` nor `quadratic`".into());
     };
-    let eq = parse_equation(text)
-        .map_err(|e| format!("column {}: {}", e.column, e.message))?;
+    let eq = parse_equation(text).map_err(|e| format!("column {}: {}", e.column, e.message))?;
     let params: BTreeMap<String, Complex64> =
         s.params.iter().map(|(k, v)| (k.clone(), c(*v))).collect();
     let poly = eq

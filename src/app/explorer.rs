@@ -145,17 +145,29 @@ pub struct WallflowerApp {
 }
 
 impl WallflowerApp {
+    /// The app on `opts.scenario`, or on the embedded default.
     pub fn new(opts: &AppOptions) -> anyhow::Result<Self> {
         let (scenario, path) = match &opts.scenario {
             Some(p) => (files::load_scenario(p)?, Some(p.clone())),
             None => (curve_build::default_scenario(), None),
         };
+        Ok(Self::with_scenario(scenario, path, opts))
+    }
+
+    /// The app on a scenario in memory (tests, demos); `path` is where
+    /// Save writes.
+    pub fn with_scenario(scenario: Scenario, path: Option<PathBuf>, opts: &AppOptions) -> Self {
+        // A scenario without a saved view gets one fitted to its points.
+        let wants_fit = scenario.view == View::default();
         let state_dir = if opts.persist {
             StateDir::default_location()
         } else {
             None
         };
-        let recent = state_dir.as_ref().map(StateDir::read_recent).unwrap_or_default();
+        let recent = state_dir
+            .as_ref()
+            .map(StateDir::read_recent)
+            .unwrap_or_default();
         let recovery_offer = state_dir.as_ref().and_then(StateDir::read_recovery);
         let mut app = Self {
             view: scenario.view.clone(),
@@ -185,7 +197,7 @@ impl WallflowerApp {
             wall_sort_descending: false,
             commands: Vec::new(),
             transform: None,
-            wants_fit: opts.scenario.is_none(),
+            wants_fit,
             path_field: path
                 .as_ref()
                 .map(|p| p.display().to_string())
@@ -213,7 +225,7 @@ impl WallflowerApp {
         };
         app.export_theme = app.scenario.theme;
         app.sync_worker();
-        Ok(app)
+        app
     }
 
     /// True while the newest scenario has no result yet.
@@ -263,8 +275,7 @@ impl WallflowerApp {
         self.autosave();
         self.update_title(&ctx);
         self.screenshot_step(&ctx);
-        self.frame_stats
-            .push(start.elapsed().as_secs_f64() * 1e3);
+        self.frame_stats.push(start.elapsed().as_secs_f64() * 1e3);
     }
 
     fn receive_results(&mut self) {
@@ -528,7 +539,8 @@ impl WallflowerApp {
             Command::Fit => self.fit_view(),
             Command::RestoreRecovery => {
                 if let Some(s) = self.recovery_offer.take() {
-                    self.history.before_edit(&self.scenario, &super::command::EditGroup::Single);
+                    self.history
+                        .before_edit(&self.scenario, &super::command::EditGroup::Single);
                     self.view = s.view.clone();
                     self.restore(s);
                     self.file_message = Some("restored the unsaved edits".into());
@@ -626,11 +638,10 @@ impl WallflowerApp {
     }
 
     fn update_title(&mut self, ctx: &egui::Context) {
-        let name = self
-            .path
-            .as_ref()
-            .and_then(|p| p.file_name())
-            .map_or_else(|| "untitled".to_string(), |n| n.to_string_lossy().into_owned());
+        let name = self.path.as_ref().and_then(|p| p.file_name()).map_or_else(
+            || "untitled".to_string(),
+            |n| n.to_string_lossy().into_owned(),
+        );
         let title = format!(
             "{}{} - wallflower",
             if self.is_dirty() { "* " } else { "" },

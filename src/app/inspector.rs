@@ -56,15 +56,21 @@ impl WallflowerApp {
                 egui::CollapsingHeader::new(format!("Branch points ({})", net.branch_points.len()))
                     .default_open(false)
                     .show(ui, |ui| {
-                        egui::Grid::new("branch_points").striped(true).show(ui, |ui| {
-                            for (i, b) in net.branch_points.iter().enumerate() {
-                                ui.label((i + 1).to_string());
-                                ui.label(format!("{:.4}{:+.4}i", b.z.re, b.z.im));
-                                ui.label(format!("sheets {}{}", b.sheets[0] + 1, b.sheets[1] + 1));
-                                ui.label(if b.simple { "simple" } else { "not simple" });
-                                ui.end_row();
-                            }
-                        });
+                        egui::Grid::new("branch_points")
+                            .striped(true)
+                            .show(ui, |ui| {
+                                for (i, b) in net.branch_points.iter().enumerate() {
+                                    ui.label((i + 1).to_string());
+                                    ui.label(format!("{:.4}{:+.4}i", b.z.re, b.z.im));
+                                    ui.label(format!(
+                                        "sheets {}{}",
+                                        b.sheets[0] + 1,
+                                        b.sheets[1] + 1
+                                    ));
+                                    ui.label(if b.simple { "simple" } else { "not simple" });
+                                    ui.end_row();
+                                }
+                            });
                     });
                 if !net.warnings.is_empty() {
                     egui::CollapsingHeader::new(format!("Warnings ({})", net.warnings.len()))
@@ -171,7 +177,11 @@ impl WallflowerApp {
                 let b = egui::Button::new(RichText::new(format!("{label}{arrow}")).strong())
                     .frame(false)
                     .min_size(egui::vec2(w, 0.0));
-                if ui.add(b).on_hover_text(format!("sort by {label}")).clicked() {
+                if ui
+                    .add(b)
+                    .on_hover_text(format!("sort by {label}"))
+                    .clicked()
+                {
                     if self.wall_sort == col {
                         self.wall_sort_descending = !self.wall_sort_descending;
                     } else {

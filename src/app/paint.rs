@@ -117,12 +117,7 @@ fn paint_shape(painter: &egui::Painter, shape: &Shape, offset: Vec2) {
             let r = egui::Rect::from_min_max(pos(*min, offset), pos(*max, offset));
             painter.rect_filled(r, 0.0, color(*fill));
             if let Some((w, s)) = stroke {
-                painter.rect_stroke(
-                    r,
-                    0.0,
-                    Stroke::new(*w, color(*s)),
-                    egui::StrokeKind::Middle,
-                );
+                painter.rect_stroke(r, 0.0, Stroke::new(*w, color(*s)), egui::StrokeKind::Middle);
             }
         }
     }

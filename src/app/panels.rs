@@ -108,7 +108,7 @@ impl WallflowerApp {
                         .suffix(" px"),
                 )
                 .on_hover_text("height");
-                egui::ComboBox::from_id_salt("export_theme")
+                egui::ComboBox::from_label("theme")
                     .selected_text(match self.export_theme {
                         Theme::Paper => "paper",
                         Theme::Projector => "projector",
@@ -302,7 +302,9 @@ impl WallflowerApp {
         );
         ui.horizontal_wrapped(|ui| {
             ui.selectable_value(&mut self.tool, Tool::Select, "Select / move")
-                .on_hover_text("click to select, drag points to move them, drag empty space to pan");
+                .on_hover_text(
+                    "click to select, drag points to move them, drag empty space to pan",
+                );
             ui.selectable_value(&mut self.tool, Tool::AddBranchPoint, "Add branch point")
                 .on_hover_text("click the canvas to add a zero of q");
             ui.selectable_value(&mut self.tool, Tool::AddPuncture, "Add puncture")
@@ -326,9 +328,11 @@ impl WallflowerApp {
             ui.horizontal(|ui| {
                 let sel = self.selection == Some(Selection::Point(r));
                 if ui.selectable_label(sel, format!("a{}", i + 1)).clicked() {
-                    self.commands.push(Command::Select(Some(Selection::Point(r))));
+                    self.commands
+                        .push(Command::Select(Some(Selection::Point(r))));
                 }
-                if let Some(v) = complex_drag(ui, &format!("zero {}", i + 1), *z, &mut self.commands)
+                if let Some(v) =
+                    complex_drag(ui, &format!("zero {}", i + 1), *z, &mut self.commands)
                 {
                     self.commands
                         .push(Command::MovePoint(r, Complex64::new(v[0], v[1])));
@@ -344,7 +348,8 @@ impl WallflowerApp {
             ui.horizontal(|ui| {
                 let sel = self.selection == Some(Selection::Point(r));
                 if ui.selectable_label(sel, format!("p{}", i + 1)).clicked() {
-                    self.commands.push(Command::Select(Some(Selection::Point(r))));
+                    self.commands
+                        .push(Command::Select(Some(Selection::Point(r))));
                 }
                 if let Some(v) =
                     complex_drag(ui, &format!("pole {}", i + 1), p.z, &mut self.commands)
@@ -395,23 +400,28 @@ impl WallflowerApp {
             // A caret under the offending column (1-based), in the same font.
             let line: String = self.equation_buffer.lines().next().unwrap_or("").into();
             let caret = format!("{}^", " ".repeat(col.saturating_sub(1)));
-            ui.label(RichText::new(format!("{line}\n{caret}")).monospace().color(error_color(ui)));
             ui.label(
-                RichText::new(format!("column {col}: {msg}"))
+                RichText::new(format!("{line}\n{caret}"))
+                    .monospace()
                     .color(error_color(ui)),
             );
+            ui.label(RichText::new(format!("column {col}: {msg}")).color(error_color(ui)));
             ui.label(RichText::new("showing the last network that computed").weak());
         }
-        let names: Vec<String> = crate::algebra::parse::parse_equation(
-            self.scenario.curve.as_deref().unwrap_or(""),
-        )
-        .map(|e| e.parameter_names())
-        .unwrap_or_default();
+        let names: Vec<String> =
+            crate::algebra::parse::parse_equation(self.scenario.curve.as_deref().unwrap_or(""))
+                .map(|e| e.parameter_names())
+                .unwrap_or_default();
         if !names.is_empty() {
             ui.strong("Parameters");
         }
         for name in names {
-            let v = self.scenario.params.get(&name).copied().unwrap_or([1.0, 0.0]);
+            let v = self
+                .scenario
+                .params
+                .get(&name)
+                .copied()
+                .unwrap_or([1.0, 0.0]);
             ui.horizontal(|ui| {
                 ui.label(RichText::new(format!("{name} =")).monospace());
                 let mut changed = complex_drag(ui, &name, v, &mut self.commands);
