@@ -6,6 +6,7 @@
 pub mod algebra;
 pub mod cancel;
 pub mod curve;
+pub mod export;
 pub mod network;
 pub mod quad;
 pub mod walls;

@@ -1,7 +1,17 @@
 //! What to draw, as plain shapes in screen (pixel) coordinates: one
 //! description feeds both the window's painter and the SVG writer.
 //!
-//! PLACEHOLDER: types fixed; the builder is being written.
+//! [`build`] turns a network into a [`Scene`] of named [`Layer`]s; the
+//! [`palette`] gives every wall type its colour. Conventions every backend
+//! follows: y grows downwards; a [`Shape::Text`] position is a point on the
+//! text's baseline (horizontally placed by its [`Anchor`]); dashed lines use
+//! dashes of 4 and gaps of 3 line widths ([`dash_pattern`]).
+
+mod build;
+pub mod geometry;
+pub mod palette;
+
+pub use build::{build, clip_margin, SceneOptions};
 
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
@@ -9,6 +19,58 @@ use serde::{Deserialize, Serialize};
 /// An sRGB colour with alpha, 0-255 per channel.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
 pub struct Rgba(pub [u8; 4]);
+
+impl Rgba {
+    /// An opaque colour.
+    pub const fn rgb(r: u8, g: u8, b: u8) -> Self {
+        Self([r, g, b, 255])
+    }
+
+    /// `#rrggbb`, without the alpha.
+    pub fn hex(self) -> String {
+        let [r, g, b, _] = self.0;
+        format!("#{r:02x}{g:02x}{b:02x}")
+    }
+
+    /// Alpha as a fraction in [0, 1].
+    pub fn opacity(self) -> f32 {
+        f32::from(self.0[3]) / 255.0
+    }
+}
+
+/// The names of the scene's layers, bottom to top. Every scene has all of
+/// them, in this order, even when a layer is empty (so Inkscape users always
+/// find the same layers).
+pub mod layer_names {
+    pub const BACKGROUND: &str = "background";
+    pub const GRID: &str = "grid";
+    pub const CUTS: &str = "branch cuts";
+    pub const WALLS: &str = "walls";
+    pub const WALL_LABELS: &str = "wall labels";
+    pub const JOINTS: &str = "joints";
+    pub const PUNCTURES: &str = "punctures";
+    pub const BRANCH_POINTS: &str = "branch points";
+    pub const LEGEND: &str = "legend";
+    pub const TITLE: &str = "title";
+    pub const ALL: [&str; 10] = [
+        BACKGROUND,
+        GRID,
+        CUTS,
+        WALLS,
+        WALL_LABELS,
+        JOINTS,
+        PUNCTURES,
+        BRANCH_POINTS,
+        LEGEND,
+        TITLE,
+    ];
+}
+
+/// Dash and gap lengths in pixels for a dashed line of `width` pixels.
+pub fn dash_pattern(width: f32) -> [f32; 2] {
+    let w = width.max(1.0);
+    [4.0 * w, 3.0 * w]
+}
 
 /// Maps the z-plane to pixels: `center` in the middle of a `width x height`
 /// picture, `half_width` z-units from the middle to the left/right edge,
@@ -22,6 +84,28 @@ pub struct Transform {
 }
 
 impl Transform {
+    pub fn new(center: [f64; 2], half_width: f64, width: f32, height: f32) -> Self {
+        Self {
+            center,
+            half_width,
+            width,
+            height,
+        }
+    }
+
+    /// Finite centre, positive finite half width and a picture of at least
+    /// one pixel each way: only then do the maps make sense.
+    pub fn is_valid(&self) -> bool {
+        self.center.iter().all(|c| c.is_finite())
+            && self.half_width.is_finite()
+            && self.half_width > 0.0
+            && self.width.is_finite()
+            && self.height.is_finite()
+            && self.width >= 1.0
+            && self.height >= 1.0
+            && self.pixels_per_unit().is_finite()
+    }
+
     pub fn pixels_per_unit(&self) -> f64 {
         f64::from(self.width) / (2.0 * self.half_width)
     }
@@ -116,4 +200,23 @@ pub struct Scene {
     pub transform: Transform,
     pub background: Rgba,
     pub layers: Vec<Layer>,
+}
+
+impl Scene {
+    /// The layer called `name` (see [`layer_names`]).
+    pub fn layer(&self, name: &str) -> Option<&Layer> {
+        self.layers.iter().find(|l| l.name == name)
+    }
+
+    /// Picture size in whole pixels (at least 1 x 1).
+    pub fn size_px(&self) -> (u32, u32) {
+        let px = |v: f32| {
+            if v.is_finite() {
+                v.round().clamp(1.0, 65_535.0) as u32
+            } else {
+                1
+            }
+        };
+        (px(self.transform.width), px(self.transform.height))
+    }
 }
