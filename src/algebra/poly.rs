@@ -254,7 +254,7 @@ fn aberth(p: &Poly) -> Vec<Complex64> {
                 max_rel = max_rel.max(w.norm() / (1.0 + z[k].norm()));
             }
         }
-        if max_rel < 1e-15 {
+        if max_rel < 1e-13 {
             break;
         }
     }

@@ -67,7 +67,7 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
         (c, a)
     };
     for _ in 0..3 {
-        let w = period_from_branch_point(curve, b, z0, roots[i] - roots[j]);
+        let w = period_from_branch_point(curve, b, z0, roots[i], roots[j]);
         let off = (w / rot).im;
         let delta = -Complex64::new(0.0, 1.0) * rot * off / (roots[i] - roots[j]);
         if !delta.is_finite() || delta.norm() > 0.5 * r0 {
@@ -80,7 +80,7 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
             break;
         }
     }
-    let w = period_from_branch_point(curve, b, z0, roots[i] - roots[j]);
+    let w = period_from_branch_point(curve, b, z0, roots[i], roots[j]);
     let mass = (w / rot).re;
     if !(mass > 0.0) || !mass.is_finite() {
         return None;
@@ -110,28 +110,33 @@ fn closest_pair(r: &[Complex64]) -> (usize, usize) {
     (best.0, best.1)
 }
 
-/// `int_b^z0 (y_i - y_j) dz` along the straight segment, where `diff_at_end`
-/// is `y_i - y_j` at z0 (it fixes which square root is meant). The two
-/// sheets that meet at b are the closest pair at every node.
+/// `int_b^z0 (y_i - y_j) dz` along the straight segment, given the sheets
+/// `yi`, `yj` at z0 (they fix which square root is meant).
+///
+/// At each node the two sheets are found by Newton's method from the local
+/// form `ybar +- h s` (`ybar`, `h` the mean and half-difference at z0); where
+/// both guesses settle on the same root, the local form itself is used. The
+/// integrand vanishes like s^2 at b, so that fallback changes W by far less
+/// than the integrator's tolerance.
 pub fn period_from_branch_point(
     curve: &Curve,
     b: Complex64,
     z0: Complex64,
-    diff_at_end: Complex64,
+    yi: Complex64,
+    yj: Complex64,
 ) -> Complex64 {
     let delta = z0 - b;
+    let ybar = (yi + yj) * 0.5;
+    let half = (yi - yj) * 0.5;
     let mut total = Complex64::new(0.0, 0.0);
-    for (s, w) in gauss_legendre_unit(24) {
+    for (s, w) in gauss_legendre_unit(16) {
         let z = b + delta * (s * s);
-        let roots = curve.roots_unordered(z);
-        let (a, c) = closest_pair(&roots);
-        let d = roots[a] - roots[c];
-        // y_i - y_j grows like s along the segment: compare with s * diff_at_end.
-        let reference = diff_at_end * s;
-        let d = if (d - reference).norm() <= (d + reference).norm() {
-            d
-        } else {
-            -d
+        let c = curve.coeffs_at(z);
+        let gi = Curve::newton_root(&c, ybar + half * s);
+        let gj = Curve::newton_root(&c, ybar - half * s);
+        let d = match (gi, gj) {
+            (Some(a), Some(bb)) if (a - bb).norm() > 0.5 * (half * s).norm() => a - bb,
+            _ => half * (2.0 * s),
         };
         total += d * (2.0 * s) * delta * w;
     }
