@@ -380,7 +380,10 @@ impl Scenario {
         if !(self.phase.is_finite() && self.phase.abs() <= MAX_MAGNITUDE) {
             out.push(Problem::new(
                 "phase",
-                format!("phase must be a finite angle in radians, got {}", self.phase),
+                format!(
+                    "phase must be a finite angle in radians, got {}",
+                    self.phase
+                ),
             ));
         }
         if let Err(messages) = self.settings_unchecked().validate() {
@@ -414,7 +417,11 @@ impl Scenario {
                 format!("the notes are longer than {MAX_NOTES_CHARS} characters"),
             ));
         }
-        out.sort_by_key(|p| TOP_KEYS.iter().position(|k| p.key.split('.').next() == Some(k)));
+        out.sort_by_key(|p| {
+            TOP_KEYS
+                .iter()
+                .position(|k| p.key.split('.').next() == Some(k))
+        });
         out
     }
 
@@ -481,7 +488,9 @@ impl Scenario {
             // validate() has ruled this out.
             (None, None) => return Err(ScenarioError::Invalid("the scenario has no curve".into())),
         };
-        curve.map_err(|e: CurveError| ScenarioError::Invalid(format!("the curve cannot be used: {e}")))
+        curve.map_err(|e: CurveError| {
+            ScenarioError::Invalid(format!("the curve cannot be used: {e}"))
+        })
     }
 
     /// The numerical settings of the scenario, checked.
@@ -535,7 +544,9 @@ fn too_large(n_bytes: usize) -> ScenarioError {
     ScenarioError::At {
         line: 1,
         column: 1,
-        message: format!("the file has {n_bytes} bytes; a scenario may have at most {MAX_FILE_BYTES}"),
+        message: format!(
+            "the file has {n_bytes} bytes; a scenario may have at most {MAX_FILE_BYTES}"
+        ),
     }
 }
 
@@ -706,7 +717,13 @@ fn string_at(b: &[u8], i: usize) -> Option<(usize, usize, usize, bool)> {
         let start = j + 1;
         let mut k = start;
         while k < b.len() {
-            if b[k] == b'"' && b[k + 1..].iter().take(hashes).filter(|&&c| c == b'#').count() == hashes
+            if b[k] == b'"'
+                && b[k + 1..]
+                    .iter()
+                    .take(hashes)
+                    .filter(|&&c| c == b'#')
+                    .count()
+                    == hashes
             {
                 return Some((start, k, (k + 1 + hashes).min(b.len()), true));
             }
@@ -783,7 +800,10 @@ fn find_key<'a>(keys: &'a [KeyPos], path: &str) -> Option<&'a KeyPos> {
             Some(k) => (k.start, k.depth),
         };
         let mut hit = None;
-        for k in keys.iter().filter(|k| k.start > from || (found.is_none() && k.start >= from)) {
+        for k in keys
+            .iter()
+            .filter(|k| k.start > from || (found.is_none() && k.start >= from))
+        {
             if found.is_some() && k.depth <= min_depth {
                 break;
             }
@@ -859,22 +879,34 @@ fn unknown_key_warnings(text: &str, keys: &[KeyPos]) -> Vec<String> {
         return Vec::new();
     };
     let mut unknown: Vec<String> = Vec::new();
-    check_fields(&value, "", TOP_KEYS, &mut unknown, &|path, v, out| match path {
-        "quadratic" => {
-            check_fields(v, "quadratic", QUADRATIC_KEYS, out, &|path, v, out| {
-                if path == "quadratic.poles" {
-                    if let ron::Value::Seq(items) = v {
-                        for item in items {
-                            check_fields(item, "quadratic.poles", POLE_KEYS, out, &|_, _, _| {});
+    check_fields(
+        &value,
+        "",
+        TOP_KEYS,
+        &mut unknown,
+        &|path, v, out| match path {
+            "quadratic" => {
+                check_fields(v, "quadratic", QUADRATIC_KEYS, out, &|path, v, out| {
+                    if path == "quadratic.poles" {
+                        if let ron::Value::Seq(items) = v {
+                            for item in items {
+                                check_fields(
+                                    item,
+                                    "quadratic.poles",
+                                    POLE_KEYS,
+                                    out,
+                                    &|_, _, _| {},
+                                );
+                            }
                         }
                     }
-                }
-            });
-        }
-        "view" => check_fields(v, "view", VIEW_KEYS, out, &|_, _, _| {}),
-        "bounds" => check_fields(v, "bounds", BOUNDS_KEYS, out, &|_, _, _| {}),
-        _ => {}
-    });
+                });
+            }
+            "view" => check_fields(v, "view", VIEW_KEYS, out, &|_, _, _| {}),
+            "bounds" => check_fields(v, "bounds", BOUNDS_KEYS, out, &|_, _, _| {}),
+            _ => {}
+        },
+    );
     unknown
         .into_iter()
         .map(|path| {
@@ -897,7 +929,13 @@ type Recurse<'a> = &'a dyn Fn(&str, &ron::Value, &mut Vec<String>);
 
 /// Records the keys of map `v` (looking through `Some`) that are not in
 /// `known`, and hands each known key's value to `recurse`.
-fn check_fields(v: &ron::Value, prefix: &str, known: &[&str], out: &mut Vec<String>, recurse: Recurse) {
+fn check_fields(
+    v: &ron::Value,
+    prefix: &str,
+    known: &[&str],
+    out: &mut Vec<String>,
+    recurse: Recurse,
+) {
     let v = match v {
         ron::Value::Option(Some(inner)) => inner.as_ref(),
         other => other,
@@ -974,10 +1012,9 @@ mod tests {
 
     #[test]
     fn unknown_keys_warn() {
-        let (s, warnings) = Scenario::from_ron_with_warnings(
-            "(curve: \"y^2 = z\", colour: 3, view: (zoom: 2.0))",
-        )
-        .unwrap();
+        let (s, warnings) =
+            Scenario::from_ron_with_warnings("(curve: \"y^2 = z\", colour: 3, view: (zoom: 2.0))")
+                .unwrap();
         assert_eq!(s.curve.as_deref(), Some("y^2 = z"));
         assert_eq!(warnings.len(), 2, "{warnings:?}");
         assert!(warnings[0].contains("colour") || warnings[1].contains("colour"));

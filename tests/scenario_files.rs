@@ -98,10 +98,7 @@ fn worked_scenarios_have_their_documented_shape() {
 fn the_embedded_default_is_a_worked_scenario() {
     let embedded = Scenario::from_ron(DEFAULT_SCENARIO_RON).unwrap();
     assert_eq!(Scenario::default_embedded(), embedded);
-    let on_disk = scenario_files()
-        .iter()
-        .map(load)
-        .any(|s| s == embedded);
+    let on_disk = scenario_files().iter().map(load).any(|s| s == embedded);
     assert!(on_disk);
 }
 
@@ -110,8 +107,16 @@ fn the_embedded_default_is_a_worked_scenario() {
 fn errors_in_files_name_line_and_column() {
     use wallflower::scenario::ScenarioError;
     let cases: &[(&str, usize, usize)] = &[
-        ("(\n    curve: \"y^2 = z^3\",\n    reach: \"far\",\n)", 3, 12),
-        ("(\n  curve: \"y^2 = z\",\n  quadratic: (zeros: [(1.0, 0.0)]),\n)", 3, 3),
+        (
+            "(\n    curve: \"y^2 = z^3\",\n    reach: \"far\",\n)",
+            3,
+            12,
+        ),
+        (
+            "(\n  curve: \"y^2 = z\",\n  quadratic: (zeros: [(1.0, 0.0)]),\n)",
+            3,
+            3,
+        ),
         ("(\n  curve: \"y^2 = z\",\n  phase: NaN,\n)", 3, 3),
         ("(\n  curve: \"y^2 = z + w\",\n)", 2, 21),
     ];

@@ -1,13 +1,13 @@
 //! The canvas: the z-plane with its own plane <-> screen transform, pan
-//! and zoom at the cursor, a grid with tick labels, the scene (walls, cuts,
-//! branch points, punctures, joints), hover tooltips, hit testing and the
+//! and zoom at the cursor, the shared scene (grid with tick labels, walls,
+//! cuts, branch points, punctures, joints, legend), hover tooltips, hit testing and the
 //! editing gestures (add, drag, delete).
 
 use super::command::{Command, PointRef, Selection};
 use super::explorer::{Tool, WallflowerApp};
 use super::paint;
 use crate::scenario::{Theme, View};
-use crate::scene::Transform;
+use crate::scene::{self, palette, SceneOptions, Transform};
 use eframe::egui::{self, Color32, Pos2, Rect, Sense, Stroke, Vec2};
 use num_complex::Complex64;
 
@@ -15,8 +15,6 @@ use num_complex::Complex64;
 const WALL_HIT_PX: f32 = 6.0;
 /// Pointer distance (px) within which a point marker counts as hit.
 const POINT_HIT_PX: f32 = 9.0;
-/// Grid lines are spaced at least this many pixels apart.
-const GRID_MIN_PX: f64 = 70.0;
 
 /// The plane <-> screen map of the canvas for one frame: the scene's
 /// transform, placed at the canvas rectangle.
@@ -76,10 +74,8 @@ pub enum Hit {
     },
 }
 
-/// Colours of the canvas furniture per theme.
+/// Colours of the canvas furniture per theme, from the shared palette.
 struct Ink {
-    grid: Color32,
-    axis: Color32,
     label: Color32,
     marker: Color32,
     highlight: Color32,
@@ -87,23 +83,13 @@ struct Ink {
 }
 
 fn ink(theme: Theme) -> Ink {
-    match theme {
-        Theme::Paper => Ink {
-            grid: Color32::from_gray(232),
-            axis: Color32::from_gray(170),
-            label: Color32::from_gray(90),
-            marker: Color32::from_gray(20),
-            highlight: Color32::from_rgba_unmultiplied(0, 0, 0, 60),
-            background: Color32::WHITE,
-        },
-        Theme::Projector => Ink {
-            grid: Color32::from_gray(45),
-            axis: Color32::from_gray(95),
-            label: Color32::from_gray(170),
-            marker: Color32::from_gray(235),
-            highlight: Color32::from_rgba_unmultiplied(255, 255, 255, 70),
-            background: Color32::from_rgb(18, 20, 26),
-        },
+    let c = palette::theme_colors(theme);
+    let [r, g, b, _] = c.foreground.0;
+    Ink {
+        label: paint::color(c.label),
+        marker: paint::color(c.foreground),
+        highlight: Color32::from_rgba_unmultiplied(r, g, b, 50),
+        background: paint::color(c.background),
     }
 }
 
@@ -135,24 +121,6 @@ fn segment_distance(p: Pos2, a: Pos2, b: Pos2) -> (f32, f32) {
         0.0
     };
     ((a + ab * s - p).length(), s)
-}
-
-/// "Nice" grid spacing: 1, 2 or 5 times a power of ten, at least `min`.
-pub fn nice_step(min: f64) -> f64 {
-    let min = min.max(1e-12);
-    let p = 10f64.powf(min.log10().floor());
-    for m in [1.0, 2.0, 5.0, 10.0] {
-        if m * p >= min {
-            return m * p;
-        }
-    }
-    10.0 * p
-}
-
-fn tick_text(v: f64, step: f64) -> String {
-    let decimals = (-step.log10().floor()).max(0.0) as usize;
-    let v = if v.abs() < step * 1e-6 { 0.0 } else { v };
-    format!("{v:.decimals$}").replace('-', "\u{2212}")
 }
 
 impl WallflowerApp {
@@ -274,30 +242,34 @@ impl WallflowerApp {
         let theme = self.scenario.theme;
         let colors = ink(theme);
         let painter = painter.with_clip_rect(rect);
+        let highlight = match self.selection {
+            Some(Selection::Wall { wall, .. }) => Some(wall),
+            _ => None,
+        };
         let scene = self.shown.as_ref().map(|s| {
-            super::draft_scene::build(&s.computed.curve, &s.computed.network, tf.scene, theme)
+            let opts = SceneOptions {
+                wall_labels: self.show_labels,
+                highlight,
+                // Screen pixels: the sizes the builder uses at 800 px.
+                scale: Some(1.0),
+                ..SceneOptions::new(tf.scene, theme)
+            };
+            scene::build(&s.computed.curve, &s.computed.network, &opts)
         });
         match &scene {
-            Some(scene) => paint::paint_background(&painter, scene, rect),
-            None => {
-                let bg = match theme {
-                    Theme::Paper => Color32::WHITE,
-                    Theme::Projector => Color32::from_rgb(18, 20, 26),
-                };
-                painter.rect_filled(rect, 0.0, bg);
-            }
-        }
-        draw_grid(&painter, &tf, &colors);
-        if let Some(scene) = &scene {
-            let offset = rect.min.to_vec2();
-            for layer in &scene.layers {
-                if layer.name == "walls" {
-                    self.paint_selected_wall_halo(&painter, &tf, &colors);
+            Some(scene) => {
+                let offset = rect.min.to_vec2();
+                for layer in &scene.layers {
+                    if layer.name == scene::layer_names::WALLS {
+                        self.paint_selected_wall_halo(&painter, &tf, &colors);
+                    }
+                    paint::paint_layer(&painter, layer, offset);
                 }
-                paint::paint_layer(&painter, layer, offset);
+            }
+            None => {
+                painter.rect_filled(rect, 0.0, colors.background);
             }
         }
-        self.paint_wall_labels(&painter, &tf, &colors);
         self.paint_handles(&painter, &tf, &colors);
         if self.shown.is_none() {
             painter.text(
@@ -437,12 +409,10 @@ impl WallflowerApp {
                     ui.close();
                 }
             }
-            Some(Hit::Wall { wall, point, .. }) => {
-                if ui.button("Select wall").clicked() {
-                    self.commands
-                        .push(Command::Select(Some(Selection::Wall { wall, point })));
-                    ui.close();
-                }
+            Some(Hit::Wall { wall, point, .. }) if ui.button("Select wall").clicked() => {
+                self.commands
+                    .push(Command::Select(Some(Selection::Wall { wall, point })));
+                ui.close();
             }
             _ => {}
         }
@@ -553,36 +523,6 @@ impl WallflowerApp {
         painter.add(egui::Shape::line(pts, Stroke::new(7.0, c.highlight)));
     }
 
-    fn paint_wall_labels(&self, painter: &egui::Painter, tf: &ScreenTransform, c: &Ink) {
-        let Some(shown) = &self.shown else { return };
-        let net = &shown.computed.network;
-        for (idx, w) in net.walls.iter().enumerate() {
-            let selected =
-                matches!(self.selection, Some(Selection::Wall { wall, .. }) if wall == idx);
-            if !(self.show_labels || selected) || w.points.len() < 2 {
-                continue;
-            }
-            // Label at a third of the way, where walls are well apart.
-            let k = (w.points.len() / 3).max(1);
-            let p = tf.to_screen(w.points[k].z);
-            if !tf.rect.contains(p) {
-                continue;
-            }
-            let text = if selected {
-                format!("wall {}: {}", idx + 1, w.kind_at(k))
-            } else {
-                w.kind_at(k).to_string()
-            };
-            painter.text(
-                p + Vec2::new(4.0, -4.0),
-                egui::Align2::LEFT_BOTTOM,
-                text,
-                egui::FontId::proportional(11.0),
-                c.label,
-            );
-        }
-    }
-
     /// The dragged point follows the pointer at once (the network catches
     /// up when the worker returns); the selected point gets a ring.
     fn paint_handles(&self, painter: &egui::Painter, tf: &ScreenTransform, c: &Ink) {
@@ -621,66 +561,9 @@ fn complex_label(v: [f64; 2]) -> String {
     )
 }
 
-fn draw_grid(painter: &egui::Painter, tf: &ScreenTransform, c: &Ink) {
-    let rect = tf.rect;
-    let ppu = tf.pixels_per_unit();
-    let step = nice_step(GRID_MIN_PX / ppu);
-    let lo = tf.to_plane(rect.left_bottom());
-    let hi = tf.to_plane(rect.right_top());
-    let font = egui::FontId::proportional(11.0);
-    let max_lines = 400.0;
-    if (hi.re - lo.re) / step > max_lines || (hi.im - lo.im) / step > max_lines {
-        return;
-    }
-    let mut k = (lo.re / step).ceil();
-    while k * step <= hi.re {
-        let x = k * step;
-        let sx = tf.to_screen(Complex64::new(x, 0.0)).x;
-        let axis = k == 0.0;
-        painter.line_segment(
-            [Pos2::new(sx, rect.top()), Pos2::new(sx, rect.bottom())],
-            Stroke::new(1.0, if axis { c.axis } else { c.grid }),
-        );
-        painter.text(
-            Pos2::new(sx + 3.0, rect.bottom() - 3.0),
-            egui::Align2::LEFT_BOTTOM,
-            tick_text(x, step),
-            font.clone(),
-            c.label,
-        );
-        k += 1.0;
-    }
-    let mut k = (lo.im / step).ceil();
-    while k * step <= hi.im {
-        let y = k * step;
-        let sy = tf.to_screen(Complex64::new(0.0, y)).y;
-        let axis = k == 0.0;
-        painter.line_segment(
-            [Pos2::new(rect.left(), sy), Pos2::new(rect.right(), sy)],
-            Stroke::new(1.0, if axis { c.axis } else { c.grid }),
-        );
-        painter.text(
-            Pos2::new(rect.left() + 3.0, sy - 2.0),
-            egui::Align2::LEFT_BOTTOM,
-            format!("{}i", tick_text(y, step)),
-            font.clone(),
-            c.label,
-        );
-        k += 1.0;
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn nice_steps() {
-        assert_eq!(nice_step(0.3), 0.5);
-        assert_eq!(nice_step(1.0), 1.0);
-        assert_eq!(nice_step(1.1), 2.0);
-        assert_eq!(nice_step(27.0), 50.0);
-    }
 
     #[test]
     fn transform_round_trips() {

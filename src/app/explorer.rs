@@ -6,7 +6,7 @@ use super::command::{Command, PointRef, Selection};
 use super::files::{self, StateDir};
 use super::history::History;
 use super::worker::{Computed, Worker};
-use super::{curve_build, AppOptions};
+use super::AppOptions;
 use crate::algebra::parse::parse_equation;
 use crate::scenario::{Pole, Quadratic, Scenario, Theme, View};
 use eframe::egui;
@@ -148,8 +148,8 @@ impl WallflowerApp {
     /// The app on `opts.scenario`, or on the embedded default.
     pub fn new(opts: &AppOptions) -> anyhow::Result<Self> {
         let (scenario, path) = match &opts.scenario {
-            Some(p) => (files::load_scenario(p)?, Some(p.clone())),
-            None => (curve_build::default_scenario(), None),
+            Some(p) => (files::load_scenario(p)?.0, Some(p.clone())),
+            None => (Scenario::default_embedded(), None),
         };
         Ok(Self::with_scenario(scenario, path, opts))
     }
@@ -568,7 +568,7 @@ impl WallflowerApp {
 
     fn open(&mut self, path: PathBuf) {
         match files::load_scenario(&path) {
-            Ok(s) => {
+            Ok((s, warnings)) => {
                 self.history = History::default();
                 self.view = s.view.clone();
                 self.equation_buffer = s.curve.clone().unwrap_or_default();
@@ -579,7 +579,11 @@ impl WallflowerApp {
                 self.path_field = path.display().to_string();
                 files::push_recent(&mut self.recent, &path);
                 self.write_recent();
-                self.file_message = Some(format!("opened {}", path.display()));
+                self.file_message = Some(if warnings.is_empty() {
+                    format!("opened {}", path.display())
+                } else {
+                    format!("opened {} ({})", path.display(), warnings.join("; "))
+                });
                 self.path = Some(path);
             }
             Err(e) => self.file_message = Some(format!("{e:#}")),

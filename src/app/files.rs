@@ -1,9 +1,8 @@
 //! Files the window reads and writes: scenarios (saved atomically), the
 //! recovery file for unsaved edits, and the recent-files list.
 //!
-//! RON itself stays in `crate::scenario`; until its load/save functions
-//! land, [`scenario_to_text`] and [`scenario_from_text`] are the only two
-//! places here that touch the format (TEMPORARY).
+//! The format itself is `crate::scenario`'s business (`to_ron`,
+//! `from_ron_with_warnings`); this module only moves the text.
 
 use crate::scenario::Scenario;
 use anyhow::Context as _;
@@ -12,25 +11,22 @@ use std::path::{Path, PathBuf};
 /// Most entries kept in the recent-files list.
 const MAX_RECENT: usize = 8;
 
-pub fn scenario_to_text(s: &Scenario) -> anyhow::Result<String> {
-    ron::ser::to_string_pretty(s, ron::ser::PrettyConfig::default())
-        .context("could not write the scenario as RON")
-}
-
-pub fn scenario_from_text(text: &str) -> anyhow::Result<Scenario> {
-    ron::from_str(text).map_err(|e| anyhow::anyhow!("{e}"))
-}
-
-/// Reads a scenario file; the message names the file.
-pub fn load_scenario(path: &Path) -> anyhow::Result<Scenario> {
-    let text = std::fs::read_to_string(path)
-        .with_context(|| format!("could not read {}", path.display()))?;
-    scenario_from_text(&text).with_context(|| format!("{} is not a valid scenario", path.display()))
+/// Reads a scenario file, with warnings about keys that were ignored; the
+/// error names the file and the line and column.
+pub fn load_scenario(path: &Path) -> anyhow::Result<(Scenario, Vec<String>)> {
+    let bytes =
+        std::fs::read(path).with_context(|| format!("could not read {}", path.display()))?;
+    Scenario::from_ron_bytes(&bytes).map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))
 }
 
 /// Writes `contents` to a temporary file beside `path`, then renames it
 /// over `path`: a crash mid-write never leaves a half-written scenario.
 pub fn atomic_write(path: &Path, contents: &str) -> anyhow::Result<()> {
+    atomic_write_bytes(path, contents.as_bytes())
+}
+
+/// [`atomic_write`] for bytes.
+pub fn atomic_write_bytes(path: &Path, contents: &[u8]) -> anyhow::Result<()> {
     let dir = path
         .parent()
         .filter(|p| !p.as_os_str().is_empty())
@@ -51,7 +47,7 @@ pub fn atomic_write(path: &Path, contents: &str) -> anyhow::Result<()> {
 }
 
 pub fn save_scenario(path: &Path, s: &Scenario) -> anyhow::Result<()> {
-    atomic_write(path, &scenario_to_text(s)?)
+    atomic_write(path, &s.to_ron())
 }
 
 /// Where the window keeps its own small files (recovery, recent list).
@@ -87,7 +83,7 @@ impl StateDir {
 
     pub fn read_recovery(&self) -> Option<Scenario> {
         let text = std::fs::read_to_string(self.recovery_path()).ok()?;
-        scenario_from_text(&text).ok()
+        Scenario::from_ron(&text).ok()
     }
 
     pub fn clear_recovery(&self) {

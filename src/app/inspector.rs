@@ -13,7 +13,7 @@ const ROW_PX: f32 = 18.0;
 impl WallflowerApp {
     pub(super) fn inspector_panel(&mut self, ui: &mut egui::Ui) {
         egui::Panel::right("inspector")
-            .default_size(340.0)
+            .default_size(370.0)
             .resizable(true)
             .show(ui, |ui| {
                 ui.heading("Inspector");
@@ -199,6 +199,7 @@ impl WallflowerApp {
             .max_height(320.0)
             .auto_shrink([false, true])
             .show_rows(ui, ROW_PX, order.len(), |ui, rows| {
+                ui.style_mut().wrap_mode = Some(egui::TextWrapMode::Extend);
                 for &idx in &order[rows] {
                     let w = &walls[idx];
                     let text = format!(

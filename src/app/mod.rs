@@ -5,7 +5,7 @@
 //! - `explorer`: the state, the frame, command handling (undo snapshots
 //!   are taken there), worker sync, files, title, screenshot.
 //! - `canvas`: plane <-> screen transform, grid, gestures, hit tests.
-//! - `paint`: scene -> egui shapes. `draft_scene`: temporary scene builder.
+//! - `paint`: the shared scene -> egui shapes (the painter adapter).
 //! - `panels`: file/export bar, curve editor, phase control, status bar.
 //! - `inspector`: walls and joints tables, jump matrix.
 //! - `worker`: the background thread. `command`, `history`: edits and undo.
@@ -18,8 +18,6 @@
 
 mod canvas;
 pub mod command;
-mod curve_build;
-mod draft_scene;
 mod explorer;
 mod export;
 mod files;

@@ -1,8 +1,8 @@
-//! The painter adapter: draws a backend-free [`Scene`] with egui shapes.
+//! The painter adapter: draws a backend-free [`crate::scene::Scene`] with egui shapes.
 //! The SVG writer draws the same scene, so the canvas shows what an
 //! export will contain.
 
-use crate::scene::{Anchor, Layer, Rgba, Scene, Shape};
+use crate::scene::{dash_pattern, Anchor, Layer, Rgba, Shape};
 use eframe::egui::{self, Color32, Pos2, Stroke, Vec2};
 
 pub fn color(c: Rgba) -> Color32 {
@@ -12,11 +12,6 @@ pub fn color(c: Rgba) -> Color32 {
 
 fn pos(p: [f32; 2], offset: Vec2) -> Pos2 {
     Pos2::new(p[0], p[1]) + offset
-}
-
-/// Paints the scene's background over `rect`.
-pub fn paint_background(painter: &egui::Painter, scene: &Scene, rect: egui::Rect) {
-    painter.rect_filled(rect, 0.0, color(scene.background));
 }
 
 /// Paints one layer; scene pixel (0, 0) lands at `offset` on screen.
@@ -38,7 +33,8 @@ fn paint_shape(painter: &egui::Painter, shape: &Shape, offset: Vec2) {
             let pts: Vec<Pos2> = points.iter().map(|p| pos(*p, offset)).collect();
             let stroke = Stroke::new(*width, color(*c));
             if *dashed {
-                painter.extend(egui::Shape::dashed_line(&pts, stroke, 6.0, 4.0));
+                let [dash, gap] = dash_pattern(*width);
+                painter.extend(egui::Shape::dashed_line(&pts, stroke, dash, gap));
             } else if pts.len() >= 2 {
                 painter.add(egui::Shape::line(pts, stroke));
             }

@@ -91,40 +91,6 @@ impl WallflowerApp {
                 if ui.button("Fit").on_hover_text("F").clicked() {
                     self.commands.push(Command::Fit);
                 }
-                ui.separator();
-                let l = ui.label("Export to");
-                ui.add(egui::TextEdit::singleline(&mut self.export_path).desired_width(150.0))
-                    .labelled_by(l.id);
-                ui.add(
-                    egui::DragValue::new(&mut self.export_size[0])
-                        .range(16..=8000)
-                        .suffix(" px"),
-                )
-                .on_hover_text("width");
-                ui.label("x");
-                ui.add(
-                    egui::DragValue::new(&mut self.export_size[1])
-                        .range(16..=8000)
-                        .suffix(" px"),
-                )
-                .on_hover_text("height");
-                egui::ComboBox::from_label("theme")
-                    .selected_text(match self.export_theme {
-                        Theme::Paper => "paper",
-                        Theme::Projector => "projector",
-                    })
-                    .show_ui(ui, |ui| {
-                        ui.selectable_value(&mut self.export_theme, Theme::Paper, "paper");
-                        ui.selectable_value(&mut self.export_theme, Theme::Projector, "projector");
-                    });
-                if ui
-                    .button("Export")
-                    .on_hover_text("SVG or PNG, by the file extension")
-                    .clicked()
-                {
-                    self.commands
-                        .push(Command::ExportTo(PathBuf::from(self.export_path.trim())));
-                }
                 if let Some(msg) = &self.file_message {
                     ui.separator();
                     ui.label(msg);
@@ -290,15 +256,60 @@ impl WallflowerApp {
                             self.commands.push(Command::EndInteraction);
                         }
                     });
+                    ui.separator();
+                    self.export_section(ui);
                 });
             });
+    }
+
+    fn export_section(&mut self, ui: &mut egui::Ui) {
+        ui.strong("Export figure");
+        ui.horizontal(|ui| {
+            let l = ui.label("to");
+            ui.add(egui::TextEdit::singleline(&mut self.export_path).desired_width(170.0))
+                .labelled_by(l.id)
+                .on_hover_text("a file name ending in .svg or .png");
+        });
+        ui.horizontal(|ui| {
+            ui.add(
+                egui::DragValue::new(&mut self.export_size[0])
+                    .range(16..=8000)
+                    .suffix(" px"),
+            )
+            .on_hover_text("width");
+            ui.label("x");
+            ui.add(
+                egui::DragValue::new(&mut self.export_size[1])
+                    .range(16..=8000)
+                    .suffix(" px"),
+            )
+            .on_hover_text("height");
+        });
+        ui.horizontal(|ui| {
+            egui::ComboBox::from_label("theme")
+                .selected_text(match self.export_theme {
+                    Theme::Paper => "paper",
+                    Theme::Projector => "projector",
+                })
+                .show_ui(ui, |ui| {
+                    ui.selectable_value(&mut self.export_theme, Theme::Paper, "paper");
+                    ui.selectable_value(&mut self.export_theme, Theme::Projector, "projector");
+                });
+            if ui
+                .button("Export")
+                .on_hover_text("SVG or PNG by the file extension; the canvas view at this size")
+                .clicked()
+            {
+                self.commands
+                    .push(Command::ExportTo(PathBuf::from(self.export_path.trim())));
+            }
+        });
     }
 
     fn quadratic_editor(&mut self, ui: &mut egui::Ui) {
         ui.strong("Curve y\u{b2} = q(z), factored");
         ui.label(
-            RichText::new("q = c \u{3a0}(z \u{2212} a_k) / \u{3a0}(z \u{2212} p_k)^n_k")
-                .monospace(),
+            RichText::new("q = c \u{3a0}(z\u{2212}a_k) / \u{3a0}(z\u{2212}p_k)^n_k").monospace(),
         );
         ui.horizontal_wrapped(|ui| {
             ui.selectable_value(&mut self.tool, Tool::Select, "Select / move")

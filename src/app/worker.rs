@@ -6,13 +6,12 @@
 //! integrator checks inside its loops. When several jobs are queued the
 //! worker skips to the newest one.
 
-use super::curve_build;
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
 use crate::network::Network;
 use crate::scenario::Scenario;
 use eframe::egui;
-use std::sync::mpsc::{self, Receiver, Sender, TryRecvError};
+use std::sync::mpsc::{self, Receiver, Sender};
 use std::sync::{Arc, Mutex};
 use std::thread::JoinHandle;
 use std::time::Instant;
@@ -104,11 +103,8 @@ impl Worker {
     /// The finished results since the last call, oldest first.
     pub fn poll(&mut self) -> Vec<JobResult> {
         let mut out = Vec::new();
-        loop {
-            match self.results.try_recv() {
-                Ok(r) => out.push(r),
-                Err(TryRecvError::Empty | TryRecvError::Disconnected) => break,
-            }
+        while let Ok(r) = self.results.try_recv() {
+            out.push(r);
         }
         out
     }
@@ -165,9 +161,8 @@ fn worker_loop(
 
 /// The engine work for one scenario, on the worker thread.
 pub fn compute(scenario: &Scenario, cancel: &CancelToken) -> Result<Arc<Computed>, String> {
-    let curve = curve_build::build_curve(scenario)?;
-    let settings = curve_build::settings(scenario);
-    settings.validate().map_err(|errs| errs.join("; "))?;
+    let curve = scenario.build_curve().map_err(|e| e.to_string())?;
+    let settings = scenario.settings().map_err(|e| e.to_string())?;
     let network = crate::network::compute(&curve, scenario.phase, &settings, cancel);
     Ok(Arc::new(Computed { curve, network }))
 }
