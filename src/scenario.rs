@@ -339,8 +339,19 @@ impl Scenario {
             )),
             _ => {}
         }
+        // A bad parameter value is reported at the value, not where the
+        // equation uses it.
+        let params_ok = self
+            .params
+            .iter()
+            .all(|(name, v)| is_parameter_name(name) && finite2(*v));
         if let Some(text) = &self.curve {
-            if let Err(e) = self.equation_checked(text) {
+            let checked = if params_ok {
+                self.equation_checked(text).map(|_| ())
+            } else {
+                parse_equation(text).map(|_| ())
+            };
+            if let Err(e) = checked {
                 // The parser words a missing parameter for the command line;
                 // in a scenario the value belongs in `params`.
                 let message = match e.message.split_once(": give its value with --set") {

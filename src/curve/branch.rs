@@ -10,7 +10,7 @@
 //! method on the pair `P = dP/dy = 0` in (y, z).
 
 use super::sheets::{roots_of_monic, sort_roots};
-use super::{BranchPoint, Curve, CurveError, CurveNote, LabelFrame, Puncture};
+use super::{BranchPoint, Curve, CurveError, CurveNote, Cut, LabelFrame, Puncture, CUT_DIRECTION};
 use crate::algebra::Poly;
 use num_complex::Complex64;
 use std::f64::consts::TAU;
@@ -412,4 +412,45 @@ pub(super) fn classify(curve: &Curve, zs: &[Complex64], orders: &[u32]) -> Vec<B
             }
         })
         .collect()
+}
+
+/// The sheet permutation across the cut of every singular point, read off by
+/// labelling the sheets just left and just right of the cut near its origin.
+pub(super) fn cuts(curve: &Curve) -> Vec<Cut> {
+    let mut cuts = Vec::new();
+    for &s in &curve.singular_points {
+        let room = curve
+            .singular_points
+            .iter()
+            .filter(|o| (*o - s).norm() > 1e-12 * (1.0 + s.norm()))
+            .map(|o| (o - s).norm())
+            .fold(curve.length_scale(), f64::min);
+        let on_cut = s + CUT_DIRECTION * (0.05 * room);
+        // In w = (z - s)/d the east side of the cut is Im w > 0.
+        let east = CUT_DIRECTION * Complex64::new(0.0, 0.01 * room);
+        let (Ok(west), Ok(right)) = (
+            curve.sheets_at(on_cut - east),
+            curve.sheets_at(on_cut + east),
+        ) else {
+            continue;
+        };
+        let perm: Vec<usize> = west
+            .iter()
+            .map(|y| {
+                right
+                    .iter()
+                    .enumerate()
+                    .min_by(|a, b| (a.1 - y).norm().total_cmp(&(b.1 - y).norm()))
+                    .map_or(0, |(k, _)| k)
+            })
+            .collect();
+        let is_perm = {
+            let mut seen = vec![false; perm.len()];
+            perm.iter().all(|&p| !std::mem::replace(&mut seen[p], true))
+        };
+        if is_perm && perm.iter().enumerate().any(|(a, &p)| a != p) {
+            cuts.push(Cut { origin: s, perm });
+        }
+    }
+    cuts
 }

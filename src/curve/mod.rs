@@ -33,6 +33,40 @@ pub struct BranchPoint {
     pub series_coeff: Complex64,
 }
 
+/// Direction of every branch cut: a ray from each branch point and finite
+/// puncture, tilted 0.1 rad off straight down so that the cuts of points
+/// stacked vertically (common in symmetric examples) do not overlap.
+pub const CUT_DIRECTION: Complex64 =
+    Complex64::new(0.099_833_416_646_828_15, -0.995_004_165_278_025_8);
+
+/// A branch cut: the ray `origin + t CUT_DIRECTION`, t >= 0.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Cut {
+    pub origin: Complex64,
+    /// Crossing from the cut's west side to its east side (from smaller
+    /// Re z to larger, the sense in which a counterclockwise loop around the
+    /// origin crosses it), the sheet labelled `a` becomes the sheet labelled
+    /// `perm[a]`.
+    pub perm: Vec<usize>,
+}
+
+impl Cut {
+    /// Where the segment `a -> b` crosses this cut: the fraction along the
+    /// segment and whether it crosses from west to east.
+    pub fn crossing(&self, a: Complex64, b: Complex64) -> Option<(f64, bool)> {
+        // In w = (z - origin) / CUT_DIRECTION the cut is the positive real axis.
+        let wa = (a - self.origin) / CUT_DIRECTION;
+        let wb = (b - self.origin) / CUT_DIRECTION;
+        if (wa.im < 0.0) == (wb.im < 0.0) {
+            return None;
+        }
+        let frac = wa.im / (wa.im - wb.im);
+        let re = wa.re + frac * (wb.re - wa.re);
+        // The east side (larger Re z for a downward cut) is Im w > 0.
+        (re > 0.0).then_some((frac, wa.im < 0.0))
+    }
+}
+
 /// A pole of the coefficients u_k, or z = infinity.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Puncture {
@@ -92,6 +126,8 @@ pub struct Curve {
     /// where continuation must slow down.
     pub singular_points: Vec<Complex64>,
     pub frame: LabelFrame,
+    /// One cut per singular point whose sheets are permuted around it.
+    pub cuts: Vec<Cut>,
     pub notes: Vec<CurveNote>,
 }
 
@@ -167,6 +203,7 @@ impl Curve {
                 y_top: 0.0,
                 base_roots: Vec::new(),
             },
+            cuts: Vec::new(),
             notes: Vec::new(),
         };
         let found = branch::find_singularities(&curve)?;
@@ -180,6 +217,7 @@ impl Curve {
             .collect();
         curve.frame = branch::label_frame(&curve)?;
         curve.branch_points = branch::classify(&curve, &found.branch_z, &found.branch_orders);
+        curve.cuts = branch::cuts(&curve);
         Ok(curve)
     }
 

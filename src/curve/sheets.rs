@@ -156,17 +156,20 @@ impl Curve {
     /// The sheets at `z`, labelled by the project's convention:
     ///
     /// ```text
-    /// label the K roots at the base point  b0 = x_ref + i y_top  by increasing
-    /// real part (ties: imaginary part); continue them along the horizontal line
-    /// Im z = y_top to Re z + i y_top, then straight down (or up) to z.
+    /// label the K roots at the base point  b0  (on the line Im z = y_top,
+    /// above every branch point and pole) by increasing real part (ties:
+    /// imaginary part); continue them along that line to the point where the
+    /// ray from z in the direction -CUT_DIRECTION meets it, then down that
+    /// ray to z.
     /// ```
     ///
-    /// `y_top` lies above every branch point and pole, so the labelling is
-    /// continuous except across the vertical rays running down from each
-    /// branch point and pole: those rays are the branch cuts.
+    /// The labelling is therefore continuous except across the rays running
+    /// from each branch point and pole in the direction [`super::CUT_DIRECTION`]
+    /// (nearly straight down): those rays are the branch cuts.
     pub fn sheets_at(&self, z: Complex64) -> Result<Vec<Complex64>, ContinuationError> {
         let mut budget = 20_000;
-        let top = Complex64::new(z.re, self.frame.y_top);
+        let up = -super::CUT_DIRECTION;
+        let top = z + up * ((self.frame.y_top - z.im) / up.im);
         let base = self.frame.base_roots.clone();
         let at_top = self.continue_roots(&base, self.frame.base, top, &mut budget)?;
         self.continue_roots(&at_top, top, z, &mut budget)

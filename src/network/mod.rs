@@ -1,6 +1,10 @@
 //! A spectral network at one phase: the walls, the joints where new walls
 //! are born (rank >= 3), and what the user should be warned about.
 
+pub mod crossings;
+pub mod growth;
+pub mod jump;
+
 use crate::cancel::CancelToken;
 use crate::curve::{BranchPoint, Curve, Puncture};
 use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Settings, Wall};
@@ -109,6 +113,10 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
         }
         walls.push(grow_wall(&ctx, seed));
     }
+    let mut joints = Vec::new();
+    if curve.rank >= 3 && limit == GrowthLimit::None {
+        limit = growth::grow_descendants(&ctx, &mut walls, &mut joints);
+    }
     let mut stats = Stats::default();
     for w in &walls {
         stats.rhs_evals += w.rhs_evals;
@@ -127,7 +135,7 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
         branch_points: curve.branch_points.clone(),
         punctures: curve.punctures.clone(),
         walls,
-        joints: Vec::new(),
+        joints,
         warnings,
         limit,
         stats,

@@ -10,7 +10,7 @@
 //! never longer than half the distance to the nearest singular point, so a
 //! wall cannot jump across a branch point or a pole.
 
-use super::{Bounds, EndReason, Origin, Settings, Wall, WallPoint, WallType};
+use super::{Bounds, EndReason, Origin, Relabel, Settings, Wall, WallPoint, WallType};
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
 use num_complex::Complex64;
@@ -114,6 +114,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     let punct_r = settings.puncture_radius * scale;
     let hit_r = settings.branch_hit_radius * scale;
     let (mut i, mut j) = (seed.kind.i as usize, seed.kind.j as usize);
+    let mut mu = seed.multiplicity;
     let mut z = seed.z;
     let mut t = seed.mass;
     let mut roots = seed.roots.clone();
@@ -201,31 +202,34 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         let f_new = stages[6];
         let t_new = t + h;
         push_dense(wall, z, z_new, f0, f_new, t, h, settings.max_turn_rad);
-        // Branch cuts: vertical rays down from each singular point.
-        if let Some(z_cut) = crossed_cut(curve, z, z_new) {
-            let frac = ((z_cut - z).norm() / (z_new - z).norm()).clamp(0.0, 1.0);
+        // Branch cuts: apply each crossed cut's permutation in order along the step.
+        for (frac, cut_idx, west_to_east) in crossed_cuts(curve, z, z_new) {
+            let cut = &curve.cuts[cut_idx];
             let idx = wall.points.len();
+            let z_cut = z + (z_new - z) * frac;
             wall.points.push(WallPoint {
                 z: z_cut,
                 mass: t + frac * h,
             });
-            match relabel(curve, &stage_roots, z_new) {
-                Some((fresh, perm)) => {
-                    stage_roots = fresh;
-                    i = perm[i];
-                    j = perm[j];
-                    wall.relabels.push((idx, WallType::new(i, j)));
-                }
-                None => {
-                    wall.points.push(WallPoint {
-                        z: z_new,
-                        mass: t_new,
-                    });
-                    return EndReason::Degenerate(
-                        "sheets ambiguous where the wall crosses a cut".into(),
-                    );
-                }
+            let perm = if west_to_east {
+                cut.perm.clone()
+            } else {
+                invert(&cut.perm)
+            };
+            let signs = crate::network::jump::cut_signs(&cut.perm, west_to_east);
+            mu *= signs[i] * signs[j];
+            let mut permuted = stage_roots.clone();
+            for (a, &p) in perm.iter().enumerate() {
+                permuted[p] = stage_roots[a];
             }
+            stage_roots = permuted;
+            i = perm[i];
+            j = perm[j];
+            wall.relabels.push(Relabel {
+                from: idx,
+                kind: WallType::new(i, j),
+                multiplicity: mu,
+            });
         }
         wall.points.push(WallPoint {
             z: z_new,
@@ -294,51 +298,24 @@ fn push_dense(
     }
 }
 
-/// Where the segment `a -> b` crosses a branch cut (a vertical ray running
-/// down from a singular point), if it does.
-pub fn crossed_cut(curve: &Curve, a: Complex64, b: Complex64) -> Option<Complex64> {
-    let mut best: Option<(f64, Complex64)> = None;
-    for s in &curve.singular_points {
-        let (da, db) = (a.re - s.re, b.re - s.re);
-        if (da < 0.0) == (db < 0.0) {
-            continue;
-        }
-        let frac = da / (da - db);
-        let y = a.im + frac * (b.im - a.im);
-        if y < s.im && best.is_none_or(|(f, _)| frac < f) {
-            best = Some((frac, Complex64::new(s.re, y)));
-        }
-    }
-    best.map(|(_, z)| z)
+/// The cuts crossed by the segment `a -> b`, in order along it: fraction,
+/// index into `curve.cuts`, and whether the crossing is west to east.
+pub fn crossed_cuts(curve: &Curve, a: Complex64, b: Complex64) -> Vec<(f64, usize, bool)> {
+    let mut out: Vec<(f64, usize, bool)> = curve
+        .cuts
+        .iter()
+        .enumerate()
+        .filter_map(|(k, cut)| cut.crossing(a, b).map(|(f, we)| (f, k, we)))
+        .collect();
+    out.sort_by(|x, y| x.0.total_cmp(&y.0));
+    out
 }
 
-/// Fresh labels at `z` and the permutation taking old label to new label.
-pub fn relabel(
-    curve: &Curve,
-    tracked: &[Complex64],
-    z: Complex64,
-) -> Option<(Vec<Complex64>, Vec<usize>)> {
-    let fresh = curve.sheets_at(z).ok()?;
-    let k = fresh.len();
-    let mut perm = vec![usize::MAX; k];
-    for (a, y) in tracked.iter().enumerate() {
-        let mut order: Vec<(usize, f64)> = fresh
-            .iter()
-            .enumerate()
-            .map(|(b, f)| (b, (f - y).norm()))
-            .collect();
-        order.sort_by(|x, y| x.1.total_cmp(&y.1));
-        if k > 1 && order[0].1 > 0.3 * order[1].1 {
-            return None;
-        }
-        perm[a] = order[0].0;
+/// The inverse of a permutation given as `perm[a] = image of a`.
+pub fn invert(perm: &[usize]) -> Vec<usize> {
+    let mut inv = vec![0; perm.len()];
+    for (a, &p) in perm.iter().enumerate() {
+        inv[p] = a;
     }
-    let mut seen = vec![false; k];
-    for &p in &perm {
-        if p >= k || seen[p] {
-            return None;
-        }
-        seen[p] = true;
-    }
-    Some((fresh, perm))
+    inv
 }

@@ -6,7 +6,7 @@ mod grow;
 mod settings;
 mod start;
 
-pub use grow::{crossed_cut, grow_wall, relabel, GrowContext, WallSeed};
+pub use grow::{crossed_cuts, grow_wall, invert, GrowContext, WallSeed};
 pub use settings::{Bounds, Settings};
 pub use start::primary_seeds;
 
@@ -113,15 +113,27 @@ impl fmt::Display for EndReason {
     }
 }
 
+/// A change of sheet labels where a wall crosses a branch cut: from point
+/// `from` on, the wall has type `kind` and signed multiplicity `multiplicity`.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Relabel {
+    pub from: usize,
+    pub kind: WallType,
+    pub multiplicity: i64,
+}
+
 /// One wall.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Wall {
     /// Type at the start of the wall.
     pub kind: WallType,
-    /// Where the labels change as the wall crosses a branch cut: from point
-    /// index `.0` on, the type is `.1`.
-    pub relabels: Vec<(usize, WallType)>,
-    /// Soliton count mu: the wall's jump matrix is `1 + mu e_ij`.
+    /// Where the labels change as the wall crosses a branch cut.
+    pub relabels: Vec<Relabel>,
+    /// Signed soliton count mu at the start: crossing the wall from its
+    /// right to its left (counterclockwise about its origin) multiplies by
+    /// `1 + mu e_ij`. Its size is the number of solitons; its sign follows
+    /// the convention of [`crate::network::jump`] (primary walls: +1 for
+    /// i < j, -1 for i > j).
     pub multiplicity: i64,
     pub origin: Origin,
     /// 0 for walls from branch points, n + 1 for walls born from parents of
@@ -139,11 +151,18 @@ pub struct Wall {
 impl Wall {
     /// The type that holds on the segment starting at point `idx`.
     pub fn kind_at(&self, idx: usize) -> WallType {
-        self.relabels
-            .iter()
-            .take_while(|(from, _)| *from <= idx)
-            .last()
-            .map_or(self.kind, |(_, k)| *k)
+        self.relabel_at(idx).map_or(self.kind, |r| r.kind)
+    }
+
+    /// The signed multiplicity on the segment starting at point `idx`, in
+    /// the labels that hold there.
+    pub fn multiplicity_at(&self, idx: usize) -> i64 {
+        self.relabel_at(idx)
+            .map_or(self.multiplicity, |r| r.multiplicity)
+    }
+
+    fn relabel_at(&self, idx: usize) -> Option<&Relabel> {
+        self.relabels.iter().take_while(|r| r.from <= idx).last()
     }
 
     /// Mass at the end of the wall.

@@ -92,7 +92,7 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
         mass,
         origin: Origin::BranchPoint { index, n },
         generation: 0,
-        multiplicity: 1,
+        multiplicity: if i < j { 1 } else { -1 },
         prefix: vec![WallPoint { z: b, mass: 0.0 }],
     })
 }

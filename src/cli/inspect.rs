@@ -1,0 +1,132 @@
+//! `wallflower inspect`: what the engine found about the curve — branch
+//! points with their classification, punctures with their orders, and the
+//! labelled sheets at a point.
+
+use super::bad_input;
+use super::json::{BranchPointJson, PunctureJson};
+use super::source::{load, SourceArgs};
+use super::{emit, say};
+use clap::Args;
+use num_complex::Complex64;
+use serde::Serialize;
+use std::process::ExitCode;
+
+#[derive(Debug, Args)]
+pub struct InspectArgs {
+    #[command(flatten)]
+    pub source: SourceArgs,
+    /// Also list the sheets y_1..y_K at this point, e.g. --at 0.5,-1.
+    #[arg(long, value_name = "X,Y", allow_hyphen_values = true)]
+    pub at: Option<String>,
+    /// Print one JSON object instead of tables.
+    #[arg(long)]
+    pub json: bool,
+}
+
+#[derive(Serialize)]
+struct SheetsJson {
+    z: [f64; 2],
+    /// `y_1..y_K` in the program's labelling, as `[re, im]`.
+    y: Vec<[f64; 2]>,
+}
+
+#[derive(Serialize)]
+struct InspectJson {
+    title: String,
+    curve: Option<String>,
+    rank: usize,
+    length_scale: f64,
+    branch_points: Vec<BranchPointJson>,
+    punctures: Vec<PunctureJson>,
+    sheets: Option<SheetsJson>,
+    warnings: Vec<String>,
+}
+
+fn parse_point(text: &str) -> anyhow::Result<Complex64> {
+    let parts: Vec<&str> = text.split(',').map(str::trim).collect();
+    let parsed: Option<Vec<f64>> = if parts.len() == 2 {
+        parts.iter().map(|p| p.parse::<f64>().ok()).collect()
+    } else {
+        None
+    };
+    match parsed.as_deref() {
+        Some(&[x, y]) if x.is_finite() && y.is_finite() => Ok(Complex64::new(x, y)),
+        _ => bad_input!("--at {text}: expected two finite numbers X,Y such as 0.5,-1"),
+    }
+}
+
+fn fmt_z(z: Complex64) -> String {
+    format!("{:.6}{:+.6}i", z.re, z.im)
+}
+
+pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
+    let mut out = String::new();
+    let at = args.at.as_deref().map(parse_point).transpose()?;
+    let loaded = load(&args.source)?;
+    loaded.print_warnings();
+    let curve = &loaded.curve;
+    let sheets = match at {
+        None => None,
+        Some(z) => match curve.sheets_at(z) {
+            Ok(y) => Some((z, y)),
+            Err(e) => bad_input!(
+                "--at {}: the sheets cannot be followed to this point ({e}); try a point a little away from the branch points and cuts",
+                fmt_z(z)
+            ),
+        },
+    };
+    if args.json {
+        let doc = InspectJson {
+            title: loaded.scenario.title.clone(),
+            curve: loaded.scenario.curve.clone(),
+            rank: curve.rank,
+            length_scale: curve.length_scale(),
+            branch_points: curve.branch_points.iter().map(Into::into).collect(),
+            punctures: curve.punctures.iter().map(Into::into).collect(),
+            sheets: sheets.as_ref().map(|(z, y)| SheetsJson {
+                z: [z.re, z.im],
+                y: y.iter().map(|v| [v.re, v.im]).collect(),
+            }),
+            warnings: loaded.warnings.clone(),
+        };
+        emit(&serde_json::to_string(&doc)?)?;
+        emit("\n")?;
+        return Ok(ExitCode::SUCCESS);
+    }
+    let what = match &loaded.scenario.curve {
+        Some(eq) => eq.clone(),
+        None => "factored y^2 = q(z)".to_string(),
+    };
+    say!(out, "{}: {what} (rank {})", loaded.label, curve.rank);
+    say!(out, "branch points: {}", curve.branch_points.len());
+    if !curve.branch_points.is_empty() {
+        say!(out, "{:>4}  {:>26}  sheets  simple  order", "#", "z");
+        for (idx, bp) in curve.branch_points.iter().enumerate() {
+            say!(
+                out,
+                "{:>4}  {:>26}  {:>6}  {:>6}  {:>5}",
+                idx + 1,
+                fmt_z(bp.z),
+                format!("{}{}", bp.sheets[0] + 1, bp.sheets[1] + 1),
+                if bp.simple { "yes" } else { "no" },
+                bp.order
+            );
+        }
+    }
+    say!(out, "punctures: {}", curve.punctures.len());
+    if !curve.punctures.is_empty() {
+        say!(out, "{:>4}  {:>26}  order", "#", "z");
+        for (idx, p) in curve.punctures.iter().enumerate() {
+            let z = p.z.map_or_else(|| "infinity".to_string(), fmt_z);
+            say!(out, "{:>4}  {:>26}  {:>5}", idx + 1, z, p.order);
+        }
+    }
+    if let Some((z, y)) = sheets {
+        say!(out, "sheets at {}:", fmt_z(z));
+        for (idx, v) in y.iter().enumerate() {
+            say!(out, "{:>4}  y = {}", idx + 1, fmt_z(*v));
+        }
+    }
+    emit(&out)?;
+    Ok(ExitCode::SUCCESS)
+}

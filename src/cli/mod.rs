@@ -1,0 +1,204 @@
+//! The command line: argument definitions (clap derive) and dispatch to one
+//! module per command. Thin glue over the library: every number printed here
+//! is computed by the engine.
+//!
+//! Errors: anything the user can fix (a bad file, equation, value or output
+//! path) is a [`BadInput`] and exits with status 2; anything else exits
+//! with 1. Messages are one line.
+
+mod draw;
+mod inspect;
+mod json;
+mod network;
+mod output;
+mod source;
+
+use clap::{Parser, Subcommand};
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+pub use source::SourceArgs;
+
+/// A problem with what the user gave us; exit status 2.
+#[derive(Debug)]
+pub struct BadInput(pub String);
+
+impl std::fmt::Display for BadInput {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.0)
+    }
+}
+
+impl std::error::Error for BadInput {}
+
+/// Returns a [`BadInput`] error from the enclosing function.
+macro_rules! bad_input {
+    ($($arg:tt)*) => {
+        return Err(anyhow::Error::new($crate::cli::BadInput(format!($($arg)*))))
+    };
+}
+pub(crate) use bad_input;
+
+/// Appends one formatted line to a `String` buffer (writing to a `String`
+/// cannot fail).
+macro_rules! say {
+    ($out:expr, $($arg:tt)*) => {{
+        use std::fmt::Write as _;
+        let _ = writeln!($out, $($arg)*);
+    }};
+}
+pub(crate) use say;
+
+/// Writes `text` to stdout. A closed pipe (`wallflower network | head`) is
+/// not an error: the reader has what it wanted.
+pub fn emit(text: &str) -> anyhow::Result<()> {
+    use std::io::Write as _;
+    let mut stdout = std::io::stdout().lock();
+    match stdout
+        .write_all(text.as_bytes())
+        .and_then(|()| stdout.flush())
+    {
+        Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(e.into()),
+        _ => Ok(()),
+    }
+}
+
+/// Joins the lines of `text` into one, collapsing runs of whitespace.
+pub fn one_line(text: &str) -> String {
+    text.split_whitespace().collect::<Vec<_>>().join(" ")
+}
+
+/// Spectral networks of curves y^K + u_2(z) y^(K-2) + ... + u_K(z) = 0.
+///
+/// Without a command, opens the window on the embedded default scenario.
+#[derive(Debug, Parser)]
+#[command(name = "wallflower", version, about, max_term_width = 100)]
+struct Cli {
+    #[command(subcommand)]
+    command: Option<Command>,
+}
+
+#[derive(Debug, Subcommand)]
+enum Command {
+    /// Open a scenario in the window.
+    Open {
+        /// The scenario file (.ron).
+        file: PathBuf,
+    },
+    /// Compute the network at one phase and print it (a table, or JSON).
+    Network {
+        #[command(flatten)]
+        source: SourceArgs,
+        /// Print one JSON object instead of a table.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Draw the network to an SVG or PNG file.
+    Draw(draw::DrawArgs),
+    /// Describe the curve: branch points, punctures, sheets at a point.
+    Inspect(inspect::InspectArgs),
+    /// Check a scenario: load it, build its curve and settings, report.
+    Check {
+        #[command(flatten)]
+        source: SourceArgs,
+    },
+    /// Write the scenario (with --curve, --set, --phase, --reach applied) to a file.
+    Save {
+        #[command(flatten)]
+        source: SourceArgs,
+        /// The scenario file to write (.ron).
+        #[arg(short = 'o', long = "output", value_name = "FILE")]
+        output: PathBuf,
+    },
+}
+
+/// Parses the arguments and runs the command.
+pub fn run() -> anyhow::Result<ExitCode> {
+    let cli = match Cli::try_parse() {
+        Ok(cli) => cli,
+        Err(e) => {
+            use clap::error::ErrorKind;
+            if matches!(
+                e.kind(),
+                ErrorKind::DisplayHelp
+                    | ErrorKind::DisplayVersion
+                    | ErrorKind::DisplayHelpOnMissingArgumentOrSubcommand
+            ) {
+                // Help and version go to stdout in full.
+                e.print()?;
+                return Ok(ExitCode::SUCCESS);
+            }
+            // clap's first line names the problem; the usage lines after it
+            // would break the one-line rule.
+            let rendered = e.render().to_string();
+            let first = rendered
+                .lines()
+                .find(|l| !l.trim().is_empty())
+                .unwrap_or("invalid arguments")
+                .trim_start_matches("error: ");
+            bad_input!("{first} (see wallflower --help)");
+        }
+    };
+    match cli.command {
+        None => open_window(None),
+        Some(Command::Open { file }) => {
+            // Check the file here so that a bad one gets the same one-line
+            // message and exit status as in every other command.
+            source::load_file(&file)?;
+            open_window(Some(file))
+        }
+        Some(Command::Network { source, json }) => network::run(&source, json),
+        Some(Command::Draw(args)) => draw::run(&args),
+        Some(Command::Inspect(args)) => inspect::run(&args),
+        Some(Command::Check { source }) => check(&source),
+        Some(Command::Save { source, output }) => {
+            let loaded = source::load(&source)?;
+            loaded.print_warnings();
+            output::write_atomic(&output, loaded.scenario.to_ron().as_bytes())?;
+            Ok(ExitCode::SUCCESS)
+        }
+    }
+}
+
+#[cfg(feature = "gui")]
+fn open_window(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+    wallflower::app::run(file)?;
+    Ok(ExitCode::SUCCESS)
+}
+
+#[cfg(not(feature = "gui"))]
+fn open_window(_file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+    bad_input!(
+        "this build has no window (built without the \"gui\" feature); use a headless command such as `wallflower draw`"
+    );
+}
+
+fn check(args: &SourceArgs) -> anyhow::Result<ExitCode> {
+    let mut out = String::new();
+    let loaded = source::load(args)?;
+    loaded.print_warnings();
+    let curve = &loaded.curve;
+    let title = if loaded.scenario.title.is_empty() {
+        String::new()
+    } else {
+        format!(" \"{}\"", loaded.scenario.title)
+    };
+    say!(
+        out,
+        "{}{title}: ok; rank {}, {} branch point{}, {} puncture{}, phase {}, reach {}",
+        loaded.label,
+        curve.rank,
+        curve.branch_points.len(),
+        if curve.branch_points.len() == 1 {
+            ""
+        } else {
+            "s"
+        },
+        curve.punctures.len(),
+        if curve.punctures.len() == 1 { "" } else { "s" },
+        loaded.theta,
+        loaded.settings.reach,
+    );
+    emit(&out)?;
+    Ok(ExitCode::SUCCESS)
+}

@@ -1,0 +1,310 @@
+//! Jump matrices: of a wall, of a branch cut, and the ordered product along
+//! a path; flatness diagnostics around joints and branch points.
+//!
+//! Conventions (one place, used by the CLI, the window and the tests):
+//!
+//! ```text
+//! path product      M = F_1 F_2 ... F_n   (first crossing leftmost)
+//! wall crossing     F = 1 + mu e_ij  crossing the wall from its right to its
+//!                   left (counterclockwise about where it starts),
+//!                   F = 1 - mu e_ij  the other way;  (i, j, mu) as they hold
+//!                   on the crossed segment.
+//! primary walls     mu = +1 for type ij with i < j, -1 for i > j.
+//! cut crossing      west to east (from smaller to larger Re z), where the
+//!                   sheet labelled x becomes sigma(x):
+//!                   C[x][sigma(x)] = eps(x),  eps(x) = -1 if x is the
+//!                   smallest label of a non-trivial cycle of sigma, else +1;
+//!                   east to west: C^{-1} = C^T.
+//! joints            a wall A of type ij (mu = a) crossing B of type jk
+//!                   (mu = b) at p gives a child of type ik with
+//!                   mu = -a b if B's forward direction is counterclockwise
+//!                   from A's (by less than pi), +a b otherwise.
+//! ```
+//!
+//! With these, the three walls of a simple rank-2 branch point, taken
+//! counterclockwise from its cut, multiply to the Airy Stokes relation
+//! (1 1; 0 1)(1 0; -1 1)(1 1; 0 1) = (0 1; -1 0), and the cut matrix
+//! (0 -1; 1 0) closes the loop; the child rule is the Cecotti-Vafa
+//! compensating factor, (1 + a e_ij)(1 + b e_jk)(1 - a e_ij)(1 - b e_jk) = 1 + ab e_ik.
+//! A wall's sign changes where it crosses a cut by eps(i) eps(j), which is
+//! what flatness at the crossing of a wall and a cut demands.
+
+use crate::curve::Curve;
+use crate::walls::{invert, Wall, WallType};
+use nalgebra::DMatrix;
+use num_complex::Complex64;
+
+pub type Matrix = DMatrix<Complex64>;
+
+/// Signs by which a wall's multiplicity changes when it crosses a cut with
+/// permutation `perm` (west to east), per label before the crossing.
+pub fn cut_signs(perm: &[usize], west_to_east: bool) -> Vec<i64> {
+    let eps = cycle_signs(perm);
+    if west_to_east {
+        eps
+    } else {
+        let inv = invert(perm);
+        (0..perm.len()).map(|x| eps[inv[x]]).collect()
+    }
+}
+
+/// eps(x) = -1 for the smallest label of each non-trivial cycle.
+fn cycle_signs(perm: &[usize]) -> Vec<i64> {
+    let n = perm.len();
+    let mut eps = vec![1_i64; n];
+    let mut seen = vec![false; n];
+    for start in 0..n {
+        if seen[start] {
+            continue;
+        }
+        let mut cycle = vec![start];
+        seen[start] = true;
+        let mut x = perm[start];
+        let mut guard = 0;
+        while x != start && guard < n {
+            seen[x] = true;
+            cycle.push(x);
+            x = perm[x];
+            guard += 1;
+        }
+        if cycle.len() > 1 {
+            let min = *cycle.iter().min().expect("non-empty cycle");
+            eps[min] = -1;
+        }
+    }
+    eps
+}
+
+/// `1 + c e_ij` of size k.
+pub fn elementary(k: usize, kind: WallType, c: f64) -> Matrix {
+    let mut m = Matrix::identity(k, k);
+    m[(kind.i as usize, kind.j as usize)] += Complex64::new(c, 0.0);
+    m
+}
+
+/// The jump matrix of a wall segment crossed right to left: `1 + mu e_ij`.
+pub fn wall_matrix(k: usize, kind: WallType, multiplicity: i64) -> Matrix {
+    elementary(k, kind, multiplicity as f64)
+}
+
+/// The matrix of crossing a cut with permutation `perm`.
+pub fn cut_matrix(perm: &[usize], west_to_east: bool) -> Matrix {
+    let k = perm.len();
+    let eps = cycle_signs(perm);
+    let mut c = Matrix::zeros(k, k);
+    for x in 0..k {
+        c[(x, perm[x])] = Complex64::new(eps[x] as f64, 0.0);
+    }
+    if west_to_east {
+        c
+    } else {
+        c.transpose()
+    }
+}
+
+/// One crossing of a path with a wall or a cut.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Crossing {
+    Wall {
+        wall_idx: usize,
+        segment: usize,
+        positive: bool,
+    },
+    Cut {
+        cut_idx: usize,
+        west_to_east: bool,
+    },
+}
+
+/// Intersection of segments `a0 -> a1` and `b0 -> b1`: fractions along each.
+pub fn segment_intersection(
+    a0: Complex64,
+    a1: Complex64,
+    b0: Complex64,
+    b1: Complex64,
+) -> Option<(f64, f64)> {
+    let da = a1 - a0;
+    let db = b1 - b0;
+    let denom = da.re * db.im - da.im * db.re;
+    if denom == 0.0 || !denom.is_finite() {
+        return None;
+    }
+    let w = b0 - a0;
+    let s = (w.re * db.im - w.im * db.re) / denom;
+    let t = (w.re * da.im - w.im * da.re) / denom;
+    ((0.0..1.0).contains(&s) && (0.0..1.0).contains(&t)).then_some((s, t))
+}
+
+/// All crossings of the polyline `path` with the walls and cuts, in order
+/// along the path. Walls are tested segment by segment against each path
+/// segment's bounding box (the path is short; the walls are indexed by the
+/// caller's grid when there are many, see `crossings::SegmentGrid`).
+pub fn path_crossings(curve: &Curve, walls: &[Wall], path: &[Complex64]) -> Vec<Crossing> {
+    let grid = super::crossings::SegmentGrid::build(walls);
+    let mut out = Vec::new();
+    for seg in path.windows(2) {
+        let (p0, p1) = (seg[0], seg[1]);
+        let mut here: Vec<(f64, Crossing)> = Vec::new();
+        for (wall_idx, segment) in grid.candidates(p0, p1) {
+            let w = &walls[wall_idx];
+            let (q0, q1) = (w.points[segment].z, w.points[segment + 1].z);
+            if let Some((s, _)) = segment_intersection(p0, p1, q0, q1) {
+                // Positive when the path goes from the wall's right to its left.
+                let positive = ((q1 - q0).conj() * (p1 - p0)).im > 0.0;
+                here.push((
+                    s,
+                    Crossing::Wall {
+                        wall_idx,
+                        segment,
+                        positive,
+                    },
+                ));
+            }
+        }
+        for (cut_idx, cut) in curve.cuts.iter().enumerate() {
+            if let Some((s, west_to_east)) = cut.crossing(p0, p1) {
+                here.push((
+                    s,
+                    Crossing::Cut {
+                        cut_idx,
+                        west_to_east,
+                    },
+                ));
+            }
+        }
+        here.sort_by(|a, b| a.0.total_cmp(&b.0));
+        out.extend(here.into_iter().map(|(_, c)| c));
+    }
+    out
+}
+
+/// The ordered product of jump matrices along `path` (first crossing leftmost).
+pub fn path_product(curve: &Curve, walls: &[Wall], path: &[Complex64]) -> Matrix {
+    let k = curve.rank;
+    let mut m = Matrix::identity(k, k);
+    for c in path_crossings(curve, walls, path) {
+        let f = match c {
+            Crossing::Wall {
+                wall_idx,
+                segment,
+                positive,
+            } => {
+                let w = &walls[wall_idx];
+                let mu = w.multiplicity_at(segment) as f64;
+                elementary(k, w.kind_at(segment), if positive { mu } else { -mu })
+            }
+            Crossing::Cut {
+                cut_idx,
+                west_to_east,
+            } => cut_matrix(&curve.cuts[cut_idx].perm, west_to_east),
+        };
+        m *= f;
+    }
+    m
+}
+
+/// A counterclockwise polygon of `n` vertices around `center`, closed.
+pub fn loop_around(center: Complex64, radius: f64, n: usize) -> Vec<Complex64> {
+    // Start at an odd angle so the loop's vertices avoid exact symmetry lines.
+    (0..=n)
+        .map(|k| {
+            center
+                + Complex64::from_polar(radius, 0.377 + std::f64::consts::TAU * k as f64 / n as f64)
+        })
+        .collect()
+}
+
+/// Largest entry of `m - 1` in modulus.
+pub fn deviation_from_identity(m: &Matrix) -> f64 {
+    let k = m.nrows();
+    let mut worst = 0.0_f64;
+    for r in 0..k {
+        for c in 0..k {
+            let want = if r == c { 1.0 } else { 0.0 };
+            worst = worst.max((m[(r, c)] - want).norm());
+        }
+    }
+    worst
+}
+
+/// Plain-text rendering of a matrix, one row per line.
+pub fn format_text(m: &Matrix) -> String {
+    let mut out = String::new();
+    for r in 0..m.nrows() {
+        let row: Vec<String> = (0..m.ncols()).map(|c| format_entry(m[(r, c)])).collect();
+        out.push_str(&row.join("  "));
+        out.push('\n');
+    }
+    out
+}
+
+/// LaTeX `pmatrix` rendering.
+pub fn format_latex(m: &Matrix) -> String {
+    let rows: Vec<String> = (0..m.nrows())
+        .map(|r| {
+            (0..m.ncols())
+                .map(|c| format_entry(m[(r, c)]))
+                .collect::<Vec<_>>()
+                .join(" & ")
+        })
+        .collect();
+    format!(
+        "\\begin{{pmatrix}} {} \\end{{pmatrix}}",
+        rows.join(" \\\\ ")
+    )
+}
+
+fn format_entry(z: Complex64) -> String {
+    let clean = |x: f64| if x.abs() < 1e-12 { 0.0 } else { x };
+    let (re, im) = (clean(z.re), clean(z.im));
+    let num = |x: f64| {
+        if (x - x.round()).abs() < 1e-12 {
+            format!("{}", x.round() as i64)
+        } else {
+            format!("{x:.6}")
+        }
+    };
+    if im == 0.0 {
+        num(re)
+    } else if re == 0.0 {
+        format!("{}i", num(im))
+    } else {
+        format!(
+            "{}{}{}i",
+            num(re),
+            if im < 0.0 { "-" } else { "+" },
+            num(im.abs())
+        )
+    }
+}
+
+/// Products around every joint and every simple branch point.
+#[derive(Clone, Debug, Default, PartialEq, serde::Serialize, serde::Deserialize)]
+pub struct Flatness {
+    /// Largest entry of `M - 1` over all loops.
+    pub worst: f64,
+    pub joints: Vec<f64>,
+    pub branch_points: Vec<f64>,
+}
+
+/// Loops of radius `rel_radius * length_scale` around every joint and simple
+/// branch point; each loop's jump-matrix product should be the identity.
+pub fn flatness(curve: &Curve, net: &super::Network, rel_radius: f64) -> Flatness {
+    let r = rel_radius * curve.length_scale();
+    let mut out = Flatness::default();
+    for j in &net.joints {
+        let d = deviation_from_identity(&path_product(curve, &net.walls, &loop_around(j.z, r, 24)));
+        out.joints.push(d);
+    }
+    for b in curve.branch_points.iter().filter(|b| b.simple) {
+        let d = deviation_from_identity(&path_product(curve, &net.walls, &loop_around(b.z, r, 24)));
+        out.branch_points.push(d);
+    }
+    out.worst = out
+        .joints
+        .iter()
+        .chain(&out.branch_points)
+        .copied()
+        .fold(0.0, f64::max);
+    out
+}
