@@ -1,1 +1,141 @@
-fn main() {}
+//! Engine benchmarks: networks of the reference curves, and the crossing
+//! search's growth with the number of segments.
+//!
+//! Run with `cargo bench --bench engine`; the figures quoted in the issue
+//! notes come from here. Work counters (RHS evaluations per wall, network
+//! memory) are printed once before the timings.
+
+use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
+use num_complex::Complex64;
+use std::collections::BTreeMap;
+use std::hint::black_box;
+use wallflower::algebra::parse_equation;
+use wallflower::network::crossings::SegmentGrid;
+use wallflower::{compute, CancelToken, Curve, Settings};
+
+fn sextic() -> Curve {
+    // Six generic zeros on a loose spiral (our own demo configuration).
+    let zeros: Vec<Complex64> = (0..6)
+        .map(|k| Complex64::from_polar(1.0 + 0.1 * f64::from(k), 1.1 * f64::from(k)))
+        .collect();
+    Curve::from_quadratic(Complex64::new(1.0, 0.0), &zeros, &[]).unwrap()
+}
+
+fn equation(text: &str) -> Curve {
+    Curve::from_poly_in_y(
+        &parse_equation(text)
+            .unwrap()
+            .evaluate(&BTreeMap::new())
+            .unwrap(),
+    )
+    .unwrap()
+}
+
+fn report_counters() {
+    let c = sextic();
+    let s = Settings {
+        reach: 12.0,
+        tolerance: 1e-9,
+        ..Settings::default()
+    };
+    let net = compute(&c, 0.3, &s, &CancelToken::new());
+    let per_wall = net.stats.rhs_evals as f64 / net.walls.len() as f64;
+    eprintln!(
+        "sextic reach 12, tol 1e-9: {} walls, {per_wall:.0} RHS evaluations per wall, {} points",
+        net.walls.len(),
+        net.stats.n_points
+    );
+    let r3 = equation("y^3 - 3*z*y + z^3 - 1 = 0");
+    let s3 = Settings {
+        reach: 40.0,
+        max_walls: 1000,
+        max_generations: 50,
+        ..Settings::default()
+    };
+    let big = compute(&r3, 0.3, &s3, &CancelToken::new());
+    let bytes: usize = big
+        .walls
+        .iter()
+        .map(|w| w.points.capacity() * std::mem::size_of::<wallflower::walls::WallPoint>())
+        .sum();
+    eprintln!(
+        "rank 3, reach 40: {} walls, {} joints, {} points, {:.1} MB of wall points ({:?})",
+        big.walls.len(),
+        big.joints.len(),
+        big.stats.n_points,
+        bytes as f64 / 1e6,
+        big.limit
+    );
+}
+
+fn networks(c: &mut Criterion) {
+    report_counters();
+    let sextic = sextic();
+    let s12 = Settings {
+        reach: 12.0,
+        ..Settings::default()
+    };
+    c.bench_function("network rank 2, 6 branch points, reach 12", |b| {
+        b.iter(|| compute(black_box(&sextic), 0.3, &s12, &CancelToken::new()))
+    });
+    let r3 = equation("y^3 - 3*z*y + z^3 - 1 = 0");
+    let s6 = Settings {
+        reach: 6.0,
+        max_generations: 0,
+        ..Settings::default()
+    };
+    c.bench_function("primary walls rank 3, reach 6", |b| {
+        b.iter(|| compute(black_box(&r3), 0.3, &s6, &CancelToken::new()))
+    });
+    let four = equation("y^3 - 3 y + z^2 = 0");
+    let s10 = Settings {
+        reach: 10.0,
+        max_generations: 3,
+        ..Settings::default()
+    };
+    c.bench_function("rank 3, 4 branch points, reach 10, 3 generations", |b| {
+        b.iter(|| compute(black_box(&four), 0.3, &s10, &CancelToken::new()))
+    });
+    c.bench_function("curve from equation (rank 3, discriminant)", |b| {
+        let p = parse_equation("y^3 - 3*z*y + z^3 - 1 = 0")
+            .unwrap()
+            .evaluate(&BTreeMap::new())
+            .unwrap();
+        b.iter(|| Curve::from_poly_in_y(black_box(&p)).unwrap())
+    });
+}
+
+fn crossing_search(c: &mut Criterion) {
+    let four = equation("y^3 - 3 y + z^2 = 0");
+    let mut group = c.benchmark_group("crossing search");
+    for reach in [5.0, 10.0, 20.0, 40.0] {
+        let s = Settings {
+            reach,
+            max_generations: 2,
+            bounds: Some(wallflower::walls::Bounds::square(0.0, 0.0, 1e3)),
+            ..Settings::default()
+        };
+        let net = compute(&four, 0.3, &s, &CancelToken::new());
+        let n_segments: usize = net.walls.iter().map(|w| w.points.len() - 1).sum();
+        group.bench_with_input(BenchmarkId::new("segments", n_segments), &net, |b, net| {
+            b.iter(|| {
+                let grid = SegmentGrid::build(&net.walls);
+                let mut hits = 0usize;
+                for w in &net.walls {
+                    for k in 0..w.points.len() - 1 {
+                        hits += grid.candidates(w.points[k].z, w.points[k + 1].z).len();
+                    }
+                }
+                black_box(hits)
+            })
+        });
+    }
+    group.finish();
+}
+
+criterion_group! {
+    name = benches;
+    config = Criterion::default().sample_size(20).measurement_time(std::time::Duration::from_secs(3));
+    targets = networks, crossing_search
+}
+criterion_main!(benches);

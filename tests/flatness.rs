@@ -139,3 +139,139 @@ proptest! {
         prop_assert!((lhs - rhs).norm() < 1e-12);
     }
 }
+
+fn rank3_network(theta: f64) -> (Curve, wallflower::Network) {
+    let c = curve("y^3 - 3*z*y + z^3 - 1 = 0");
+    let settings = Settings {
+        reach: 6.0,
+        max_generations: 3,
+        ..Settings::default()
+    };
+    let net = compute(&c, theta, &settings, &CancelToken::new());
+    (c, net)
+}
+
+/// Crossings of composable walls (ij with jk) where no joint was recorded
+/// (the child there would start beyond the reach, so the truncated network
+/// is not flat around them), and crossings of opposite types ij and ji,
+/// whose factors do not commute and which soliton counts alone cannot
+/// resolve. Found by brute force over all segment pairs, independently of
+/// the engine's grid search.
+fn unjoined_crossings(net: &wallflower::Network) -> Vec<Complex64> {
+    let mut out = Vec::new();
+    for (a, wa) in net.walls.iter().enumerate() {
+        for wb in net.walls.iter().skip(a + 1) {
+            for sa in 0..wa.points.len() - 1 {
+                for sb in 0..wb.points.len() - 1 {
+                    let (ka, kb) = (wa.kind_at(sa), wb.kind_at(sb));
+                    let composable =
+                        (ka.j == kb.i && ka.i != kb.j) || (kb.j == ka.i && kb.i != ka.j);
+                    let opposite = ka == kb.reversed();
+                    if !composable && !opposite {
+                        continue;
+                    }
+                    let (p0, p1) = (wa.points[sa].z, wa.points[sa + 1].z);
+                    if let Some((s, _)) = wallflower::network::jump::segment_intersection(
+                        p0,
+                        p1,
+                        wb.points[sb].z,
+                        wb.points[sb + 1].z,
+                    ) {
+                        let z = p0 + (p1 - p0) * s;
+                        if opposite || !net.joints.iter().any(|j| (j.z - z).norm() < 1e-9) {
+                            out.push(z);
+                        }
+                    }
+                }
+            }
+        }
+    }
+    out
+}
+
+fn in_triangle(p: Complex64, a: Complex64, b: Complex64, c: Complex64) -> bool {
+    let side = |u: Complex64, v: Complex64| ((v - u).conj() * (p - u)).im;
+    let (s1, s2, s3) = (side(a, b), side(b, c), side(c, a));
+    (s1 >= 0.0 && s2 >= 0.0 && s3 >= 0.0) || (s1 <= 0.0 && s2 <= 0.0 && s3 <= 0.0)
+}
+
+/// Every child wall leaves its joint into the sector between its parents'
+/// forward directions (the shorter arc from one to the other).
+#[test]
+fn children_leave_between_their_parents() {
+    for (text, theta) in [
+        ("y^3 - 3*z*y + z^3 - 1 = 0", 0.3),
+        ("y^3 + (z^2 - 1) y + z = 0", 2.4),
+        ("y^3 - 3 y + z^2 = 0", 1.0),
+    ] {
+        let c = curve(text);
+        let net = compute(
+            &c,
+            theta,
+            &Settings {
+                reach: 6.0,
+                max_generations: 3,
+                ..Settings::default()
+            },
+            &CancelToken::new(),
+        );
+        assert!(!net.joints.is_empty(), "{text}");
+        for j in &net.joints {
+            let dir = |w: usize| {
+                let pts = &net.walls[w].points;
+                let k = pts
+                    .windows(2)
+                    .position(|s| {
+                        wallflower::network::jump::segment_intersection(
+                            s[0].z,
+                            s[1].z,
+                            j.z - (s[1].z - s[0].z) * 1e-9,
+                            j.z + (s[1].z - s[0].z) * 1e-9,
+                        )
+                        .is_some()
+                            || (s[0].z - j.z).norm() + (s[1].z - j.z).norm()
+                                <= (s[1].z - s[0].z).norm() * (1.0 + 1e-9)
+                    })
+                    .unwrap();
+                pts[k + 1].z - pts[k].z
+            };
+            let (va, vb) = (dir(j.parents[0]), dir(j.parents[1]));
+            let child = &net.walls[j.child].points;
+            let vc = child[1].z - child[0].z;
+            // vc = s va + t vb with s, t > 0.
+            let det = va.re * vb.im - va.im * vb.re;
+            let s = (vc.re * vb.im - vc.im * vb.re) / det;
+            let t = (va.re * vc.im - va.im * vc.re) / det;
+            assert!(
+                s > 0.0 && t > 0.0,
+                "{text}: child of joint at {} leaves outside its parents' sector",
+                j.z
+            );
+        }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 48, ..ProptestConfig::default() })]
+
+    /// Two paths with the same ends that bound a triangle free of branch
+    /// points, joints, punctures and wall ends give the same product; so a
+    /// closed loop there gives the identity (flatness of the network).
+    #[test]
+    fn homotopic_paths_agree(ax in -2.5f64..2.5, ay in -2.5f64..2.5, bx in -2.5f64..2.5, by in -2.5f64..2.5, bend in -1.0f64..1.0, theta in 0.0f64..3.0) {
+        let (c, net) = rank3_network(theta);
+        let (a, b) = (Complex64::new(ax, ay), Complex64::new(bx, by));
+        prop_assume!((b - a).norm() > 0.3);
+        let m = (a + b) * 0.5 + (b - a) * Complex64::new(0.0, bend);
+        let mut forbidden: Vec<Complex64> = c.singular_points.clone();
+        forbidden.extend(net.joints.iter().map(|j| j.z));
+        forbidden.extend(net.walls.iter().map(|w| w.points.last().unwrap().z));
+        forbidden.extend(unjoined_crossings(&net));
+        prop_assume!(!forbidden.iter().any(|p| in_triangle(*p, a, m, b) || (p - a).norm() < 1e-3 || (p - b).norm() < 1e-3 || (p - m).norm() < 1e-3));
+        let straight = path_product(&c, &net.walls, &[a, b]);
+        let bent = path_product(&c, &net.walls, &[a, m, b]);
+        prop_assert!((straight.clone() - bent).norm() < 1e-12 * (1.0 + straight.norm()));
+        let closed = path_product(&c, &net.walls, &[a, m, b, a]);
+        prop_assert!(deviation_from_identity(&closed) < 1e-12);
+    }
+}

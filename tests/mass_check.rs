@@ -11,7 +11,7 @@ use num_complex::Complex64;
 use std::collections::BTreeMap;
 use wallflower::algebra::parse_equation;
 use wallflower::quad::gauss_legendre_unit;
-use wallflower::walls::{EndReason, Wall};
+use wallflower::walls::{EndReason, Origin, Wall};
 use wallflower::{compute, CancelToken, Curve, Settings};
 
 fn roots(curve: &Curve, z: Complex64) -> Vec<Complex64> {
@@ -28,8 +28,31 @@ fn follow(rs: &[Complex64], prev_i: Complex64, prev_j: Complex64) -> (Complex64,
     (near(prev_i), near(prev_j))
 }
 
-/// Independent |W| along the wall's points (a primary wall: points[0] is its branch point).
+/// Independent |W| along a child wall's points, which start at its joint
+/// (the two sheets are those of its type there, labelled afresh).
+fn independent_child_mass(curve: &Curve, wall: &Wall) -> f64 {
+    let rule = gauss_legendre_unit(10);
+    let r0 = curve.sheets_at(wall.points[0].z).unwrap();
+    let (mut yi, mut yj) = (r0[wall.kind.i as usize], r0[wall.kind.j as usize]);
+    let mut total = Complex64::new(0.0, 0.0);
+    for seg in wall.points.windows(2) {
+        let (za, zb) = (seg[0].z, seg[1].z);
+        for &(s, w) in &rule {
+            let (ni, nj) = follow(&roots(curve, za + (zb - za) * s), yi, yj);
+            total += (ni - nj) * (zb - za) * w;
+            (yi, yj) = (ni, nj);
+        }
+        (yi, yj) = follow(&roots(curve, zb), yi, yj);
+    }
+    total.norm()
+}
+
+/// Independent |W| along the wall's points, from where the wall starts:
+/// for a primary wall points[0] is its branch point.
 pub fn independent_mass(curve: &Curve, wall: &Wall) -> f64 {
+    if matches!(wall.origin, Origin::Joint { .. }) {
+        return wall.points[0].mass + independent_child_mass(curve, wall);
+    }
     let rule = gauss_legendre_unit(10);
     let b = wall.points[0].z;
     let z1 = wall.points[1].z;
@@ -69,12 +92,26 @@ pub fn independent_mass(curve: &Curve, wall: &Wall) -> f64 {
 }
 
 fn check_curve(label: &str, curve: &Curve, theta: f64, reach: f64) {
-    let settings = Settings {
-        reach,
-        ..Settings::default()
-    };
-    let net = compute(curve, theta, &settings, &CancelToken::new());
+    check_curve_with(
+        label,
+        curve,
+        theta,
+        &Settings {
+            reach,
+            ..Settings::default()
+        },
+    );
+}
+
+fn check_curve_with(label: &str, curve: &Curve, theta: f64, settings: &Settings) {
+    let net = compute(curve, theta, settings, &CancelToken::new());
     assert!(!net.walls.is_empty(), "{label}: no walls");
+    if curve.rank >= 3 {
+        assert!(
+            !net.joints.is_empty(),
+            "{label}: expected joints to check child walls too"
+        );
+    }
     for (k, w) in net.walls.iter().enumerate() {
         if matches!(w.end, EndReason::Degenerate(_) | EndReason::Cancelled) {
             panic!("{label}: wall {k} ended {:?}", w.end);
@@ -93,6 +130,34 @@ fn check_curve(label: &str, curve: &Curve, theta: f64, reach: f64) {
 fn eq(text: &str, params: &[(&str, Complex64)]) -> Curve {
     let p: BTreeMap<String, Complex64> = params.iter().map(|(n, v)| (n.to_string(), *v)).collect();
     Curve::from_poly_in_y(&parse_equation(text).unwrap().evaluate(&p).unwrap()).unwrap()
+}
+
+/// Every wall of every worked scenario in scenarios/.
+#[test]
+fn masses_agree_for_every_scenario() {
+    let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("scenarios");
+    let mut n_files = 0;
+    let mut names: Vec<_> = std::fs::read_dir(&dir)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .collect();
+    names.sort();
+    for path in names
+        .iter()
+        .filter(|p| p.extension().is_some_and(|e| e == "ron"))
+    {
+        let text = std::fs::read_to_string(path).unwrap();
+        let scenario = wallflower::scenario::Scenario::from_ron(&text).unwrap();
+        let curve = scenario.build_curve().unwrap();
+        let settings = scenario.settings().unwrap();
+        let label = path.file_name().unwrap().to_string_lossy().to_string();
+        check_curve_with(&label, &curve, scenario.phase, &settings);
+        n_files += 1;
+    }
+    assert!(
+        n_files >= 6,
+        "expected the six worked scenarios, found {n_files}"
+    );
 }
 
 #[test]

@@ -9,6 +9,7 @@
 mod draw;
 mod inspect;
 mod json;
+mod jump;
 mod network;
 mod output;
 mod source;
@@ -97,6 +98,8 @@ enum Command {
     Draw(draw::DrawArgs),
     /// Describe the curve: branch points, punctures, sheets at a point.
     Inspect(inspect::InspectArgs),
+    /// The ordered product of jump matrices along a path (text, LaTeX or JSON).
+    Jump(jump::JumpArgs),
     /// Check a scenario: load it, build its curve and settings, report.
     Check {
         #[command(flatten)]
@@ -150,6 +153,7 @@ pub fn run() -> anyhow::Result<ExitCode> {
         Some(Command::Network { source, json }) => network::run(&source, json),
         Some(Command::Draw(args)) => draw::run(&args),
         Some(Command::Inspect(args)) => inspect::run(&args),
+        Some(Command::Jump(args)) => jump::run(&args),
         Some(Command::Check { source }) => check(&source),
         Some(Command::Save { source, output }) => {
             let loaded = source::load(&source)?;

@@ -67,23 +67,44 @@ impl Curve {
     /// Moves a full, ordered set of roots from `z0` to `z1` in one step, or
     /// reports that the step is too long to match roots unambiguously.
     pub fn step_roots(&self, roots: &[Complex64], z1: Complex64) -> Option<Vec<Complex64>> {
-        let c = self.coeffs_at(z1);
-        if c.iter().any(|x| !x.is_finite()) {
-            return None;
-        }
+        let mut next = vec![Complex64::new(0.0, 0.0); roots.len()];
+        self.step_roots_into(roots, z1, &mut next).then_some(next)
+    }
+
+    /// Allocation-free [`Curve::step_roots`]: writes the roots at `z1` into
+    /// `next` (same length as `roots`) and returns whether the step is good.
+    pub fn step_roots_into(
+        &self,
+        roots: &[Complex64],
+        z1: Complex64,
+        next: &mut [Complex64],
+    ) -> bool {
         let k = roots.len();
-        let mut next = Vec::with_capacity(k);
+        let mut c = [Complex64::new(0.0, 0.0); super::MAX_RANK + 1];
+        for (slot, r) in c.iter_mut().zip(&self.u) {
+            *slot = r.eval(z1);
+        }
+        let c = &c[..=k];
+        if c.iter().any(|x| !x.is_finite()) {
+            return false;
+        }
         if k == 2 {
             // Closed form: the two roots are -u1/2 +- s.
             let half = -c[1] * 0.5;
             let s = (half * half - c[2]).sqrt();
             let (a, b) = (half + s, half - s);
-            let keep = (a - roots[0]).norm() + (b - roots[1]).norm()
-                <= (b - roots[0]).norm() + (a - roots[1]).norm();
-            next.extend(if keep { [a, b] } else { [b, a] });
-        } else {
-            for &r in roots {
-                next.push(Self::newton_root(&c, r)?);
+            let keep = (a - roots[0]).norm_sqr() + (b - roots[1]).norm_sqr()
+                <= (b - roots[0]).norm_sqr() + (a - roots[1]).norm_sqr();
+            (next[0], next[1]) = if keep { (a, b) } else { (b, a) };
+            // Each root moved much less than the two are apart.
+            let sep = (roots[0] - roots[1]).norm().min((next[0] - next[1]).norm());
+            let moved = (next[0] - roots[0]).norm().max((next[1] - roots[1]).norm());
+            return moved.is_finite() && moved <= MAX_MOVE_FRACTION * sep;
+        }
+        for (slot, &r) in next.iter_mut().zip(roots) {
+            match Self::newton_root(c, r) {
+                Some(y) => *slot = y,
+                None => return false,
             }
         }
         // Ambiguity check: every root moved much less than its distance to
@@ -96,11 +117,11 @@ impl Curve {
                     sep = sep.min((next[a] - next[b]).norm());
                 }
             }
-            if (next[a] - roots[a]).norm() > MAX_MOVE_FRACTION * sep || !next[a].is_finite() {
-                return None;
+            if !next[a].is_finite() || (next[a] - roots[a]).norm() > MAX_MOVE_FRACTION * sep {
+                return false;
             }
         }
-        Some(next)
+        true
     }
 
     /// Continues an ordered set of roots along the straight segment `z0 -> z1`.
@@ -112,6 +133,7 @@ impl Curve {
         budget: &mut usize,
     ) -> Result<Vec<Complex64>, ContinuationError> {
         let mut cur = roots.to_vec();
+        let mut next = cur.clone();
         let mut s = 0.0_f64;
         let len = (z1 - z0).norm();
         if len == 0.0 {
@@ -128,17 +150,14 @@ impl Curve {
             let room = 0.25 * self.distance_to_singular(w) / len;
             ds = ds.min(room.max(1e-12)).min(1.0 - s).max(1e-300);
             let w1 = z0 + (z1 - z0) * (s + ds);
-            match self.step_roots(&cur, w1) {
-                Some(next) => {
-                    cur = next;
-                    s += ds;
-                    ds *= 2.0;
-                }
-                None => {
-                    ds *= 0.5;
-                    if ds * len < 1e-13 * (1.0 + w.norm()) {
-                        return Err(ContinuationError::Ambiguous(w));
-                    }
+            if self.step_roots_into(&cur, w1, &mut next) {
+                std::mem::swap(&mut cur, &mut next);
+                s += ds;
+                ds *= 2.0;
+            } else {
+                ds *= 0.5;
+                if ds * len < 1e-13 * (1.0 + w.norm()) {
+                    return Err(ContinuationError::Ambiguous(w));
                 }
             }
         }

@@ -55,7 +55,7 @@ pub fn grow_descendants(
     let rot = Complex64::from_polar(1.0, ctx.theta);
     let mut new_from = 0usize;
     let mut seen: HashSet<(usize, usize, usize, usize)> = HashSet::new();
-    for generation in 1..=settings.max_generations.max(1) {
+    for generation in 1..=settings.max_generations {
         if ctx.cancel.is_cancelled() {
             return GrowthLimit::Cancelled;
         }

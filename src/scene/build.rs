@@ -23,7 +23,7 @@ pub struct SceneOptions {
     pub theme: Theme,
     /// Grid lines at 1-2-5 steps, the axes, tick labels.
     pub grid: bool,
-    /// Branch cuts: vertical dashed rays down from every branch point and
+    /// Branch cuts: dashed rays (nearly straight down) from every branch point and
     /// finite puncture.
     pub cuts: bool,
     /// The type ("12", "21", ...) written beside each wall.
@@ -522,22 +522,34 @@ fn grid(t: &Transform, colors: &ThemeColors, s: f32) -> Vec<Shape> {
     shapes
 }
 
-/// Vertical dashed rays running down from every branch point and finite
-/// puncture to the bottom of the picture.
+/// Dashed rays from every point whose sheets are permuted around it (the
+/// curve's cuts, along `CUT_DIRECTION`, nearly straight down) to just past
+/// the bottom of the picture.
 fn cuts(curve: &Curve, t: &Transform, colors: &ThemeColors, s: f32, margin: f64) -> Vec<Shape> {
     let margin = margin as f32;
     let mut shapes = Vec::new();
-    for &z in &curve.singular_points {
-        let p = t.to_screen(z);
-        if !(p[0].is_finite() && p[1].is_finite())
-            || p[0] < -margin
-            || p[0] > t.width + margin
-            || p[1] > t.height + margin
+    let d = crate::curve::CUT_DIRECTION;
+    // Screen direction of the cut: y grows downwards on screen.
+    let (dx, dy) = (d.re as f32, -d.im as f32);
+    for cut in &curve.cuts {
+        let p = t.to_screen(cut.origin);
+        if !(p[0].is_finite() && p[1].is_finite()) || p[1] > t.height + margin {
+            continue;
+        }
+        let start = if p[1] < -margin {
+            [p[0] + dx * (-margin - p[1]) / dy, -margin]
+        } else {
+            p
+        };
+        let len = (t.height + margin - start[1]) / dy;
+        let end = [start[0] + dx * len, t.height + margin];
+        if (start[0] < -margin && end[0] < -margin)
+            || (start[0] > t.width + margin && end[0] > t.width + margin)
         {
             continue;
         }
         shapes.push(Shape::Polyline {
-            points: vec![[p[0], p[1].max(-margin)], [p[0], t.height + margin]],
+            points: vec![start, end],
             width: size::CUT * s,
             color: colors.cut,
             dashed: true,

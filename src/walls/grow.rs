@@ -127,7 +127,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     let mut h = 0.05 * curve.distance_to_singular(z).min(scale) / f0.norm();
     let reach = settings.reach;
     let mut stages = [Complex64::new(0.0, 0.0); 7];
-    let mut stage_roots: Vec<Complex64> = Vec::new();
+    let mut stage_roots: Vec<Complex64> = roots.clone();
     loop {
         if t >= reach * (1.0 - 1e-14) {
             return EndReason::Reach;
@@ -143,7 +143,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         let room = curve.distance_to_singular(z);
         let h_room = 0.5 * room / f0.norm();
         h = h.min(h_room).min(reach - t);
-        if !(h > 1e-15 * (1.0 + t)) {
+        if h.is_nan() || h <= 1e-15 * (1.0 + t) {
             return EndReason::Degenerate(format!(
                 "step size underflow at z = {:.6}{:+.6}i",
                 z.re, z.im
@@ -157,22 +157,17 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
                 dz += stages[k] * *a;
             }
             let zs = z + dz * h;
-            match curve.step_roots(&roots, zs) {
-                Some(r) => {
-                    stages[s] = rhs(&r, i, j);
-                    wall.rhs_evals += 1;
-                    if !stages[s].is_finite() {
-                        refused = true;
-                        break;
-                    }
-                    if s == 6 {
-                        stage_roots = r;
-                    }
-                }
-                None => {
-                    refused = true;
-                    break;
-                }
+            // Only the last stage's roots are kept (they are the roots at
+            // the step's end, FSAL); earlier stages reuse the same buffer.
+            if !curve.step_roots_into(&roots, zs, &mut stage_roots) {
+                refused = true;
+                break;
+            }
+            stages[s] = rhs(&stage_roots, i, j);
+            wall.rhs_evals += 1;
+            if !stages[s].is_finite() {
+                refused = true;
+                break;
             }
         }
         if refused {
@@ -201,9 +196,14 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         let z_new = z + dz * h;
         let f_new = stages[6];
         let t_new = t + h;
-        push_dense(wall, z, z_new, f0, f_new, t, h, settings.max_turn_rad);
+        let cuts_here = crossed_cuts(curve, z, z_new);
+        // Interpolated points would not be ordered with the cut points, which
+        // sit on the chord; a step that crosses a cut is drawn as its chord.
+        if cuts_here.is_empty() {
+            push_dense(wall, z, z_new, f0, f_new, t, h, settings.max_turn_rad);
+        }
         // Branch cuts: apply each crossed cut's permutation in order along the step.
-        for (frac, cut_idx, west_to_east) in crossed_cuts(curve, z, z_new) {
+        for (frac, cut_idx, west_to_east) in cuts_here {
             let cut = &curve.cuts[cut_idx];
             let idx = wall.points.len();
             let z_cut = z + (z_new - z) * frac;

@@ -8,7 +8,7 @@ mod start;
 
 pub use grow::{crossed_cuts, grow_wall, invert, GrowContext, WallSeed};
 pub use settings::{Bounds, Settings};
-pub use start::primary_seeds;
+pub use start::{period_from_branch_point, primary_seeds};
 
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};

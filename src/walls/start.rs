@@ -76,13 +76,13 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
         let moved = z0 + delta;
         roots = curve.step_roots(&roots, moved)?;
         z0 = moved;
-        if delta.norm() < 1e-15 * (1.0 + z0.norm()) {
+        if delta.norm() < 1e-12 * r0 {
             break;
         }
     }
     let w = period_from_branch_point(curve, b, z0, roots[i], roots[j]);
     let mass = (w / rot).re;
-    if !(mass > 0.0) || !mass.is_finite() {
+    if mass.is_nan() || mass <= 0.0 || !mass.is_finite() {
         return None;
     }
     Some(WallSeed {
