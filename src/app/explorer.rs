@@ -14,7 +14,7 @@ use std::path::PathBuf;
 use std::sync::{Arc, Mutex};
 use std::time::{Duration, Instant};
 
-/// Autosave unsaved edits this long after the last one.
+/// Autosave unsaved edits this long after the last one, by default.
 const AUTOSAVE_AFTER: Duration = Duration::from_secs(3);
 
 /// What a canvas click does.
@@ -133,6 +133,7 @@ pub struct WallflowerApp {
     pub recovery_offer: Option<Scenario>,
     last_edit: Option<Instant>,
     autosaved: bool,
+    autosave_after: Duration,
     // Export.
     pub export_path: String,
     pub export_size: [u32; 2],
@@ -160,7 +161,10 @@ impl WallflowerApp {
         // A scenario without a saved view gets one fitted to its points.
         let wants_fit = scenario.view == View::default();
         let state_dir = if opts.persist {
-            StateDir::default_location()
+            opts.state_dir
+                .clone()
+                .map(StateDir)
+                .or_else(StateDir::default_location)
         } else {
             None
         };
@@ -209,6 +213,7 @@ impl WallflowerApp {
             recovery_offer,
             last_edit: None,
             autosaved: false,
+            autosave_after: opts.autosave_after.unwrap_or(AUTOSAVE_AFTER),
             export_path: "network.svg".into(),
             export_size: [1200, 900],
             export_theme: Theme::Paper,
@@ -623,7 +628,7 @@ impl WallflowerApp {
     fn autosave(&mut self) {
         let Some(dir) = &self.state_dir else { return };
         let Some(t) = self.last_edit else { return };
-        if self.autosaved || t.elapsed() < AUTOSAVE_AFTER || !self.is_dirty() {
+        if self.autosaved || t.elapsed() < self.autosave_after || !self.is_dirty() {
             return;
         }
         let mut s = self.scenario.clone();

@@ -20,7 +20,7 @@ mod canvas;
 pub mod command;
 mod explorer;
 mod export;
-mod files;
+pub mod files;
 mod history;
 mod inspector;
 pub mod jump;
@@ -46,6 +46,10 @@ pub struct AppOptions {
     /// Keep a recent-files list and a recovery file in the state directory
     /// (off in tests).
     pub persist: bool,
+    /// Where to keep them; `None` picks [`files::StateDir::default_location`].
+    pub state_dir: Option<PathBuf>,
+    /// Autosave unsaved edits this long after the last one (default 3 s).
+    pub autosave_after: Option<std::time::Duration>,
     /// Inner window size in points; default 1500 x 920.
     pub size: Option<[f32; 2]>,
 }
@@ -57,7 +61,7 @@ pub fn run(scenario: Option<PathBuf>) -> anyhow::Result<()> {
         scenario,
         screenshot: std::env::var_os("WALLFLOWER_SCREENSHOT").map(PathBuf::from),
         persist: true,
-        size: None,
+        ..AppOptions::default()
     })
 }
 
