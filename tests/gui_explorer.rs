@@ -186,7 +186,7 @@ fn c_clicking_a_wall_shows_its_jump_matrix() {
         // A point well along the first wall, on screen.
         let w = &net.walls[0];
         let k = w.points.iter().position(|p| p.mass > 0.5).unwrap();
-        (w.points[k].z, w.kind_at(k), w.multiplicity)
+        (w.points[k].z, w.kind_at(k), w.multiplicity_at(k))
     };
     // A little off the wall, inside the hit tolerance.
     let tf = h.state().transform.unwrap();
@@ -198,17 +198,25 @@ fn c_clicking_a_wall_shows_its_jump_matrix() {
         .state()
         .selected_jump_matrix()
         .expect("a wall is selected");
-    let mut want = vec![vec![0_i64; 2]; 2];
-    want[0][0] = 1;
-    want[1][1] = 1;
-    want[usize::from(kind.i)][usize::from(kind.j)] += mu;
-    assert_eq!(
-        m,
-        want,
-        "identity plus mu in the ({}, {}) entry",
-        kind.i + 1,
-        kind.j + 1
-    );
+    assert_eq!((m.nrows(), m.ncols()), (2, 2), "K x K with K = 2");
+    for r in 0..2 {
+        for c in 0..2 {
+            let identity = if r == c { 1.0 } else { 0.0 };
+            let extra = if (r, c) == (usize::from(kind.i), usize::from(kind.j)) {
+                mu as f64
+            } else {
+                0.0
+            };
+            assert_eq!(
+                m[(r, c)],
+                Complex64::new(identity + extra, 0.0),
+                "entry ({r}, {c}): identity plus mu = {mu} in the ({}, {}) entry",
+                kind.i + 1,
+                kind.j + 1
+            );
+        }
+    }
+    assert_ne!(mu, 0);
     h.get_by_label_contains(&format!("type {kind} here, multiplicity"));
 
     h.get_by_label("Copy as LaTeX").click();
@@ -223,7 +231,7 @@ fn c_clicking_a_wall_shows_its_jump_matrix() {
             _ => None,
         })
         .collect();
-    let latex = wallflower::app::jump::matrix_as_latex(&want);
+    let latex = wallflower::app::jump::matrix_as_latex(&m);
     assert!(copied.contains(&latex), "copied {copied:?}");
 }
 

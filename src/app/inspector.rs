@@ -85,17 +85,13 @@ impl WallflowerApp {
     }
 
     /// The jump matrix of the selected wall at the picked point, if any.
-    pub fn selected_jump_matrix(&self) -> Option<Vec<Vec<i64>>> {
+    pub fn selected_jump_matrix(&self) -> Option<jump::Matrix> {
         let Some(Selection::Wall { wall, point }) = self.selection else {
             return None;
         };
         let c = &self.shown.as_ref()?.computed;
         let w = c.network.walls.get(wall)?;
-        Some(jump::wall_jump_matrix(
-            c.curve.rank,
-            w.kind_at(point),
-            w.multiplicity,
-        ))
+        Some(jump::wall_segment_matrix(c.curve.rank, w, point))
     }
 
     fn jump_matrix_section(&mut self, ui: &mut egui::Ui, c: &super::worker::Computed) {
@@ -112,17 +108,22 @@ impl WallflowerApp {
             "wall {}, type {} here, multiplicity \u{3bc} = {}: S = 1 + \u{3bc} e{}",
             wall + 1,
             kind,
-            w.multiplicity,
+            w.multiplicity_at(point),
             kind
         ));
         egui::Frame::group(ui.style()).show(ui, |ui| {
             egui::Grid::new("jump_matrix")
                 .min_col_width(24.0)
                 .show(ui, |ui| {
-                    for row in &m {
-                        for v in row {
-                            let t = RichText::new(v.to_string()).monospace();
-                            ui.label(if *v == 0 { t.weak() } else { t.strong() });
+                    for r in 0..m.nrows() {
+                        for c in 0..m.ncols() {
+                            let v = m[(r, c)];
+                            let t = RichText::new(jump::entry_text(v)).monospace();
+                            ui.label(if v.norm() < 1e-12 {
+                                t.weak()
+                            } else {
+                                t.strong()
+                            });
                         }
                         ui.end_row();
                     }

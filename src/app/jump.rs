@@ -1,61 +1,50 @@
-//! The jump matrix of one wall segment, and its text and LaTeX forms.
-//!
-//! A wall of type ij with multiplicity mu jumps by
-//!
-//! ```text
-//! S = 1 + mu e_ij      (K x K, e_ij the matrix unit)
-//! ```
-//!
-//! This is the one place the window asks for a jump matrix, so that it can
-//! be swapped for the network's own function once that exists.
+//! Jump matrices as the window shows them: the network's own functions
+//! (`crate::network::jump`, one convention for the CLI, the window and the
+//! tests), plus the entry formatting of the inspector's matrix grid.
 
-use crate::walls::WallType;
+use crate::network::jump;
+pub use crate::network::jump::Matrix;
+use crate::walls::Wall;
+use num_complex::Complex64;
 
-/// `1 + mu e_ij` as rows of integers.
-pub fn wall_jump_matrix(rank: usize, kind: WallType, multiplicity: i64) -> Vec<Vec<i64>> {
-    let mut m = vec![vec![0_i64; rank]; rank];
-    for (k, row) in m.iter_mut().enumerate() {
-        row[k] = 1;
-    }
-    let (i, j) = (usize::from(kind.i), usize::from(kind.j));
-    if i < rank && j < rank {
-        m[i][j] += multiplicity;
-    }
-    m
+/// The jump matrix of `wall` on the segment starting at point `idx`,
+/// crossed from its right to its left: `1 + mu e_ij` with the type and
+/// multiplicity that hold there (both change where the wall crosses a cut).
+pub fn wall_segment_matrix(rank: usize, wall: &Wall, idx: usize) -> Matrix {
+    jump::wall_matrix(rank, wall.kind_at(idx), wall.multiplicity_at(idx))
 }
 
-/// Rows separated by newlines, entries right-aligned in columns.
-pub fn matrix_as_text(m: &[Vec<i64>]) -> String {
-    let width = m
-        .iter()
-        .flatten()
-        .map(|v| v.to_string().len())
-        .max()
-        .unwrap_or(1);
-    m.iter()
-        .map(|row| {
-            row.iter()
-                .map(|v| format!("{v:>width$}"))
-                .collect::<Vec<_>>()
-                .join(" ")
-        })
-        .collect::<Vec<_>>()
-        .join("\n")
+pub fn matrix_as_text(m: &Matrix) -> String {
+    jump::format_text(m)
 }
 
-/// A `pmatrix` environment (amsmath).
-pub fn matrix_as_latex(m: &[Vec<i64>]) -> String {
-    let body = m
-        .iter()
-        .map(|row| {
-            row.iter()
-                .map(ToString::to_string)
-                .collect::<Vec<_>>()
-                .join(" & ")
-        })
-        .collect::<Vec<_>>()
-        .join(" \\\\\n");
-    format!("\\begin{{pmatrix}}\n{body}\n\\end{{pmatrix}}")
+pub fn matrix_as_latex(m: &Matrix) -> String {
+    jump::format_latex(m)
+}
+
+/// One entry, as an integer when it is one (to 1e-9).
+pub fn entry_text(z: Complex64) -> String {
+    let num = |x: f64| {
+        if (x - x.round()).abs() < 1e-9 {
+            format!("{}", x.round() as i64).replace('-', "\u{2212}")
+        } else {
+            format!("{x:.4}").replace('-', "\u{2212}")
+        }
+    };
+    let (re, im) = (
+        if z.re.abs() < 1e-12 { 0.0 } else { z.re },
+        if z.im.abs() < 1e-12 { 0.0 } else { z.im },
+    );
+    match (re == 0.0, im == 0.0) {
+        (_, true) => num(re),
+        (true, false) => format!("{}i", num(im)),
+        (false, false) => format!(
+            "{}{}{}i",
+            num(re),
+            if im < 0.0 { "\u{2212}" } else { "+" },
+            num(im.abs())
+        ),
+    }
 }
 
 #[cfg(test)]
@@ -63,19 +52,13 @@ mod tests {
     use super::*;
 
     #[test]
-    fn identity_plus_multiplicity_in_ij() {
-        let m = wall_jump_matrix(3, WallType::new(2, 0), 2);
-        assert_eq!(m, vec![vec![1, 0, 0], vec![0, 1, 0], vec![2, 0, 1]]);
-        assert_eq!(matrix_as_text(&m), "1 0 0\n0 1 0\n2 0 1");
+    fn entries_print_as_integers_or_complex() {
+        assert_eq!(entry_text(Complex64::new(1.0, 0.0)), "1");
+        assert_eq!(entry_text(Complex64::new(-2.0, 1e-15)), "\u{2212}2");
+        assert_eq!(entry_text(Complex64::new(0.0, 1.0)), "1i");
         assert_eq!(
-            matrix_as_latex(&m),
-            "\\begin{pmatrix}\n1 & 0 & 0 \\\\\n0 & 1 & 0 \\\\\n2 & 0 & 1\n\\end{pmatrix}"
+            entry_text(Complex64::new(0.5, -0.25)),
+            "0.5000\u{2212}0.2500i"
         );
-    }
-
-    #[test]
-    fn negative_entries_align() {
-        let m = wall_jump_matrix(2, WallType::new(0, 1), -3);
-        assert_eq!(matrix_as_text(&m), " 1 -3\n 0  1");
     }
 }

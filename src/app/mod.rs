@@ -9,7 +9,8 @@
 //! - `panels`: file/export bar, curve editor, phase control, status bar.
 //! - `inspector`: walls and joints tables, jump matrix.
 //! - `worker`: the background thread. `command`, `history`: edits and undo.
-//! - `files`: atomic saves, recovery file, recent list. `jump`: matrices.
+//! - `files`: atomic saves, recovery file, recent list. `jump`: the
+//!   network's jump matrices, formatted for the inspector.
 //!
 //! A screenshot for tests and README pictures: `AppOptions::screenshot`,
 //! or the `WALLFLOWER_SCREENSHOT=FILE.png` environment variable read by
