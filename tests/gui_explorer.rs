@@ -280,3 +280,30 @@ fn e_bad_equation_shows_inline_error_and_keeps_the_network() {
     assert_eq!(h.state().shown.as_ref().unwrap().generation, shown_before);
     assert_eq!(n_walls(&h), 9, "the last good network stays");
 }
+
+#[test]
+fn a_loop_drawn_around_a_branch_point_has_trivial_product() {
+    let mut h = harness(airy());
+    wait_for_worker(&mut h);
+    h.get_by_label("Draw path").click();
+    h.step();
+    assert_eq!(h.state().tool, wallflower::app::Tool::Path);
+    // A closed counterclockwise octagon of radius 0.3 about the branch point.
+    let n = 8;
+    for k in 0..=n {
+        let z = Complex64::from_polar(
+            0.3,
+            0.3 + std::f64::consts::TAU * f64::from(k) / f64::from(n),
+        );
+        click_plane(&mut h, z);
+    }
+    h.run_steps(2);
+    assert_eq!(h.state().path_in_plane.len(), 9);
+    let (m, crossings) = h.state_mut().path_product().expect("a product is shown");
+    // Three walls and the cut: flatness of the jump matrices around a
+    // simple branch point (the Airy Stokes relation closed by the cut).
+    assert_eq!(crossings, 4);
+    let dev = wallflower::network::jump::deviation_from_identity(&m);
+    assert!(dev < 1e-9, "loop product deviates from 1 by {dev}");
+    h.get_by_label_contains("crossings of walls and cuts");
+}

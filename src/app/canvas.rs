@@ -198,7 +198,13 @@ impl WallflowerApp {
             lo = Complex64::new(lo.re.min(p.re), lo.im.min(p.im));
             hi = Complex64::new(hi.re.max(p.re), hi.im.max(p.im));
         }
-        let extent = (hi.re - lo.re).max(hi.im - lo.im).max(0.5);
+        // A lone point still gets room for its walls: at least the curve's
+        // length scale.
+        let scale = self
+            .shown
+            .as_ref()
+            .map_or(1.0, |s| s.computed.curve.length_scale());
+        let extent = (hi.re - lo.re).max(hi.im - lo.im).max(scale).max(1e-3);
         let pad = 0.45 * extent;
         let aspect = self.transform.map_or(1.4, |t| {
             f64::from(t.rect.width() / t.rect.height().max(1.0))
@@ -227,7 +233,7 @@ impl WallflowerApp {
         let (response, painter) = ui.allocate_painter(ui.available_size(), Sense::click_and_drag());
         let response = response.on_hover_cursor(match self.tool {
             Tool::Select => egui::CursorIcon::Default,
-            Tool::AddBranchPoint | Tool::AddPuncture => egui::CursorIcon::Crosshair,
+            Tool::AddBranchPoint | Tool::AddPuncture | Tool::Path => egui::CursorIcon::Crosshair,
         });
         let rect = response.rect;
         if self.transform.is_none() {
@@ -271,6 +277,7 @@ impl WallflowerApp {
             }
         }
         self.paint_handles(&painter, &tf, &colors);
+        self.paint_path(&painter, &tf, &colors);
         if self.shown.is_none() {
             painter.text(
                 rect.center(),
@@ -362,6 +369,7 @@ impl WallflowerApp {
                 let hit = self.hit_test(tf, pos);
                 let editable = self.scenario.quadratic.is_some();
                 match (self.tool, hit) {
+                    (Tool::Path, _) => self.path_in_plane.push(z),
                     (Tool::AddBranchPoint, _) if editable => {
                         self.commands.push(Command::AddZero(z));
                     }
@@ -499,7 +507,7 @@ impl WallflowerApp {
                     "wall {} of type {}\nmultiplicity {}\nmass here {:.4} (reached {:.4})\nclick to select",
                     wall + 1,
                     w.kind_at(point),
-                    w.multiplicity,
+                    w.multiplicity_at(point),
                     mass,
                     w.mass()
                 )
@@ -521,6 +529,33 @@ impl WallflowerApp {
         };
         let pts: Vec<Pos2> = w.points.iter().map(|p| tf.to_screen(p.z)).collect();
         painter.add(egui::Shape::line(pts, Stroke::new(7.0, c.highlight)));
+    }
+
+    /// The user's path for the jump-matrix product: dashed, with its
+    /// vertices and an arrow head showing its direction.
+    fn paint_path(&self, painter: &egui::Painter, tf: &ScreenTransform, c: &Ink) {
+        let pts: Vec<Pos2> = self
+            .path_in_plane
+            .iter()
+            .map(|z| tf.to_screen(*z))
+            .collect();
+        let stroke = Stroke::new(2.0, c.marker);
+        if pts.len() >= 2 {
+            painter.extend(egui::Shape::dashed_line(&pts, stroke, 7.0, 4.0));
+            let (a, b) = (pts[pts.len() - 2], pts[pts.len() - 1]);
+            let dir = (b - a).normalized();
+            if dir.is_finite() {
+                let side = egui::vec2(-dir.y, dir.x);
+                painter.add(egui::Shape::convex_polygon(
+                    vec![b, b - dir * 11.0 + side * 5.0, b - dir * 11.0 - side * 5.0],
+                    c.marker,
+                    Stroke::NONE,
+                ));
+            }
+        }
+        for p in &pts {
+            painter.circle(*p, 3.0, c.background, stroke);
+        }
     }
 
     /// The dragged point follows the pointer at once (the network catches

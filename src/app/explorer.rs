@@ -23,6 +23,9 @@ pub enum Tool {
     Select,
     AddBranchPoint,
     AddPuncture,
+    /// Clicks add vertices to a path whose ordered jump-matrix product
+    /// the inspector shows.
+    Path,
 }
 
 /// The newest finished network on screen.
@@ -117,6 +120,15 @@ pub struct WallflowerApp {
     /// Column (1-based) and message of the equation being typed.
     pub equation_error: Option<(usize, String)>,
     pub show_labels: bool,
+    /// The polyline drawn with the path tool.
+    pub path_in_plane: Vec<num_complex::Complex64>,
+    /// The product along it, for (network generation, path).
+    pub(super) path_product_cache: Option<(
+        u64,
+        Vec<num_complex::Complex64>,
+        crate::network::jump::Matrix,
+        usize,
+    )>,
     pub wall_sort: WallSort,
     pub wall_sort_descending: bool,
     pub(super) commands: Vec<Command>,
@@ -197,6 +209,8 @@ impl WallflowerApp {
             looping: true,
             equation_error: None,
             show_labels: false,
+            path_in_plane: Vec::new(),
+            path_product_cache: None,
             wall_sort: WallSort::Index,
             wall_sort_descending: false,
             commands: Vec::new(),

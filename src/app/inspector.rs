@@ -24,6 +24,10 @@ impl WallflowerApp {
                 let computed = std::sync::Arc::clone(&shown.computed);
                 let net = &computed.network;
                 self.jump_matrix_section(ui, &computed);
+                if self.path_in_plane.len() >= 2 {
+                    ui.separator();
+                    self.path_product_section(ui);
+                }
                 ui.separator();
                 egui::CollapsingHeader::new(format!("Walls ({})", net.walls.len()))
                     .default_open(true)
@@ -111,30 +115,61 @@ impl WallflowerApp {
             w.multiplicity_at(point),
             kind
         ));
-        egui::Frame::group(ui.style()).show(ui, |ui| {
-            egui::Grid::new("jump_matrix")
-                .min_col_width(24.0)
-                .show(ui, |ui| {
-                    for r in 0..m.nrows() {
-                        for c in 0..m.ncols() {
-                            let v = m[(r, c)];
-                            let t = RichText::new(jump::entry_text(v)).monospace();
-                            ui.label(if v.norm() < 1e-12 {
-                                t.weak()
-                            } else {
-                                t.strong()
-                            });
-                        }
-                        ui.end_row();
-                    }
-                });
-        });
+        matrix_grid(ui, "jump_matrix", &m);
         let text = jump::matrix_as_text(&m);
         ui.horizontal(|ui| {
             if ui.button("Copy as text").clicked() {
                 ui.ctx().copy_text(text.clone());
             }
             if ui.button("Copy as LaTeX").clicked() {
+                ui.ctx().copy_text(jump::matrix_as_latex(&m));
+            }
+        });
+    }
+
+    /// The ordered product of jump matrices along the user's path, first
+    /// crossing leftmost (the network's convention), cached per network.
+    pub fn path_product(&mut self) -> Option<(jump::Matrix, usize)> {
+        let shown = self.shown.as_ref()?;
+        if self.path_in_plane.len() < 2 {
+            return None;
+        }
+        let fresh = self
+            .path_product_cache
+            .as_ref()
+            .is_some_and(|(g, p, _, _)| *g == shown.generation && *p == self.path_in_plane);
+        if !fresh {
+            let c = &shown.computed;
+            let m =
+                crate::network::jump::path_product(&c.curve, &c.network.walls, &self.path_in_plane);
+            let n = crate::network::jump::path_crossings(
+                &c.curve,
+                &c.network.walls,
+                &self.path_in_plane,
+            )
+            .len();
+            self.path_product_cache = Some((shown.generation, self.path_in_plane.clone(), m, n));
+        }
+        self.path_product_cache
+            .as_ref()
+            .map(|(_, _, m, n)| (m.clone(), *n))
+    }
+
+    fn path_product_section(&mut self, ui: &mut egui::Ui) {
+        let Some((m, n)) = self.path_product() else {
+            return;
+        };
+        ui.strong("Product along the path");
+        ui.label(format!(
+            "{} vertices, {n} crossings of walls and cuts (first crossing leftmost)",
+            self.path_in_plane.len()
+        ));
+        matrix_grid(ui, "path_matrix", &m);
+        ui.horizontal(|ui| {
+            if ui.button("Copy product as text").clicked() {
+                ui.ctx().copy_text(jump::matrix_as_text(&m));
+            }
+            if ui.button("Copy product as LaTeX").clicked() {
                 ui.ctx().copy_text(jump::matrix_as_latex(&m));
             }
         });
@@ -223,4 +258,24 @@ impl WallflowerApp {
                 }
             });
     }
+}
+
+/// A matrix as a grid of entries; zeros are drawn faint.
+fn matrix_grid(ui: &mut egui::Ui, id: &str, m: &jump::Matrix) {
+    egui::Frame::group(ui.style()).show(ui, |ui| {
+        egui::Grid::new(id).min_col_width(24.0).show(ui, |ui| {
+            for r in 0..m.nrows() {
+                for c in 0..m.ncols() {
+                    let v = m[(r, c)];
+                    let t = RichText::new(jump::entry_text(v)).monospace();
+                    ui.label(if v.norm() < 1e-12 {
+                        t.weak()
+                    } else {
+                        t.strong()
+                    });
+                }
+                ui.end_row();
+            }
+        });
+    });
 }

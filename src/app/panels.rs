@@ -88,6 +88,11 @@ impl WallflowerApp {
                     self.commands.push(Command::SetTheme(theme));
                 }
                 ui.checkbox(&mut self.show_labels, "Wall labels");
+                ui.selectable_value(&mut self.tool, Tool::Path, "Draw path")
+                    .on_hover_text("click points on the canvas: the inspector shows the ordered product of jump matrices along the path");
+                if !self.path_in_plane.is_empty() && ui.button("Clear path").clicked() {
+                    self.path_in_plane.clear();
+                }
                 if ui.button("Fit").on_hover_text("F").clicked() {
                     self.commands.push(Command::Fit);
                 }
