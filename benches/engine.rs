@@ -68,7 +68,49 @@ fn report_counters() {
     );
 }
 
+/// Peak resident memory of this process (Linux), in MB.
+fn peak_rss_mb() -> Option<f64> {
+    let status = std::fs::read_to_string("/proc/self/status").ok()?;
+    let line = status.lines().find(|l| l.starts_with("VmHWM:"))?;
+    let kb: f64 = line.split_whitespace().nth(1)?.parse().ok()?;
+    Some(kb / 1024.0)
+}
+
+/// A 1000-wall network: a rank-5 curve of our own grown to max_walls.
+fn report_memory() {
+    let before = peak_rss_mb();
+    let curve = equation("y^5 + (z^2 - 2) y^3 + z y^2 + (0.3 z^2 - 0.5) y + z^3 - 1 = 0");
+    let s = Settings {
+        reach: 40.0,
+        max_walls: 1000,
+        max_generations: 20,
+        bounds: Some(wallflower::walls::Bounds::square(0.0, 0.0, 12.0)),
+        ..Settings::default()
+    };
+    let t0 = std::time::Instant::now();
+    let net = compute(&curve, 0.3, &s, &CancelToken::new());
+    eprintln!(
+        "1000-wall network computed in {:?} ({:?})",
+        t0.elapsed(),
+        net.limit
+    );
+    let bytes: usize = net
+        .walls
+        .iter()
+        .map(|w| w.points.capacity() * std::mem::size_of::<wallflower::walls::WallPoint>())
+        .sum();
+    eprintln!(
+        "1000-wall network: {} walls, {} points, {:.2} MB of wall points; peak RSS {:.1} MB before, {:.1} MB after",
+        net.walls.len(),
+        net.stats.n_points,
+        bytes as f64 / 1e6,
+        before.unwrap_or(f64::NAN),
+        peak_rss_mb().unwrap_or(f64::NAN)
+    );
+}
+
 fn networks(c: &mut Criterion) {
+    report_memory();
     report_counters();
     let sextic = sextic();
     let s12 = Settings {

@@ -141,6 +141,16 @@ pub fn segment_intersection(
 /// caller's grid when there are many, see `crossings::SegmentGrid`).
 pub fn path_crossings(curve: &Curve, walls: &[Wall], path: &[Complex64]) -> Vec<Crossing> {
     let grid = super::crossings::SegmentGrid::build(walls);
+    path_crossings_in(curve, walls, &grid, path)
+}
+
+/// [`path_crossings`] with a grid built once for many paths.
+pub fn path_crossings_in(
+    curve: &Curve,
+    walls: &[Wall],
+    grid: &super::crossings::SegmentGrid,
+    path: &[Complex64],
+) -> Vec<Crossing> {
     let mut out = Vec::new();
     for seg in path.windows(2) {
         let (p0, p1) = (seg[0], seg[1]);
@@ -180,9 +190,20 @@ pub fn path_crossings(curve: &Curve, walls: &[Wall], path: &[Complex64]) -> Vec<
 
 /// The ordered product of jump matrices along `path` (first crossing leftmost).
 pub fn path_product(curve: &Curve, walls: &[Wall], path: &[Complex64]) -> Matrix {
+    let grid = super::crossings::SegmentGrid::build(walls);
+    path_product_in(curve, walls, &grid, path)
+}
+
+/// [`path_product`] with a grid built once for many paths.
+pub fn path_product_in(
+    curve: &Curve,
+    walls: &[Wall],
+    grid: &super::crossings::SegmentGrid,
+    path: &[Complex64],
+) -> Matrix {
     let k = curve.rank;
     let mut m = Matrix::identity(k, k);
-    for c in path_crossings(curve, walls, path) {
+    for c in path_crossings_in(curve, walls, grid, path) {
         let f = match c {
             Crossing::Wall {
                 wall_idx,
@@ -290,14 +311,35 @@ pub struct Flatness {
 /// Loops of radius `rel_radius * length_scale` around every joint and simple
 /// branch point; each loop's jump-matrix product should be the identity.
 pub fn flatness(curve: &Curve, net: &super::Network, rel_radius: f64) -> Flatness {
+    flatness_of(curve, &net.walls, &net.joints, rel_radius)
+}
+
+/// [`flatness`] from the parts of a network.
+pub fn flatness_of(
+    curve: &Curve,
+    walls: &[Wall],
+    joints: &[super::Joint],
+    rel_radius: f64,
+) -> Flatness {
     let r = rel_radius * curve.length_scale();
+    let grid = super::crossings::SegmentGrid::build(walls);
     let mut out = Flatness::default();
-    for j in &net.joints {
-        let d = deviation_from_identity(&path_product(curve, &net.walls, &loop_around(j.z, r, 24)));
+    for j in joints {
+        let d = deviation_from_identity(&path_product_in(
+            curve,
+            walls,
+            &grid,
+            &loop_around(j.z, r, 24),
+        ));
         out.joints.push(d);
     }
     for b in curve.branch_points.iter().filter(|b| b.simple) {
-        let d = deviation_from_identity(&path_product(curve, &net.walls, &loop_around(b.z, r, 24)));
+        let d = deviation_from_identity(&path_product_in(
+            curve,
+            walls,
+            &grid,
+            &loop_around(b.z, r, 24),
+        ));
         out.branch_points.push(d);
     }
     out.worst = out

@@ -57,7 +57,14 @@ pub struct Network {
     pub warnings: Vec<Warning>,
     pub limit: GrowthLimit,
     pub stats: Stats,
+    /// Jump-matrix products around every joint and simple branch point
+    /// (loops of radius `FLATNESS_LOOP` times the length scale); `worst`
+    /// should be at rounding level.
+    pub flatness: jump::Flatness,
 }
+
+/// Radius of the flatness loops, relative to the curve's length scale.
+pub const FLATNESS_LOOP: f64 = 1e-5;
 
 /// The default bounding box: a square around the singular points, three
 /// times their spread.
@@ -128,6 +135,20 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
             message: format!("stopped at max_walls = {}", settings.max_walls),
         });
     }
+    // A cancelled network is partial and thrown away by its caller.
+    let flatness = if limit == GrowthLimit::Cancelled {
+        jump::Flatness::default()
+    } else {
+        jump::flatness_of(curve, &walls, &joints, FLATNESS_LOOP)
+    };
+    if flatness.worst > 1e-9 {
+        warnings.push(Warning {
+            message: format!(
+                "jump matrices do not close up around some joint or branch point (worst deviation {:.1e}): treat multiplicities with care",
+                flatness.worst
+            ),
+        });
+    }
     Network {
         theta,
         reach: settings.reach,
@@ -139,5 +160,6 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
         warnings,
         limit,
         stats,
+        flatness,
     }
 }
