@@ -2,8 +2,8 @@
 //! as text, LaTeX or JSON. The product is `network::jump::path_product`, the
 //! same function the window's inspector and the tests use.
 
-use super::bad_input;
 use super::source::{load, SourceArgs};
+use super::{bad_input, emit};
 use clap::Args;
 use num_complex::Complex64;
 use serde::Serialize;
@@ -143,11 +143,11 @@ pub fn run(args: &JumpArgs) -> anyhow::Result<ExitCode> {
                 .collect(),
             crossings,
         };
-        println!("{}", serde_json::to_string(&out)?);
+        emit(&format!("{}\n", serde_json::to_string(&out)?))?;
     } else if args.latex {
-        println!("{}", format_latex(&m));
+        emit(&format!("{}\n", format_latex(&m)))?;
     } else {
-        print!("{}", format_text(&m));
+        emit(&format_text(&m))?;
     }
     Ok(ExitCode::SUCCESS)
 }
