@@ -445,9 +445,6 @@ impl WallflowerApp {
 
     fn hover_tooltip(&self, response: &egui::Response, hit: Hit) {
         let Some(shown) = &self.shown else {
-            if let Hit::Point(p) = hit {
-                response.clone().on_hover_text_at_pointer(format!("{p:?}"));
-            }
             return;
         };
         let net = &shown.computed.network;

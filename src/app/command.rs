@@ -56,6 +56,8 @@ pub enum Command {
     Fit,
     RestoreRecovery,
     DiscardRecovery,
+    /// Close the window (Ctrl+Q); unsaved edits go to the recovery file.
+    Quit,
 }
 
 /// Which edits belong to one undo step: consecutive edits with the same
@@ -65,6 +67,7 @@ pub enum EditGroup {
     /// A single edit, always its own step.
     Single,
     Move(PointRef),
+    PoleOrder(usize),
     Prefactor,
     Equation,
     Param(String),
@@ -78,8 +81,8 @@ impl Command {
             Self::AddZero(_)
             | Self::AddPole(..)
             | Self::DeletePoint(_)
-            | Self::SetPoleOrder(..)
             | Self::ConvertToEquation => EditGroup::Single,
+            Self::SetPoleOrder(i, _) => EditGroup::PoleOrder(*i),
             Self::MovePoint(p, _) => EditGroup::Move(*p),
             Self::SetPrefactor(_) => EditGroup::Prefactor,
             Self::SetEquation(_) => EditGroup::Equation,

@@ -51,6 +51,13 @@ pub struct FrameStats {
     /// Recent frame build times in ms (ring buffer).
     pub recent_ms: Vec<f64>,
     next: usize,
+    /// Build times of frames while a point was being dragged, in ms.
+    pub drag_build_ms: Vec<f64>,
+    /// eframe's whole-frame CPU time (build, tessellate, paint) of the
+    /// previous frame, while dragging, in ms (real window only).
+    pub drag_full_frame_ms: Vec<f64>,
+    /// Set by the eframe shell each frame: the previous frame's CPU time.
+    pub integration_frame_ms: Option<f64>,
 }
 
 impl FrameStats {
@@ -66,17 +73,37 @@ impl FrameStats {
     }
 
     pub fn median_ms(&self) -> f64 {
-        let mut v = self.recent_ms.clone();
-        if v.is_empty() {
-            return 0.0;
-        }
-        v.sort_by(f64::total_cmp);
-        v[v.len() / 2]
+        percentile(&self.recent_ms, 0.5)
+    }
+
+    /// A one-line summary of the frames spent dragging.
+    pub fn drag_summary(&self) -> String {
+        let b = &self.drag_build_ms;
+        let f = &self.drag_full_frame_ms;
+        format!(
+            "{} drag frames: ui build median {:.2} ms, p95 {:.2} ms, max {:.2} ms; whole frame (eframe cpu) median {:.2} ms, p95 {:.2} ms, max {:.2} ms",
+            b.len(),
+            percentile(b, 0.5),
+            percentile(b, 0.95),
+            b.iter().copied().fold(0.0, f64::max),
+            percentile(f, 0.5),
+            percentile(f, 0.95),
+            f.iter().copied().fold(0.0, f64::max),
+        )
     }
 
     pub fn max_ms(&self) -> f64 {
         self.recent_ms.iter().copied().fold(0.0, f64::max)
     }
+}
+
+fn percentile(v: &[f64], q: f64) -> f64 {
+    if v.is_empty() {
+        return 0.0;
+    }
+    let mut v = v.to_vec();
+    v.sort_by(f64::total_cmp);
+    v[((v.len() - 1) as f64 * q).round() as usize]
 }
 
 /// Saving the window's own frame to a PNG once the first network is shown.
@@ -153,6 +180,7 @@ pub struct WallflowerApp {
     // Frame bookkeeping.
     pub frame_stats: FrameStats,
     title_sent: String,
+    quit_requested: bool,
     screenshot: Option<ScreenshotJob>,
     exit_after_screenshot: bool,
 }
@@ -233,6 +261,7 @@ impl WallflowerApp {
             export_theme: Theme::Paper,
             frame_stats: FrameStats::default(),
             title_sent: String::new(),
+            quit_requested: false,
             screenshot: opts.screenshot.as_ref().map(|p| ScreenshotJob {
                 path: p.clone(),
                 frames_ready: 0,
@@ -293,8 +322,24 @@ impl WallflowerApp {
         self.sync_worker();
         self.autosave();
         self.update_title(&ctx);
+        if self.quit_requested {
+            // Unsaved edits stay in the recovery file.
+            if self.last_edit.is_some() {
+                self.last_edit = Instant::now().checked_sub(self.autosave_after);
+            }
+            self.autosave();
+            ctx.send_viewport_cmd(egui::ViewportCommand::Close);
+        }
         self.screenshot_step(&ctx);
-        self.frame_stats.push(start.elapsed().as_secs_f64() * 1e3);
+        let build_ms = start.elapsed().as_secs_f64() * 1e3;
+        self.frame_stats.push(build_ms);
+        let dragging_point = matches!(self.drag, Some(DragState::Point(_)));
+        if dragging_point {
+            self.frame_stats.drag_build_ms.push(build_ms);
+            if let Some(ms) = self.frame_stats.integration_frame_ms {
+                self.frame_stats.drag_full_frame_ms.push(ms);
+            }
+        }
     }
 
     fn receive_results(&mut self) {
@@ -378,6 +423,9 @@ impl WallflowerApp {
             }
             if i.consume_key(cmd, egui::Key::S) {
                 out.push(Command::Save);
+            }
+            if i.consume_key(cmd, egui::Key::Q) {
+                out.push(Command::Quit);
             }
             if typing {
                 return out;
@@ -556,6 +604,7 @@ impl WallflowerApp {
             Command::ExportTo(path) => self.export_to(&path),
             Command::SetTheme(t) => self.scenario.theme = t,
             Command::Fit => self.fit_view(),
+            Command::Quit => self.quit_requested = true,
             Command::RestoreRecovery => {
                 if let Some(s) = self.recovery_offer.take() {
                     self.history

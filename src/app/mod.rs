@@ -15,7 +15,8 @@
 //! A screenshot for tests and README pictures: `AppOptions::screenshot`,
 //! or the `WALLFLOWER_SCREENSHOT=FILE.png` environment variable read by
 //! [`run`]: the window renders, saves its own frame once the first network
-//! is shown, and closes.
+//! is shown, and closes. `WALLFLOWER_FRAME_LOG=1` prints frame timings of
+//! point drags when the window closes.
 
 mod canvas;
 pub mod command;
@@ -90,8 +91,20 @@ pub fn run_with(opts: AppOptions) -> anyhow::Result<()> {
 struct Shell(WallflowerApp);
 
 impl eframe::App for Shell {
-    fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
+    fn ui(&mut self, ui: &mut egui::Ui, frame: &mut eframe::Frame) {
+        self.0.frame_stats.integration_frame_ms =
+            frame.info().cpu_usage.map(|s| f64::from(s) * 1e3);
         self.0.ui(ui);
+    }
+}
+
+impl Drop for Shell {
+    fn drop(&mut self) {
+        // WALLFLOWER_FRAME_LOG=1: how the frames went while dragging, for
+        // responsiveness measurements in a real window.
+        if std::env::var_os("WALLFLOWER_FRAME_LOG").is_some() {
+            eprintln!("wallflower: {}", self.0.frame_stats.drag_summary());
+        }
     }
 }
 

@@ -374,11 +374,14 @@ impl WallflowerApp {
                         .push(Command::MovePoint(r, Complex64::new(v[0], v[1])));
                 }
                 let mut order = p.order;
-                if ui
+                let r = ui
                     .add(egui::DragValue::new(&mut order).range(1..=12).prefix("n="))
-                    .changed()
-                {
+                    .on_hover_text("pole order");
+                if r.changed() {
                     self.commands.push(Command::SetPoleOrder(i, order));
+                }
+                if r.drag_stopped() || r.lost_focus() {
+                    self.commands.push(Command::EndInteraction);
                 }
                 if ui.small_button("x").on_hover_text("delete").clicked() {
                     self.commands.push(Command::DeletePoint(r));
