@@ -374,13 +374,13 @@ impl WallflowerApp {
                         .push(Command::MovePoint(r, Complex64::new(v[0], v[1])));
                 }
                 let mut order = p.order;
-                let r = ui
+                let resp = ui
                     .add(egui::DragValue::new(&mut order).range(1..=12).prefix("n="))
                     .on_hover_text("pole order");
-                if r.changed() {
+                if resp.changed() {
                     self.commands.push(Command::SetPoleOrder(i, order));
                 }
-                if r.drag_stopped() || r.lost_focus() {
+                if resp.drag_stopped() || resp.lost_focus() {
                     self.commands.push(Command::EndInteraction);
                 }
                 if ui.small_button("x").on_hover_text("delete").clicked() {
