@@ -416,13 +416,16 @@ impl WallflowerApp {
             self.commands.push(Command::EndInteraction);
         }
         if let Some((col, msg)) = &self.equation_error {
-            // A caret under the offending column (1-based), in the same font.
-            let line: String = self.equation_buffer.lines().next().unwrap_or("").into();
-            let caret = format!("{}^", " ".repeat(col.saturating_sub(1)));
-            ui.label(
-                RichText::new(format!("{line}\n{caret}"))
-                    .monospace()
-                    .color(error_color(ui)),
+            // A caret under the offending column (1-based), in the same font,
+            // on a short excerpt so that neither line wraps.
+            let (excerpt, caret) = error_excerpt(&self.equation_buffer, *col, 24);
+            ui.add(
+                egui::Label::new(
+                    RichText::new(format!("{excerpt}\n{caret}"))
+                        .monospace()
+                        .color(error_color(ui)),
+                )
+                .wrap_mode(egui::TextWrapMode::Extend),
             );
             ui.label(RichText::new(format!("column {col}: {msg}")).color(error_color(ui)));
             ui.label(RichText::new("showing the last network that computed").weak());
@@ -453,6 +456,28 @@ impl WallflowerApp {
             });
         }
     }
+}
+
+/// Up to `width` characters of `text` around the 1-based `column` (as a
+/// single line), and a caret line pointing at it.
+pub fn error_excerpt(text: &str, column: usize, width: usize) -> (String, String) {
+    let chars: Vec<char> = text
+        .chars()
+        .map(|c| if c == '\n' { ' ' } else { c })
+        .collect();
+    let at = column.saturating_sub(1).min(chars.len());
+    let start = at.saturating_sub(width / 2);
+    let end = (start + width).min(chars.len());
+    let mut excerpt: String = chars[start..end].iter().collect();
+    let mut caret_at = at - start;
+    if start > 0 {
+        excerpt.insert(0, '\u{2026}');
+        caret_at += 1;
+    }
+    if end < chars.len() {
+        excerpt.push('\u{2026}');
+    }
+    (excerpt, format!("{}^", " ".repeat(caret_at)))
 }
 
 /// Drag values for the real and imaginary parts; `Some` when changed.
@@ -508,4 +533,21 @@ fn complex_pad(
         }
     }
     None
+}
+
+#[cfg(test)]
+mod tests {
+    use super::error_excerpt;
+
+    #[test]
+    fn caret_points_at_the_column_in_a_short_excerpt() {
+        assert_eq!(
+            error_excerpt("y^2 = z +* 1", 10, 40),
+            ("y^2 = z +* 1".into(), "         ^".into())
+        );
+        let long = "y^2 = (z^2 + 2 u z + 1)/z^3 + * z";
+        let (e, c) = error_excerpt(long, 31, 10);
+        assert_eq!(e, "\u{2026}^3 + * z");
+        assert_eq!(e.chars().nth(c.len() - 1), Some('*'));
+    }
 }
