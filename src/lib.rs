@@ -19,3 +19,4 @@ pub use walls::Settings;
 pub mod app;
 pub mod scenario;
 pub mod scene;
+pub mod spectrum;

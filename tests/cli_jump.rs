@@ -2,19 +2,8 @@
 //! simple branch point gives the identity (Airy Stokes relation closed by the
 //! cut, NIST DLMF 9.2.12), a short path across one wall gives 1 + mu e_ij.
 
-use std::process::Command;
-
-fn run(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_wallflower"))
-        .args(args)
-        .output()
-        .unwrap();
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into(),
-        String::from_utf8_lossy(&out.stderr).into(),
-    )
-}
+mod common;
+use common::run;
 
 fn matrix(json: &serde_json::Value) -> Vec<Vec<(f64, f64)>> {
     json["matrix"]
@@ -133,4 +122,21 @@ fn latex_output() {
         out.starts_with("\\begin{pmatrix}") && out.trim_end().ends_with("\\end{pmatrix}"),
         "{out}"
     );
+}
+
+#[test]
+fn inspect_reports_flatness() {
+    let scenario = concat!(env!("CARGO_MANIFEST_DIR"), "/scenarios/rank-three.ron");
+    let (code, out, err) = run(&["inspect", scenario, "--json"]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let f = &v["flatness"];
+    assert!(
+        !f["joints"].as_array().unwrap().is_empty(),
+        "the rank-3 scenario has joints"
+    );
+    assert!(f["worst"].as_f64().unwrap() < 1e-12, "{f}");
+    let (code, out, _) = run(&["inspect", scenario]);
+    assert_eq!(code, 0);
+    assert!(out.contains("flatness at phase"), "{out}");
 }

@@ -39,7 +39,18 @@ struct InspectJson {
     branch_points: Vec<BranchPointJson>,
     punctures: Vec<PunctureJson>,
     sheets: Option<SheetsJson>,
+    /// Jump-matrix products around every joint and simple branch point of
+    /// the network at the scenario's phase: largest entry of M - 1.
+    flatness: FlatnessJson,
     warnings: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct FlatnessJson {
+    theta: f64,
+    worst: f64,
+    joints: Vec<f64>,
+    branch_points: Vec<f64>,
 }
 
 fn parse_point(text: &str) -> anyhow::Result<Complex64> {
@@ -75,6 +86,18 @@ pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
             ),
         },
     };
+    let net = wallflower::compute(
+        curve,
+        loaded.theta,
+        &loaded.settings,
+        &wallflower::CancelToken::new(),
+    );
+    let flatness = FlatnessJson {
+        theta: net.theta,
+        worst: net.flatness.worst,
+        joints: net.flatness.joints.clone(),
+        branch_points: net.flatness.branch_points.clone(),
+    };
     if args.json {
         let doc = InspectJson {
             title: loaded.scenario.title.clone(),
@@ -87,6 +110,7 @@ pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
                 z: [z.re, z.im],
                 y: y.iter().map(|v| [v.re, v.im]).collect(),
             }),
+            flatness,
             warnings: loaded.warnings.clone(),
         };
         emit(&serde_json::to_string(&doc)?)?;
@@ -121,6 +145,14 @@ pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
             say!(out, "{:>4}  {:>26}  {:>5}", idx + 1, z, p.order);
         }
     }
+    say!(
+        out,
+        "flatness at phase {}: worst |M - 1| = {:.1e} over {} joint loop(s) and {} branch-point loop(s)",
+        flatness.theta,
+        flatness.worst,
+        flatness.joints.len(),
+        flatness.branch_points.len()
+    );
     if let Some((z, y)) = sheets {
         say!(out, "sheets at {}:", fmt_z(z));
         for (idx, v) in y.iter().enumerate() {

@@ -13,6 +13,7 @@ mod jump;
 mod network;
 mod output;
 mod source;
+mod spectrum;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -98,6 +99,10 @@ enum Command {
     Draw(draw::DrawArgs),
     /// Describe the curve: branch points, punctures, sheets at a point.
     Inspect(inspect::InspectArgs),
+    /// The BPS states with |Z| below the reach (table, JSON or CSV).
+    Spectrum(spectrum::SpectrumArgs),
+    /// Follow the spectrum along a straight path in one parameter and report where it changes.
+    Crossing(spectrum::CrossingArgs),
     /// The ordered product of jump matrices along a path (text, LaTeX or JSON).
     Jump(jump::JumpArgs),
     /// Check a scenario: load it, build its curve and settings, report.
@@ -154,6 +159,8 @@ pub fn run() -> anyhow::Result<ExitCode> {
         Some(Command::Draw(args)) => draw::run(&args),
         Some(Command::Inspect(args)) => inspect::run(&args),
         Some(Command::Jump(args)) => jump::run(&args),
+        Some(Command::Spectrum(args)) => spectrum::run(&args),
+        Some(Command::Crossing(args)) => spectrum::run_crossing(&args),
         Some(Command::Check { source }) => check(&source),
         Some(Command::Save { source, output }) => {
             let loaded = source::load(&source)?;

@@ -56,7 +56,14 @@ impl Curve {
                 return if p.norm() == 0.0 { Some(y) } else { None };
             }
             y -= step;
-            if step.norm() <= 1e-15 * (1.0 + y.norm()) {
+            // Convergence is quadratic: once a step is below 1e-8 relative,
+            // one more step lands at rounding level.
+            if step.norm() <= 1e-8 * (1.0 + y.norm()) {
+                let (p, dp) = Self::eval_p(c, y);
+                let last = p / dp;
+                if last.is_finite() {
+                    y -= last;
+                }
                 return Some(y);
             }
         }

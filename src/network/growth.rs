@@ -25,7 +25,7 @@ fn mass_at(w: &Wall, seg: usize, frac: f64) -> f64 {
 
 /// The child type if `a` (ij) and `b` (jk) compose, in that order.
 fn compose(a: WallType, b: WallType) -> Option<WallType> {
-    (a.j == b.i && a.i != b.j).then(|| WallType { i: a.i, j: b.j })
+    (a.j == b.i && a.i != b.j).then_some(WallType { i: a.i, j: b.j })
 }
 
 /// True if `child` was born where `other` (one of its parents) crosses its first point.

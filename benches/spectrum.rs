@@ -1,0 +1,74 @@
+//! Spectrum benchmarks (issue 5 targets on the 2-core machine):
+//! pure SU(2) q = (1 + 6z + z^2)/z^3 (u = 3, weak coupling: the W boson and
+//! a dyon tower) to reach 8 |Z_W|, target under 1 s; a generic quartic to
+//! reach 10, target under 300 ms.
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use std::collections::BTreeMap;
+use std::hint::black_box;
+use std::time::Duration;
+use wallflower::algebra::parse_equation;
+use wallflower::spectrum::{find, Kind, SpectrumSettings};
+use wallflower::{CancelToken, Curve};
+
+fn curve(text: &str) -> Curve {
+    let eq = parse_equation(text).unwrap();
+    Curve::from_poly_in_y(&eq.evaluate(&BTreeMap::new()).unwrap()).unwrap()
+}
+
+fn spectrum(c: &mut Criterion) {
+    let su2 = curve("y^2 = (1 + 6 z + z^2)/z^3");
+    // |Z_W| from a first run (the loop period around |z| = 1).
+    let probe = find(
+        &su2,
+        &SpectrumSettings {
+            reach: 40.0,
+            ..SpectrumSettings::default()
+        },
+        &CancelToken::new(),
+        &mut |_| {},
+    );
+    let z_w = probe
+        .states
+        .iter()
+        .find(|s| s.kind == Kind::Vector)
+        .expect("the W boson")
+        .abs;
+    let su2_settings = SpectrumSettings {
+        reach: 8.0 * z_w,
+        ..SpectrumSettings::default()
+    };
+    let quartic = curve("y^2 = z^4 - 2 z^2 + 0.5 z + 1.2i");
+    let quartic_settings = SpectrumSettings {
+        reach: 10.0,
+        ..SpectrumSettings::default()
+    };
+    let mut group = c.benchmark_group("spectrum");
+    group.sample_size(10);
+    group.warm_up_time(Duration::from_millis(500));
+    group.measurement_time(Duration::from_secs(5));
+    group.bench_function("su2_u3_reach_8zw", |b| {
+        b.iter(|| {
+            find(
+                black_box(&su2),
+                &su2_settings,
+                &CancelToken::new(),
+                &mut |_| {},
+            )
+        })
+    });
+    group.bench_function("quartic_reach_10", |b| {
+        b.iter(|| {
+            find(
+                black_box(&quartic),
+                &quartic_settings,
+                &CancelToken::new(),
+                &mut |_| {},
+            )
+        })
+    });
+    group.finish();
+}
+
+criterion_group!(benches, spectrum);
+criterion_main!(benches);

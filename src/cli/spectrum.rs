@@ -1,0 +1,333 @@
+//! `wallflower spectrum` (BPS states up to a reach) and `wallflower crossing`
+//! (the spectrum along a straight path in one parameter), with a progress
+//! bar on stderr when stderr is a terminal.
+
+use super::source::{load, Loaded, SourceArgs};
+use super::{bad_input, emit};
+use clap::Args;
+use indicatif::{ProgressBar, ProgressStyle};
+use num_complex::Complex64;
+use serde::Serialize;
+use std::process::ExitCode;
+use wallflower::spectrum::{self, BpsState, Kind, SpectrumSettings};
+use wallflower::CancelToken;
+
+#[derive(Debug, Args)]
+pub struct SpectrumArgs {
+    #[command(flatten)]
+    pub source: SourceArgs,
+    /// Print one JSON object.
+    #[arg(long, conflicts_with = "csv")]
+    pub json: bool,
+    /// Print comma-separated values with a header line.
+    #[arg(long)]
+    pub csv: bool,
+}
+
+#[derive(Debug, Args)]
+pub struct CrossingArgs {
+    #[command(flatten)]
+    pub source: SourceArgs,
+    /// Start of the path, e.g. --from u=0.5.
+    #[arg(long, value_name = "NAME=VALUE", allow_hyphen_values = true)]
+    pub from: String,
+    /// End of the path, e.g. --to u=2+0.5i (same parameter as --from).
+    #[arg(long, value_name = "NAME=VALUE", allow_hyphen_values = true)]
+    pub to: String,
+    /// Number of equal steps sampled along the path before changes are
+    /// located by bisection.
+    #[arg(long, default_value_t = 20)]
+    pub steps: usize,
+    /// Print one JSON object.
+    #[arg(long)]
+    pub json: bool,
+}
+
+#[derive(Serialize)]
+pub struct StateJson {
+    z: [f64; 2],
+    abs: f64,
+    phase: f64,
+    kind: &'static str,
+    /// `null` when the engine cannot decide the index.
+    omega: Option<i64>,
+    reach: f64,
+    /// Estimated error of Z from an independent quadrature.
+    z_error: f64,
+    /// Branch points (1-based) the state's saddle joins, if any.
+    endpoints: Vec<usize>,
+}
+
+fn kind_name(k: Kind) -> &'static str {
+    match k {
+        Kind::Hyper => "hyper",
+        Kind::Vector => "vector",
+        Kind::Other => "other",
+    }
+}
+
+fn state_json(s: &BpsState, reach: f64) -> StateJson {
+    StateJson {
+        z: [s.z.re, s.z.im],
+        abs: s.abs,
+        phase: s.phase,
+        kind: kind_name(s.kind),
+        omega: s.omega,
+        reach,
+        z_error: s.z_error,
+        endpoints: s.endpoints.iter().map(|e| e + 1).collect(),
+    }
+}
+
+#[derive(Serialize)]
+struct SpectrumJson {
+    reach: f64,
+    states: Vec<StateJson>,
+    warnings: Vec<String>,
+}
+
+fn settings_for(loaded: &Loaded) -> anyhow::Result<SpectrumSettings> {
+    let s = SpectrumSettings {
+        reach: loaded.settings.reach,
+        ..SpectrumSettings::default()
+    };
+    if let Err(errors) = s.validate() {
+        bad_input!("{}", errors.join("; "));
+    }
+    Ok(s)
+}
+
+/// A progress bar on stderr; invisible when stderr is not a terminal.
+fn progress_bar(what: &str) -> ProgressBar {
+    let bar = ProgressBar::new(1000);
+    if let Ok(style) = ProgressStyle::with_template("{msg} [{bar:40}] {percent}% {elapsed}") {
+        bar.set_style(style.progress_chars("=> "));
+    }
+    bar.set_message(what.to_string());
+    bar
+}
+
+/// A number for CSV: shortest round-trip form, in exponent notation when tiny.
+fn num(x: f64) -> String {
+    if x != 0.0 && x.abs() < 1e-4 {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
+}
+
+fn fmt_z(z: Complex64) -> String {
+    format!("{:.10}{:+.10}i", z.re, z.im)
+}
+
+pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
+    let loaded = load(&args.source)?;
+    loaded.print_warnings();
+    let settings = settings_for(&loaded)?;
+    let bar = progress_bar("spectrum");
+    let found = spectrum::find(&loaded.curve, &settings, &CancelToken::new(), &mut |f| {
+        bar.set_position((f.clamp(0.0, 1.0) * 1000.0) as u64);
+    });
+    bar.finish_and_clear();
+    for w in &found.warnings {
+        eprintln!("warning: {}", super::one_line(w));
+    }
+    if args.json {
+        let doc = SpectrumJson {
+            reach: found.reach,
+            states: found
+                .states
+                .iter()
+                .map(|s| state_json(s, found.reach))
+                .collect(),
+            warnings: found.warnings.clone(),
+        };
+        emit(&serde_json::to_string(&doc)?)?;
+        emit("\n")?;
+    } else if args.csv {
+        let mut out = String::from("re_z,im_z,abs,phase,kind,omega,z_error\n");
+        for s in &found.states {
+            out.push_str(&format!(
+                "{},{},{},{},{},{},{}\n",
+                num(s.z.re),
+                num(s.z.im),
+                num(s.abs),
+                num(s.phase),
+                kind_name(s.kind),
+                s.omega
+                    .map_or_else(|| "unknown".to_string(), |o| o.to_string()),
+                num(s.z_error)
+            ));
+        }
+        emit(&out)?;
+    } else {
+        let mut out = format!(
+            "{}: {} BPS state(s) with |Z| < {}\n",
+            loaded.label,
+            found.states.len(),
+            found.reach
+        );
+        out.push_str(&format!(
+            "{:>3}  {:>6}  {:>5}  {:>34}  {:>14}  {:>13}  {:>8}\n",
+            "#", "kind", "omega", "Z", "|Z|", "phase", "error"
+        ));
+        for (k, s) in found.states.iter().enumerate() {
+            out.push_str(&format!(
+                "{:>3}  {:>6}  {:>5}  {:>34}  {:>14.10}  {:>13.10}  {:>8.1e}\n",
+                k + 1,
+                kind_name(s.kind),
+                s.omega.map_or_else(|| "?".to_string(), |o| o.to_string()),
+                fmt_z(s.z),
+                s.abs,
+                s.phase,
+                s.z_error
+            ));
+        }
+        emit(&out)?;
+    }
+    Ok(ExitCode::SUCCESS)
+}
+
+fn parse_assignment(flag: &str, text: &str) -> anyhow::Result<(String, Complex64)> {
+    let Some((name, value)) = text.split_once('=') else {
+        bad_input!("{flag} {text}: expected NAME=VALUE, e.g. {flag} u=0.5");
+    };
+    match wallflower::algebra::parse_complex(value) {
+        Ok(v) if v.is_finite() => Ok((name.trim().to_string(), v)),
+        Ok(_) => bad_input!("{flag} {text}: the value is not finite"),
+        Err(e) => bad_input!("{flag} {text}: {e}"),
+    }
+}
+
+#[derive(Serialize)]
+struct CrossingJson {
+    parameter: String,
+    from: [f64; 2],
+    to: [f64; 2],
+    /// Each change: where along the path (0 = from, 1 = to), the parameter
+    /// value there, and the states on either side.
+    crossings: Vec<ChangeJson>,
+    warnings: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct ChangeJson {
+    s: f64,
+    interval: [f64; 2],
+    value: [f64; 2],
+    before: Vec<StateJson>,
+    after: Vec<StateJson>,
+}
+
+pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
+    let (name, v1) = parse_assignment("--from", &args.from)?;
+    let (name2, v2) = parse_assignment("--to", &args.to)?;
+    if name != name2 {
+        bad_input!("--from and --to name different parameters ({name} and {name2})");
+    }
+    if args.steps == 0 || args.steps > 10_000 {
+        bad_input!("--steps must be between 1 and 10000, got {}", args.steps);
+    }
+    // The path's start is the parameter's value for loading.
+    let source = SourceArgs {
+        file: args.source.file.clone(),
+        curve: args.source.curve.clone(),
+        set: args
+            .source
+            .set
+            .iter()
+            .cloned()
+            .chain(std::iter::once(args.from.clone()))
+            .collect(),
+        phase: args.source.phase,
+        reach: args.source.reach,
+    };
+    let loaded = load(&source)?;
+    loaded.print_warnings();
+    if !loaded.scenario.parameter_names().contains(&name) {
+        bad_input!(
+            "the curve has no parameter {name} (its parameters: {})",
+            loaded.scenario.parameter_names().join(", ")
+        );
+    }
+    let settings = settings_for(&loaded)?;
+    let value_at = |s: f64| v1 + (v2 - v1) * s;
+    let mut build = |s: f64| -> Result<wallflower::Curve, String> {
+        let mut sc = loaded.scenario.clone();
+        let v = value_at(s);
+        sc.params.insert(name.clone(), [v.re, v.im]);
+        sc.build_curve().map_err(|e| e.to_string())
+    };
+    let bar = progress_bar("crossing");
+    let report = spectrum::crossing(
+        0.0,
+        1.0,
+        args.steps,
+        1e-7,
+        &mut build,
+        &settings,
+        &CancelToken::new(),
+        &mut |f| {
+            bar.set_position((f.clamp(0.0, 1.0) * 1000.0) as u64);
+        },
+    );
+    bar.finish_and_clear();
+    for w in &report.warnings {
+        eprintln!("warning: {}", super::one_line(w));
+    }
+    let reach = settings.reach;
+    if args.json {
+        let doc = CrossingJson {
+            parameter: name.clone(),
+            from: [v1.re, v1.im],
+            to: [v2.re, v2.im],
+            crossings: report
+                .crossings
+                .iter()
+                .map(|c| {
+                    let v = value_at(c.parameter);
+                    ChangeJson {
+                        s: c.parameter,
+                        interval: c.interval,
+                        value: [v.re, v.im],
+                        before: c.before.iter().map(|s| state_json(s, reach)).collect(),
+                        after: c.after.iter().map(|s| state_json(s, reach)).collect(),
+                    }
+                })
+                .collect(),
+            warnings: report.warnings.clone(),
+        };
+        emit(&serde_json::to_string(&doc)?)?;
+        emit("\n")?;
+    } else {
+        let mut out = format!(
+            "{}: {} change(s) of the spectrum along {name} from {} to {}\n",
+            loaded.label,
+            report.crossings.len(),
+            fmt_z(v1),
+            fmt_z(v2)
+        );
+        for c in &report.crossings {
+            let v = value_at(c.parameter);
+            out.push_str(&format!(
+                "at {name} = {} (s = {:.9}): {} state(s) before, {} after\n",
+                fmt_z(v),
+                c.parameter,
+                c.before.len(),
+                c.after.len()
+            ));
+            for (label, states) in [("before", &c.before), ("after", &c.after)] {
+                for s in states.iter() {
+                    out.push_str(&format!(
+                        "  {label:>6}  {:>6}  Z = {}  |Z| = {:.10}\n",
+                        kind_name(s.kind),
+                        fmt_z(s.z),
+                        s.abs
+                    ));
+                }
+            }
+        }
+        emit(&out)?;
+    }
+    Ok(ExitCode::SUCCESS)
+}

@@ -1,0 +1,510 @@
+//! The BPS spectrum: critical phases where the network degenerates, and the
+//! states they stand for, with central charges, kinds and indices.
+//!
+//! Rank 2 (`y^2 = q`), following mathematics.md section 5:
+//!
+//! * saddle connections (a wall from a simple zero of q that ends on
+//!   another) are hypermultiplets, index 1, found by [`saddle`];
+//! * ring domains (families of closed trajectories) are vector multiplets,
+//!   index -2, found by [`ring`].
+//!
+//! The finder combines a scan with a small charge lattice:
+//!
+//! 1. loops around pairs of odd singular points give periods; each is a
+//!    vector candidate (its closed trajectory is looked for) and, for a
+//!    pair of zeros, half of it is a hypermultiplet candidate;
+//! 2. a scan over theta in [0, pi) proposes, from every pass of a wall near
+//!    another branch point, the exact critical phase of that pass's class;
+//! 3. every state found adds candidates: `Z_H + n Z_V` for each vector V
+//!    (the dyon towers that accumulate at arg Z_V, which no uniform scan
+//!    resolves) and sums and differences of pairs of hypermultiplets.
+//!
+//! A candidate becomes a state only when a network re-integrated at its
+//! phase confirms it; its central charge then comes from an independent
+//! quadrature ([`period`]), and `z_error` is the difference from the
+//! integrator's value. Each particle/antiparticle pair is reported once,
+//! with its phase in [0, pi) and `Z = |Z| e^(i phase)`.
+//!
+//! Rank 3 and up is not implemented: the result is empty with a warning
+//! saying so (never a guess).
+
+pub mod crossing;
+pub mod period;
+pub mod ring;
+pub mod saddle;
+mod settings;
+
+pub use crossing::{crossing, Crossing, CrossingReport};
+pub use settings::SpectrumSettings;
+
+use crate::cancel::CancelToken;
+use crate::curve::Curve;
+use crate::network::default_bounds;
+use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Origin, Settings, Wall};
+use num_complex::Complex64;
+use period::Quadratic;
+use serde::{Deserialize, Serialize};
+use std::f64::consts::PI;
+
+/// What kind of multiplet a state is.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub enum Kind {
+    /// A saddle connection (rank 2) or simple web: index 1.
+    Hyper,
+    /// A ring domain: index -2.
+    Vector,
+    /// Anything else (index unknown unless stated).
+    Other,
+}
+
+/// One BPS state (a particle and its antiparticle).
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct BpsState {
+    /// Central charge, `|Z| e^(i phase)`.
+    pub z: Complex64,
+    pub abs: f64,
+    /// Critical phase in [0, pi).
+    pub phase: f64,
+    pub kind: Kind,
+    /// The BPS index; `None` when the engine cannot decide.
+    pub omega: Option<i64>,
+    /// Branch points joined by the saddle (indices into
+    /// `curve.branch_points`); empty for a ring domain.
+    pub endpoints: Vec<usize>,
+    /// Polylines to highlight at the critical phase: the saddle connection,
+    /// or one closed trajectory of the ring domain.
+    pub web: Vec<Vec<Complex64>>,
+    /// `|Z(quadrature) - Z(integrator)|`: the difference between the
+    /// independent quadrature and the wall integrator's value.
+    pub z_error: f64,
+}
+
+/// Counters of the work done.
+#[derive(Clone, Debug, Default, PartialEq, Serialize, Deserialize)]
+pub struct SpectrumStats {
+    pub theta_samples: usize,
+    pub candidates_tried: usize,
+    pub walls_grown: usize,
+}
+
+/// The result of [`find`].
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Spectrum {
+    pub reach: f64,
+    /// Sorted by `|Z|`.
+    pub states: Vec<BpsState>,
+    pub warnings: Vec<String>,
+    /// The computation was cancelled: `states` is partial.
+    pub cancelled: bool,
+    pub stats: SpectrumStats,
+}
+
+impl Spectrum {
+    fn empty(reach: f64, warnings: Vec<String>) -> Self {
+        Self {
+            reach,
+            states: Vec::new(),
+            warnings,
+            cancelled: false,
+            stats: SpectrumStats::default(),
+        }
+    }
+
+    /// Number of states of the given kind.
+    pub fn count(&self, kind: Kind) -> usize {
+        self.states.iter().filter(|s| s.kind == kind).count()
+    }
+}
+
+/// Whether two central charges are equal up to sign, relative to `rel`.
+pub fn same_up_to_sign(a: Complex64, b: Complex64, rel: f64) -> bool {
+    let tol = rel * (1.0 + a.norm().max(b.norm()));
+    (a - b).norm() <= tol || (a + b).norm() <= tol
+}
+
+/// `theta mod pi`, in [0, pi).
+fn phase_mod_pi(theta: f64) -> f64 {
+    let t = theta.rem_euclid(PI);
+    if t >= PI {
+        0.0
+    } else {
+        t
+    }
+}
+
+/// Distance between two phases modulo pi.
+fn phase_gap(a: f64, b: f64) -> f64 {
+    let d = (a - b).rem_euclid(PI);
+    d.min(PI - d)
+}
+
+/// Relative agreement at which two candidate charges count as the same
+/// (candidates carry the scan integrator's error).
+const CANDIDATE_MATCH: f64 = 1e-5;
+/// A confirmed saddle's wall passes its far branch point closer than this
+/// fraction of the capture radius.
+const HIT_FRACTION: f64 = 1e-3;
+/// Refinement iterations of one candidate.
+const MAX_REFINE: usize = 6;
+
+/// Finds the BPS states with `|Z| < settings.reach`. Progress goes to
+/// `progress` as a fraction in [0, 1].
+pub fn find(
+    curve: &Curve,
+    settings: &SpectrumSettings,
+    cancel: &CancelToken,
+    progress: &mut dyn FnMut(f64),
+) -> Spectrum {
+    if let Err(errors) = settings.validate() {
+        return Spectrum::empty(settings.reach, errors);
+    }
+    let mut warnings: Vec<String> = Vec::new();
+    let Some(q) = curve.quadratic_differential() else {
+        warnings.push(format!(
+            "the BPS spectrum is only computed for rank 2 so far (this curve has {} sheets): no states reported",
+            curve.rank
+        ));
+        return Spectrum::empty(settings.reach, warnings);
+    };
+    for (idx, bp) in curve.branch_points.iter().enumerate() {
+        if !bp.simple {
+            warnings.push(format!(
+                "branch point {} is not simple: saddles ending on it are not sought",
+                idx + 1
+            ));
+        }
+    }
+    if curve.punctures.iter().any(|p| p.order == 1) {
+        warnings.push(
+            "q has a simple pole: trajectories ending on it are not counted as states".into(),
+        );
+    }
+    let mut finder = Finder::new(curve, Quadratic::new(q), settings, cancel);
+    finder.run(progress);
+    finder.into_spectrum(warnings)
+}
+
+/// A charge to confirm, and the branch point its saddle would start from
+/// when known (then only that point's walls are grown).
+struct Candidate {
+    z: Complex64,
+    from: Option<usize>,
+}
+
+/// The state of one run of [`find`].
+struct Finder<'a> {
+    curve: &'a Curve,
+    quad: Quadratic,
+    settings: &'a SpectrumSettings,
+    cancel: &'a CancelToken,
+    bounds: Bounds,
+    radii: Vec<f64>,
+    states: Vec<BpsState>,
+    /// Candidate charges already confirmed or rejected.
+    tried: Vec<Complex64>,
+    queue: Vec<Candidate>,
+    stats: SpectrumStats,
+    cancelled: bool,
+    budget_hit: bool,
+}
+
+impl<'a> Finder<'a> {
+    fn new(
+        curve: &'a Curve,
+        quad: Quadratic,
+        settings: &'a SpectrumSettings,
+        cancel: &'a CancelToken,
+    ) -> Self {
+        let base = default_bounds(curve);
+        let (cx, cy) = (
+            0.5 * (base.min[0] + base.max[0]),
+            0.5 * (base.min[1] + base.max[1]),
+        );
+        let half = 0.5 * (base.max[0] - base.min[0]) * settings.bounds_factor;
+        Self {
+            curve,
+            quad,
+            settings,
+            cancel,
+            bounds: Bounds::square(cx, cy, half),
+            radii: saddle::capture_radii(curve),
+            states: Vec::new(),
+            tried: Vec::new(),
+            queue: Vec::new(),
+            stats: SpectrumStats::default(),
+            cancelled: false,
+            budget_hit: false,
+        }
+    }
+
+    fn wall_settings(&self, tolerance: f64, reach: f64) -> Settings {
+        Settings {
+            reach,
+            tolerance,
+            step_budget: self.settings.step_budget,
+            bounds: Some(self.bounds),
+            max_turn_rad: 0.2,
+            ..Settings::default()
+        }
+    }
+
+    /// The primary walls at phase `theta` (only those from branch point
+    /// `from` if given), reaching just past the reach.
+    fn walls_at(&mut self, theta: f64, tolerance: f64, from: Option<usize>) -> Vec<Wall> {
+        let settings = self.wall_settings(tolerance, self.settings.reach * (1.0 + 1e-6));
+        let ctx = GrowContext {
+            curve: self.curve,
+            theta,
+            settings: &settings,
+            bounds: self.bounds,
+            cancel: self.cancel,
+        };
+        let walls: Vec<Wall> = primary_seeds(self.curve, theta)
+            .into_iter()
+            .filter(|seed| match (from, seed.origin) {
+                (Some(f), Origin::BranchPoint { index, .. }) => index == f,
+                _ => true,
+            })
+            .map(|seed| grow_wall(&ctx, seed))
+            .collect();
+        self.stats.walls_grown += walls.len();
+        walls
+    }
+
+    fn run(&mut self, progress: &mut dyn FnMut(f64)) {
+        let reach = self.settings.reach;
+        // 1. The pair loops: vector candidates and zero-pair hyper candidates.
+        let loops = ring::pair_loops(&self.quad, self.curve);
+        for pair in &loops {
+            if pair.period.norm() < reach {
+                self.try_vector(pair);
+            }
+            if pair.branch_points.iter().all(Option::is_some) && pair.period.norm() < 2.0 * reach {
+                self.queue.push(Candidate {
+                    z: pair.period * 0.5,
+                    from: pair.branch_points[0],
+                });
+            }
+        }
+        self.drain_queue();
+        // 2. The scan.
+        let n = self.settings.theta_samples;
+        for m in 0..n {
+            if self.stop() {
+                break;
+            }
+            let theta = PI * (m as f64 + 0.5) / n as f64;
+            let walls = self.walls_at(theta, self.settings.scan_tolerance, None);
+            for wall in &walls {
+                for pass in saddle::passes(&self.quad, self.curve, wall, theta, &self.radii) {
+                    if pass.z_wall.norm() < reach * (1.0 + 1e-6) && !self.known(pass.z_wall) {
+                        // The class's exact period: its phase is the
+                        // critical phase, so confirmation starts there.
+                        let z = saddle::quadrature_charge(&self.quad, wall, &pass, theta);
+                        self.queue.push(Candidate {
+                            z,
+                            from: Some(pass.from),
+                        });
+                    }
+                }
+            }
+            self.stats.theta_samples += 1;
+            self.drain_queue();
+            progress((m + 1) as f64 / n as f64);
+        }
+        self.drain_queue();
+        progress(1.0);
+    }
+
+    fn stop(&mut self) -> bool {
+        if self.cancel.is_cancelled() {
+            self.cancelled = true;
+        }
+        self.cancelled || self.budget_hit
+    }
+
+    fn known(&self, z: Complex64) -> bool {
+        self.tried
+            .iter()
+            .any(|t| same_up_to_sign(*t, z, CANDIDATE_MATCH))
+            || self
+                .states
+                .iter()
+                .any(|s| same_up_to_sign(s.z, z, CANDIDATE_MATCH))
+    }
+
+    fn drain_queue(&mut self) {
+        while let Some(Candidate { z, from }) = self.queue.pop() {
+            if self.stop() {
+                return;
+            }
+            if self.known(z) || z.norm() >= self.settings.reach || z.norm() == 0.0 {
+                continue;
+            }
+            if self.stats.candidates_tried >= self.settings.max_candidates {
+                self.budget_hit = true;
+                return;
+            }
+            self.stats.candidates_tried += 1;
+            self.tried.push(z);
+            if let Some(state) = self.confirm_hyper(z, from) {
+                if !self.known_state(state.z) {
+                    self.add_lattice_candidates(&state);
+                    self.states.push(state);
+                }
+            }
+        }
+    }
+
+    fn known_state(&self, z: Complex64) -> bool {
+        self.states
+            .iter()
+            .any(|s| same_up_to_sign(s.z, z, CANDIDATE_MATCH))
+    }
+
+    /// New candidates implied by a new state: towers over every vector and
+    /// sums and differences with every other hypermultiplet.
+    fn add_lattice_candidates(&mut self, new: &BpsState) {
+        let reach = self.settings.reach;
+        for s in &self.states {
+            match (s.kind, new.kind) {
+                (Kind::Vector, Kind::Hyper) | (Kind::Hyper, Kind::Vector) => {
+                    let (h, v) = if s.kind == Kind::Vector {
+                        (new.z, s.z)
+                    } else {
+                        (s.z, new.z)
+                    };
+                    let n_max = ((reach + h.norm()) / v.norm()).ceil() as i64 + 1;
+                    for n in -n_max..=n_max {
+                        let z = h + v * n as f64;
+                        if z.norm() < reach {
+                            self.queue.push(Candidate { z, from: None });
+                        }
+                    }
+                }
+                (Kind::Hyper, Kind::Hyper) => {
+                    for z in [s.z + new.z, s.z - new.z] {
+                        if z.norm() < reach {
+                            self.queue.push(Candidate { z, from: None });
+                        }
+                    }
+                }
+                _ => {}
+            }
+        }
+    }
+
+    fn try_vector(&mut self, pair: &ring::PairLoop) {
+        if self.stop() || self.known_state(pair.period) {
+            return;
+        }
+        let settings = self.wall_settings(self.settings.tolerance, pair.period.norm());
+        self.stats.candidates_tried += 1;
+        let Some(loop_points) =
+            ring::closed_trajectory(self.curve, pair, &settings, self.bounds, self.cancel)
+        else {
+            return;
+        };
+        // Independent check: the loop integral along the closed trajectory's
+        // own polyline (closed up by its first point) against the ellipse.
+        let mut closed = loop_points.clone();
+        closed.push(loop_points[0]);
+        let mut d = self.quad.diff(closed[0]);
+        let mut along = Complex64::new(0.0, 0.0);
+        for seg in closed.windows(2) {
+            let (part, next) = self.quad.segment(seg[0], seg[1], d);
+            along += part;
+            d = next;
+        }
+        let phase = phase_mod_pi(pair.period.arg());
+        let z = Complex64::from_polar(pair.period.norm(), phase);
+        let z_error = (along - z).norm().min((along + z).norm());
+        let state = BpsState {
+            z,
+            abs: z.norm(),
+            phase,
+            kind: Kind::Vector,
+            omega: Some(-2),
+            endpoints: Vec::new(),
+            web: vec![loop_points],
+            z_error,
+        };
+        self.add_lattice_candidates(&state);
+        self.states.push(state);
+    }
+
+    /// Re-integrates at the candidate's phase until the phase settles; a
+    /// state if a wall then reaches the far branch point with this charge.
+    fn confirm_hyper(&mut self, candidate: Complex64, from: Option<usize>) -> Option<BpsState> {
+        let mut z_cand = candidate;
+        let mut theta = phase_mod_pi(z_cand.arg());
+        for _ in 0..MAX_REFINE {
+            if self.stop() {
+                return None;
+            }
+            let walls = self.walls_at(theta, self.settings.tolerance, from);
+            let mut best: Option<(usize, saddle::Pass, f64)> = None;
+            for (w_idx, wall) in walls.iter().enumerate() {
+                for pass in saddle::passes(&self.quad, self.curve, wall, theta, &self.radii) {
+                    let gap = (pass.z_wall - z_cand)
+                        .norm()
+                        .min((pass.z_wall + z_cand).norm());
+                    if gap <= CANDIDATE_MATCH * (1.0 + z_cand.norm())
+                        && best.as_ref().is_none_or(|b| pass.distance < b.1.distance)
+                    {
+                        best = Some((w_idx, pass, gap));
+                    }
+                }
+            }
+            let (w_idx, pass, _) = best?;
+            let wall = &walls[w_idx];
+            let z_quad = saddle::quadrature_charge(&self.quad, wall, &pass, theta);
+            let theta_new = phase_mod_pi(z_quad.arg());
+            let settled = phase_gap(theta_new, theta) <= self.settings.phase_tolerance;
+            if settled {
+                if pass.distance > HIT_FRACTION * self.radii[pass.to] {
+                    return None;
+                }
+                let z = Complex64::from_polar(z_quad.norm(), theta_new);
+                let mut web: Vec<Complex64> = wall.points[..=pass.k].iter().map(|p| p.z).collect();
+                web.push(pass.target_z);
+                return Some(BpsState {
+                    z,
+                    abs: z.norm(),
+                    phase: theta_new,
+                    kind: Kind::Hyper,
+                    omega: Some(1),
+                    endpoints: vec![pass.from, pass.to],
+                    web: vec![web],
+                    z_error: (z_quad - pass.z_wall)
+                        .norm()
+                        .min((z_quad + pass.z_wall).norm()),
+                });
+            }
+            theta = theta_new;
+            z_cand = z_quad;
+        }
+        None
+    }
+
+    fn into_spectrum(self, mut warnings: Vec<String>) -> Spectrum {
+        if self.budget_hit {
+            warnings.push(format!(
+                "stopped after max_candidates = {} candidates: the spectrum may be incomplete",
+                self.settings.max_candidates
+            ));
+        }
+        if self.cancelled {
+            warnings.push("cancelled: the spectrum is partial".into());
+        }
+        let mut states = self.states;
+        states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
+        Spectrum {
+            reach: self.settings.reach,
+            states,
+            warnings,
+            cancelled: self.cancelled,
+            stats: self.stats,
+        }
+    }
+}

@@ -1,0 +1,193 @@
+//! Ring domains (rank 2): families of closed trajectories, the vector
+//! multiplets.
+//!
+//! A closed trajectory at phase theta is homotopic to a loop around an even
+//! number of odd singular points (simple zeros and odd-order poles of q,
+//! where `sqrt q` changes sign). We take the simplest such loops, around
+//! one pair of odd points (an ellipse with the pair as foci and no other
+//! singular point inside), compute each loop's period
+//!
+//! ```text
+//! Z = oint (y_1 - y_2) dz = 2 oint y dz
+//! ```
+//!
+//! and, when `|Z|` is below the reach, ask whether the trajectory of phase
+//! `arg Z` through a few points around the pair closes: started at p and
+//! integrated for exactly the mass `|Z|` (one period), it must come back to
+//! p. A trajectory that is not closed does not return to its start after
+//! precisely one period, so a return to within a tiny distance confirms the
+//! ring domain.
+
+use super::period::Quadratic;
+use crate::cancel::CancelToken;
+use crate::curve::Curve;
+use crate::walls::{
+    grow_wall, Bounds, EndReason, GrowContext, Origin, Settings, WallSeed, WallType,
+};
+use num_complex::Complex64;
+
+/// The loop around a pair of odd singular points and its period.
+#[derive(Clone, Debug)]
+pub struct PairLoop {
+    pub foci: [Complex64; 2],
+    /// Indices into `curve.branch_points` (None for a pole).
+    pub branch_points: [Option<usize>; 2],
+    pub period: Complex64,
+}
+
+/// Odd singular points: where `sqrt q` changes sign on a small loop.
+fn odd_points(curve: &Curve) -> Vec<(Complex64, Option<usize>)> {
+    let mut out: Vec<(Complex64, Option<usize>)> = curve
+        .branch_points
+        .iter()
+        .enumerate()
+        .filter(|(_, b)| b.order % 2 == 1)
+        .map(|(k, b)| (b.z, Some(k)))
+        .collect();
+    out.extend(
+        curve
+            .punctures
+            .iter()
+            .filter(|p| p.order % 2 == 1)
+            .filter_map(|p| p.z.map(|z| (z, None))),
+    );
+    out
+}
+
+/// Loops around every pair of odd points whose enclosing ellipse can avoid
+/// all other singular points, with their periods.
+pub fn pair_loops(quad: &Quadratic, curve: &Curve) -> Vec<PairLoop> {
+    let odd = odd_points(curve);
+    let mut out = Vec::new();
+    for a in 0..odd.len() {
+        for b in a + 1..odd.len() {
+            let (f1, f2) = (odd[a].0, odd[b].0);
+            let len = (f2 - f1).norm();
+            let others: Vec<Complex64> = curve
+                .singular_points
+                .iter()
+                .copied()
+                .filter(|s| (s - f1).norm() > 1e-9 * len && (s - f2).norm() > 1e-9 * len)
+                .collect();
+            let Some(minor) = fitting_minor_axis(f1, f2, &others) else {
+                continue;
+            };
+            if let Some(period) = quad.ellipse_loop(f1, f2, minor) {
+                out.push(PairLoop {
+                    foci: [f1, f2],
+                    branch_points: [odd[a].1, odd[b].1],
+                    period,
+                });
+            }
+        }
+    }
+    out
+}
+
+/// A semi-minor axis for the ellipse with foci f1, f2 that keeps every
+/// other singular point well outside (sum of focal distances at least 1.2
+/// times the major axis); None if even a thin ellipse cannot.
+fn fitting_minor_axis(f1: Complex64, f2: Complex64, others: &[Complex64]) -> Option<f64> {
+    let half = 0.5 * (f2 - f1).norm();
+    let mut minor = half;
+    for _ in 0..12 {
+        let major = (half * half + minor * minor).sqrt();
+        if others
+            .iter()
+            .all(|s| (s - f1).norm() + (s - f2).norm() > 2.4 * major)
+        {
+            return Some(minor);
+        }
+        minor *= 0.5;
+    }
+    None
+}
+
+/// A closed trajectory of the loop's period, if one passes through one of
+/// the trial points around the pair: its polyline (closed up to the
+/// integrator's tolerance).
+pub fn closed_trajectory(
+    curve: &Curve,
+    pair: &PairLoop,
+    settings: &Settings,
+    bounds: Bounds,
+    cancel: &CancelToken,
+) -> Option<Vec<Complex64>> {
+    let period_mass = pair.period.norm();
+    let theta = pair.period.arg();
+    let traj_settings = Settings {
+        reach: period_mass,
+        ..settings.clone()
+    };
+    let ctx = GrowContext {
+        curve,
+        theta,
+        settings: &traj_settings,
+        bounds,
+        cancel,
+    };
+    let scale = curve.length_scale();
+    for p in trial_points(curve, pair) {
+        if cancel.is_cancelled() {
+            return None;
+        }
+        let Ok(roots) = curve.sheets_at(p) else {
+            continue;
+        };
+        let seed = WallSeed {
+            z: p,
+            roots,
+            kind: WallType::new(0, 1),
+            mass: 0.0,
+            origin: Origin::Joint { index: usize::MAX },
+            generation: 0,
+            multiplicity: 1,
+            prefix: Vec::new(),
+        };
+        let wall = grow_wall(&ctx, seed);
+        if wall.end != EndReason::Reach {
+            continue;
+        }
+        let end = wall.points.last()?.z;
+        // Closure to far better than the trial spacing, scaled by the
+        // integrator's tolerance.
+        if (end - p).norm() <= 1e-5 * scale.max(p.norm()) {
+            return Some(wall.points.iter().map(|w| w.z).collect());
+        }
+    }
+    None
+}
+
+/// Points around the pair where a closed trajectory encircling it would
+/// pass: out along the line of the pair beyond each focus and along the
+/// perpendicular bisector, at fractions of the free room in that direction.
+fn trial_points(curve: &Curve, pair: &PairLoop) -> Vec<Complex64> {
+    let [f1, f2] = pair.foci;
+    let u = (f2 - f1) / (f2 - f1).norm();
+    let mid = (f1 + f2) * 0.5;
+    let i = Complex64::new(0.0, 1.0);
+    let starts = [(f2, u), (f1, -u), (mid, i * u), (mid, -i * u)];
+    let mut out = Vec::new();
+    for (base, dir) in starts {
+        let room = room_from(curve, base, &pair.foci);
+        for f in [0.5, 0.25, 0.75] {
+            out.push(base + dir * (f * room));
+        }
+    }
+    out
+}
+
+/// Distance from `base` to the nearest singular point other than the foci
+/// (at most the curve's length scale or twice the pair's separation).
+fn room_from(curve: &Curve, base: Complex64, foci: &[Complex64; 2]) -> f64 {
+    let len = (foci[1] - foci[0]).norm();
+    curve
+        .singular_points
+        .iter()
+        .filter(|s| {
+            foci.iter()
+                .all(|f| (*s - f).norm() > 1e-9 * len.max(1e-300))
+        })
+        .map(|s| (s - base).norm())
+        .fold(curve.length_scale().max(2.0 * len), f64::min)
+}

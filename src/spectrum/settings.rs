@@ -1,0 +1,121 @@
+//! Settings of the spectrum finder, with documented ranges.
+
+use serde::{Deserialize, Serialize};
+
+/// How hard the finder looks, and where it stops.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct SpectrumSettings {
+    /// States with `|Z|` below this are sought. Range (0, 1e6]. Default 8,
+    /// the wall reach of the default network settings.
+    pub reach: f64,
+    /// Phases sampled uniformly in [0, pi) by the scan. Range [8, 100 000].
+    /// Default 64: each sample proposes the exact critical phase of every
+    /// saddle whose wall passes near its far branch point, so the scan only
+    /// has to land in a wide window around each phase, and the charge
+    /// lattice proposes the phases that accumulate.
+    pub theta_samples: usize,
+    /// Integrator tolerance of the scan (relative, see
+    /// [`crate::walls::Settings::tolerance`]). Range [1e-12, 1e-4].
+    /// Default 1e-7: candidates only need a few digits.
+    pub scan_tolerance: f64,
+    /// Integrator tolerance when a candidate is confirmed. Range
+    /// [1e-13, 1e-6]. Default 1e-10.
+    pub tolerance: f64,
+    /// Critical phases are refined until two iterates agree to this (rad).
+    /// Range [1e-14, 1e-4]. Default 1e-10.
+    pub phase_tolerance: f64,
+    /// Integration steps per wall. Range [100, 10^7]. Default 50 000.
+    pub step_budget: usize,
+    /// Most candidates confirmed by re-integration (bounds the work).
+    /// Range [1, 10^6]. Default 2000.
+    pub max_candidates: usize,
+    /// Walls stop outside a square this many times the default network box
+    /// (so saddles that swing wide are still followed). Range [1, 1000].
+    /// Default 4.
+    pub bounds_factor: f64,
+}
+
+impl Default for SpectrumSettings {
+    fn default() -> Self {
+        Self {
+            reach: 8.0,
+            theta_samples: 64,
+            scan_tolerance: 1e-7,
+            tolerance: 1e-10,
+            phase_tolerance: 1e-10,
+            step_budget: 50_000,
+            max_candidates: 2000,
+            bounds_factor: 4.0,
+        }
+    }
+}
+
+impl SpectrumSettings {
+    /// Checks every field against its documented range; each message names
+    /// the field and the range.
+    pub fn validate(&self) -> Result<(), Vec<String>> {
+        let mut errors = Vec::new();
+        let mut check = |ok: bool, msg: String| {
+            if !ok {
+                errors.push(msg);
+            }
+        };
+        let within = |v: f64, lo: f64, hi: f64| v.is_finite() && v >= lo && v <= hi;
+        check(
+            self.reach.is_finite() && self.reach > 0.0 && self.reach <= 1e6,
+            format!("reach must be in (0, 1e6], got {}", self.reach),
+        );
+        check(
+            (8..=100_000).contains(&self.theta_samples),
+            format!(
+                "theta_samples must be in [8, 100000], got {}",
+                self.theta_samples
+            ),
+        );
+        check(
+            within(self.scan_tolerance, 1e-12, 1e-4),
+            format!(
+                "scan_tolerance must be in [1e-12, 1e-4], got {}",
+                self.scan_tolerance
+            ),
+        );
+        check(
+            within(self.tolerance, 1e-13, 1e-6),
+            format!("tolerance must be in [1e-13, 1e-6], got {}", self.tolerance),
+        );
+        check(
+            within(self.phase_tolerance, 1e-14, 1e-4),
+            format!(
+                "phase_tolerance must be in [1e-14, 1e-4], got {}",
+                self.phase_tolerance
+            ),
+        );
+        check(
+            (100..=10_000_000).contains(&self.step_budget),
+            format!(
+                "step_budget must be in [100, 10000000], got {}",
+                self.step_budget
+            ),
+        );
+        check(
+            (1..=1_000_000).contains(&self.max_candidates),
+            format!(
+                "max_candidates must be in [1, 1000000], got {}",
+                self.max_candidates
+            ),
+        );
+        check(
+            within(self.bounds_factor, 1.0, 1000.0),
+            format!(
+                "bounds_factor must be in [1, 1000], got {}",
+                self.bounds_factor
+            ),
+        );
+        if errors.is_empty() {
+            Ok(())
+        } else {
+            Err(errors)
+        }
+    }
+}

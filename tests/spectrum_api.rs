@@ -1,0 +1,64 @@
+//! The spectrum finder's contract at its edges: bad settings give readable
+//! messages, rank 3 says plainly that it is not computed (no guessed
+//! states), and cancellation returns promptly with a partial result.
+
+use num_complex::Complex64;
+use std::collections::BTreeMap;
+use wallflower::algebra::parse_equation;
+use wallflower::spectrum::{find, SpectrumSettings};
+use wallflower::{CancelToken, Curve};
+
+fn curve(text: &str) -> Curve {
+    let eq = parse_equation(text).unwrap();
+    Curve::from_poly_in_y(&eq.evaluate(&BTreeMap::new()).unwrap()).unwrap()
+}
+
+#[test]
+fn invalid_settings_are_reported_not_run() {
+    let settings = SpectrumSettings {
+        reach: -1.0,
+        theta_samples: 2,
+        ..SpectrumSettings::default()
+    };
+    let errors = settings.validate().unwrap_err();
+    assert_eq!(errors.len(), 2, "{errors:?}");
+    assert!(errors[0].contains("reach"));
+    assert!(errors[1].contains("theta_samples"));
+    let spec = find(
+        &curve("y^2 = z^2 - 1"),
+        &settings,
+        &CancelToken::new(),
+        &mut |_| {},
+    );
+    assert!(spec.states.is_empty());
+    assert_eq!(spec.warnings, errors);
+}
+
+#[test]
+fn rank_three_is_declined_with_a_warning() {
+    let spec = find(
+        &curve("y^3 - 3 z y + z^3 - 1 = 0"),
+        &SpectrumSettings::default(),
+        &CancelToken::new(),
+        &mut |_| {},
+    );
+    assert!(spec.states.is_empty());
+    assert!(
+        spec.warnings[0].contains("only computed for rank 2"),
+        "{:?}",
+        spec.warnings
+    );
+}
+
+#[test]
+fn cancelled_before_start_returns_partial_and_says_so() {
+    let cancel = CancelToken::new();
+    cancel.cancel();
+    let c = |re: f64| Complex64::new(re, 0.0);
+    let curve = Curve::from_quadratic(c(1.0), &[c(1.0), c(-1.0), c(0.3)], &[]).unwrap();
+    let t = std::time::Instant::now();
+    let spec = find(&curve, &SpectrumSettings::default(), &cancel, &mut |_| {});
+    assert!(t.elapsed().as_secs_f64() < 1.0);
+    assert!(spec.cancelled);
+    assert!(spec.warnings.iter().any(|w| w.contains("cancelled")));
+}
