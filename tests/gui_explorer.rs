@@ -307,3 +307,52 @@ fn a_loop_drawn_around_a_branch_point_has_trivial_product() {
     assert!(dev < 1e-9, "loop product deviates from 1 by {dev}");
     h.get_by_label_contains("crossings of walls and cuts");
 }
+
+/// Waits for the spectrum worker as well.
+fn wait_for_spectrum(h: &mut Harness<'_, WallflowerApp>) {
+    let start = Instant::now();
+    while h.state().is_spectrum_computing() {
+        assert!(
+            start.elapsed() < Duration::from_secs(60),
+            "no spectrum within 60 s"
+        );
+        std::thread::sleep(Duration::from_millis(10));
+        h.step();
+    }
+    wait_for_worker(h);
+}
+
+#[test]
+fn the_next_critical_phase_key_lands_on_a_saddle() {
+    // |Z| = 2 int_{-1}^{1} sqrt(1 - x^2) dx = pi for the one state
+    // (elementary integral), so the reach must exceed pi.
+    let mut h = harness(Scenario {
+        reach: 5.0,
+        ..two_zeros()
+    });
+    wait_for_spectrum(&mut h);
+    let z_abs = h.state().spectrum.as_ref().unwrap().states[0].abs;
+    assert!((z_abs - std::f64::consts::PI).abs() < 1e-6, "|Z| = {z_abs}");
+    let phases = h.state().critical_phases();
+    // q = z^2 - 1: one hypermultiplet (its two phases half a turn apart).
+    assert_eq!(phases.len(), 2, "{phases:?}");
+    h.key_press(egui::Key::CloseBracket);
+    wait_for_worker(&mut h);
+    let theta = h.state().scenario.phase;
+    assert!(
+        phases.iter().any(|(t, _)| (t - theta).abs() < 1e-12),
+        "phase {theta} is not a critical phase {phases:?}"
+    );
+    // At a critical phase the two branch points are joined by a saddle:
+    // walls from each run into the other.
+    let net = &h.state().shown.as_ref().unwrap().computed.network;
+    let saddles = net
+        .walls
+        .iter()
+        .filter(|w| w.end.code() == "branch_point")
+        .count();
+    assert!(
+        saddles >= 1,
+        "no wall ends on a branch point at theta = {theta}"
+    );
+}

@@ -267,6 +267,7 @@ impl WallflowerApp {
                 let offset = rect.min.to_vec2();
                 for layer in &scene.layers {
                     if layer.name == scene::layer_names::WALLS {
+                        self.paint_selected_web(&painter, &tf);
                         self.paint_selected_wall_halo(&painter, &tf, &colors);
                     }
                     paint::paint_layer(&painter, layer, offset);
@@ -511,6 +512,21 @@ impl WallflowerApp {
             }
         };
         response.clone().on_hover_text_at_pointer(text);
+    }
+
+    /// The finite web of the selected BPS state, drawn wide under the walls.
+    fn paint_selected_web(&self, painter: &egui::Painter, tf: &ScreenTransform) {
+        let Some(Selection::State(i)) = self.selection else {
+            return;
+        };
+        let Some(st) = self.spectrum.as_ref().and_then(|s| s.states.get(i)) else {
+            return;
+        };
+        let color = Color32::from_rgba_unmultiplied(0xE6, 0x9F, 0x00, 150);
+        for piece in &st.web {
+            let pts: Vec<Pos2> = piece.iter().map(|z| tf.to_screen(*z)).collect();
+            painter.add(egui::Shape::line(pts, Stroke::new(8.0, color)));
+        }
     }
 
     fn paint_selected_wall_halo(&self, painter: &egui::Painter, tf: &ScreenTransform, c: &Ink) {

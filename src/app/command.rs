@@ -25,6 +25,8 @@ pub enum Selection {
     Point(PointRef),
     /// A branch point of a curve typed as an equation (not editable).
     BranchPoint(usize),
+    /// A BPS state of the spectrum (its web is drawn on the canvas).
+    State(usize),
 }
 
 #[derive(Clone, Debug, PartialEq)]

@@ -9,6 +9,7 @@ use super::worker::{Computed, Worker};
 use super::AppOptions;
 use crate::algebra::parse::parse_equation;
 use crate::scenario::{Pole, Quadratic, Scenario, Theme, View};
+use crate::spectrum::Spectrum;
 use eframe::egui;
 use std::path::PathBuf;
 use std::sync::{Arc, Mutex};
@@ -120,7 +121,15 @@ pub struct WallflowerApp {
     /// The part of the plane shown (saved into the scenario on save).
     pub view: View,
     pub(super) history: History,
-    worker: Worker,
+    worker: Worker<Computed>,
+    spectrum_worker: Worker<Spectrum>,
+    spectrum_generation: u64,
+    spectrum_submitted: Option<Scenario>,
+    spectrum_received: u64,
+    /// The newest BPS spectrum of the curve (phase-independent).
+    pub spectrum: Option<Arc<Spectrum>>,
+    pub spectrum_ms: f64,
+    pub spectrum_error: Option<String>,
     generation: u64,
     /// The engine input of the last job sent.
     submitted: Option<Scenario>,
@@ -219,7 +228,14 @@ impl WallflowerApp {
             saved: scenario.clone(),
             scenario,
             history: History::default(),
-            worker: Worker::spawn(),
+            worker: Worker::spawn("wallflower-network", super::worker::compute),
+            spectrum_worker: Worker::spawn("wallflower-spectrum", super::worker::compute_spectrum),
+            spectrum_generation: 0,
+            spectrum_submitted: None,
+            spectrum_received: 0,
+            spectrum: None,
+            spectrum_ms: 0.0,
+            spectrum_error: None,
             generation: 0,
             submitted: None,
             received_generation: 0,
@@ -297,6 +313,7 @@ impl WallflowerApp {
         let start = Instant::now();
         let ctx = ui.ctx().clone();
         self.worker.set_context(&ctx);
+        self.spectrum_worker.set_context(&ctx);
         // The chrome follows the canvas theme: light for paper, dark for
         // the projector.
         let want = match self.scenario.theme {
@@ -343,6 +360,25 @@ impl WallflowerApp {
     }
 
     fn receive_results(&mut self) {
+        for r in self.spectrum_worker.poll() {
+            if r.generation < self.spectrum_received {
+                continue;
+            }
+            self.spectrum_received = r.generation;
+            self.spectrum_ms = r.compute_ms;
+            match r.outcome {
+                Ok(s) => {
+                    if let Some(Selection::State(i)) = self.selection {
+                        if i >= s.states.len() {
+                            self.selection = None;
+                        }
+                    }
+                    self.spectrum = Some(s);
+                    self.spectrum_error = None;
+                }
+                Err(e) => self.spectrum_error = Some(e),
+            }
+        }
         for r in self.worker.poll() {
             if r.generation < self.received_generation {
                 continue;
@@ -372,8 +408,65 @@ impl WallflowerApp {
         }
     }
 
-    /// Sends the scenario to the worker when its engine input changed.
+    /// True while the spectrum of the current curve is not known yet.
+    pub fn is_spectrum_computing(&self) -> bool {
+        self.spectrum_received < self.spectrum_generation
+            || self.spectrum_submitted.as_ref() != Some(&spectrum_input(&self.scenario))
+    }
+
+    /// Critical phases in [0, 2 pi) with the state they belong to: each
+    /// state's web appears at its phase and, with types reversed, half a
+    /// turn later.
+    pub fn critical_phases(&self) -> Vec<(f64, usize)> {
+        let Some(s) = &self.spectrum else {
+            return Vec::new();
+        };
+        let mut out: Vec<(f64, usize)> = s
+            .states
+            .iter()
+            .enumerate()
+            .flat_map(|(i, st)| {
+                let t = st.phase.rem_euclid(std::f64::consts::PI);
+                [(t, i), (t + std::f64::consts::PI, i)]
+            })
+            .collect();
+        out.sort_by(|a, b| a.0.total_cmp(&b.0));
+        out
+    }
+
+    /// The nearest critical phase after (or before) the current one, going
+    /// round the circle.
+    pub fn next_critical_phase(&self, forward: bool) -> Option<f64> {
+        let phases = self.critical_phases();
+        let now = self.scenario.phase;
+        let eps = 1e-9;
+        if forward {
+            phases
+                .iter()
+                .map(|p| p.0)
+                .find(|t| *t > now + eps)
+                .or_else(|| phases.first().map(|p| p.0))
+        } else {
+            phases
+                .iter()
+                .rev()
+                .map(|p| p.0)
+                .find(|t| *t < now - eps)
+                .or_else(|| phases.last().map(|p| p.0))
+        }
+    }
+
+    /// Sends the scenario to the workers when their inputs changed.
     fn sync_worker(&mut self) {
+        // The spectrum does not depend on the phase, and is not worth
+        // computing in the middle of a drag.
+        let sinput = spectrum_input(&self.scenario);
+        if self.spectrum_submitted.as_ref() != Some(&sinput) && !self.continuous {
+            self.spectrum_generation += 1;
+            self.spectrum_worker
+                .submit(self.spectrum_generation, sinput.clone(), true);
+            self.spectrum_submitted = Some(sinput);
+        }
         let input = engine_input(&self.scenario);
         if self.submitted.as_ref() == Some(&input) {
             return;
@@ -443,6 +536,16 @@ impl WallflowerApp {
             }
             if i.consume_key(egui::Modifiers::NONE, egui::Key::ArrowLeft) {
                 out.push(Command::SetPhase(self.scenario.phase - fine));
+            }
+            if i.consume_key(egui::Modifiers::NONE, egui::Key::CloseBracket) {
+                if let Some(t) = self.next_critical_phase(true) {
+                    out.push(Command::SetPhase(t));
+                }
+            }
+            if i.consume_key(egui::Modifiers::NONE, egui::Key::OpenBracket) {
+                if let Some(t) = self.next_critical_phase(false) {
+                    out.push(Command::SetPhase(t));
+                }
             }
             if i.consume_key(egui::Modifiers::NONE, egui::Key::Space) {
                 self.playing = !self.playing;
@@ -780,6 +883,14 @@ pub fn engine_input(s: &Scenario) -> Scenario {
         theme: Theme::Paper,
         notes: String::new(),
         ..s.clone()
+    }
+}
+
+/// The part of a scenario the spectrum depends on.
+fn spectrum_input(s: &Scenario) -> Scenario {
+    Scenario {
+        phase: 0.0,
+        ..engine_input(s)
     }
 }
 

@@ -32,6 +32,7 @@ impl WallflowerApp {
                 egui::CollapsingHeader::new(format!("Walls ({})", net.walls.len()))
                     .default_open(true)
                     .show(ui, |ui| self.walls_table(ui, &net.walls));
+                self.states_section(ui);
                 egui::CollapsingHeader::new(format!("Joints ({})", net.joints.len()))
                     .default_open(true)
                     .show(ui, |ui| {
@@ -173,6 +174,49 @@ impl WallflowerApp {
                 ui.ctx().copy_text(jump::matrix_as_latex(&m));
             }
         });
+    }
+
+    fn states_section(&mut self, ui: &mut egui::Ui) {
+        let Some(spectrum) = self.spectrum.clone() else {
+            return;
+        };
+        egui::CollapsingHeader::new(format!("BPS states ({})", spectrum.states.len()))
+            .default_open(true)
+            .show(ui, |ui| {
+                if spectrum.states.is_empty() {
+                    ui.label(RichText::new(format!("none with |Z| < {}", spectrum.reach)).weak());
+                }
+                let selected = match self.selection {
+                    Some(Selection::State(i)) => Some(i),
+                    _ => None,
+                };
+                ui.style_mut().wrap_mode = Some(egui::TextWrapMode::Extend);
+                for (i, st) in spectrum.states.iter().enumerate() {
+                    let kind = match st.kind {
+                        crate::spectrum::Kind::Hyper => "hyper",
+                        crate::spectrum::Kind::Vector => "vector",
+                        crate::spectrum::Kind::Other => "other",
+                    };
+                    let text = format!(
+                        "{:<3} {:<6} \u{3a9}={:<3} |Z|={:>8.4}  \u{3b8}={:>7.2}\u{b0}",
+                        i + 1,
+                        kind,
+                        st.omega.map_or("?".into(), |o| o.to_string()),
+                        st.abs,
+                        st.phase.to_degrees()
+                    );
+                    let r = ui
+                        .selectable_label(selected == Some(i), RichText::new(text).monospace())
+                        .on_hover_text(format!(
+                            "Z = {:.6}{:+.6}i (error {:.1e})\nclick: go to its critical phase and show its web",
+                            st.z.re, st.z.im, st.z_error
+                        ));
+                    if r.clicked() {
+                        self.commands.push(Command::SetPhase(st.phase));
+                        self.commands.push(Command::Select(Some(Selection::State(i))));
+                    }
+                }
+            });
     }
 
     fn walls_table(&mut self, ui: &mut egui::Ui, walls: &[Wall]) {

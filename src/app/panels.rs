@@ -116,11 +116,36 @@ impl WallflowerApp {
     fn phase_control(&mut self, ui: &mut egui::Ui) {
         let mut theta = self.scenario.phase;
         let l = ui.label("Phase \u{3b8}");
-        let width = (ui.available_width() - 430.0).max(160.0);
+        let width = (ui.available_width() - 470.0).max(160.0);
         ui.spacing_mut().slider_width = width;
         let r = ui
+            .add(egui::Slider::new(&mut theta, 0.0..=TAU).show_value(false))
+            .labelled_by(l.id);
+        self.phase_dragging = r.dragged();
+        let ticks = self.paint_phase_ticks(ui, &r);
+        let mut snapped = false;
+        if r.clicked() {
+            // A click near a tick jumps exactly to that critical phase.
+            if let Some(x) = r.interact_pointer_pos().map(|p| p.x) {
+                if let Some((t, _)) = ticks
+                    .iter()
+                    .filter(|(_, tx)| (tx - x).abs() <= 5.0)
+                    .min_by(|a, b| (a.1 - x).abs().total_cmp(&(b.1 - x).abs()))
+                {
+                    self.commands.push(Command::SetPhase(*t));
+                    snapped = true;
+                }
+            }
+        }
+        if r.changed() && !snapped {
+            self.commands.push(Command::SetPhase(theta));
+        }
+        let mut typed = self.scenario.phase;
+        let v = ui
             .add(
-                egui::Slider::new(&mut theta, 0.0..=TAU)
+                egui::DragValue::new(&mut typed)
+                    .range(0.0..=TAU)
+                    .speed(0.002)
                     .custom_formatter(|v, _| format!("{v:.4} rad = {:.2}\u{b0}", v.to_degrees()))
                     .custom_parser(|s| {
                         let s = s.trim();
@@ -130,10 +155,9 @@ impl WallflowerApp {
                             .or_else(|| s.trim_end_matches("rad").trim().parse().ok())
                     }),
             )
-            .labelled_by(l.id);
-        self.phase_dragging = r.dragged();
-        if r.changed() {
-            self.commands.push(Command::SetPhase(theta));
+            .on_hover_text("phase; type a value in radians, or in degrees ending in \u{b0}");
+        if v.changed() {
+            self.commands.push(Command::SetPhase(typed));
         }
         let fine = FINE_STEP_DEG.to_radians();
         if ui
@@ -167,6 +191,55 @@ impl WallflowerApp {
         ui.checkbox(&mut self.looping, "Loop");
     }
 
+    /// Ticks on the phase slider at the critical phases of the spectrum;
+    /// hovering one names its state. Returns (phase, x) of every tick.
+    fn paint_phase_ticks(&self, ui: &egui::Ui, slider: &egui::Response) -> Vec<(f64, f32)> {
+        let rect = slider.rect;
+        let handle = rect.height() / 2.5;
+        let (x0, x1) = (rect.left() + handle, rect.right() - handle);
+        let Some(spectrum) = &self.spectrum else {
+            return Vec::new();
+        };
+        let color = Color32::from_rgb(0xD5, 0x5E, 0x00);
+        let painter = ui.painter();
+        let mut out = Vec::new();
+        for (t, idx) in self.critical_phases() {
+            let x = x0 + (x1 - x0) * (t / TAU) as f32;
+            painter.line_segment(
+                [
+                    egui::pos2(x, rect.top() - 1.0),
+                    egui::pos2(x, rect.top() + 4.0),
+                ],
+                egui::Stroke::new(2.0, color),
+            );
+            painter.line_segment(
+                [
+                    egui::pos2(x, rect.bottom() - 4.0),
+                    egui::pos2(x, rect.bottom() + 1.0),
+                ],
+                egui::Stroke::new(2.0, color),
+            );
+            out.push((t, x));
+            if let Some(p) = slider.hover_pos() {
+                if (p.x - x).abs() <= 5.0 {
+                    let st = &spectrum.states[idx];
+                    slider.clone().on_hover_text_at_pointer(format!(
+                        "critical phase {:.4} rad = {:.2}\u{b0}\n{} state {}, \u{3a9} = {}\nZ = {:.4}{:+.4}i, |Z| = {:.4}\nclick to jump here; [ and ] step between them",
+                        t,
+                        t.to_degrees(),
+                        kind_name(st.kind),
+                        idx + 1,
+                        st.omega.map_or("?".to_string(), |o| o.to_string()),
+                        st.z.re,
+                        st.z.im,
+                        st.abs
+                    ));
+                }
+            }
+        }
+        out
+    }
+
     fn status_line(&mut self, ui: &mut egui::Ui) {
         if self.is_computing() {
             ui.add(egui::Spinner::new().size(12.0));
@@ -197,15 +270,37 @@ impl WallflowerApp {
                     .map(|w| w.message.as_str())
                     .collect::<Vec<_>>()
                     .join("\n");
+                let first: String = net.warnings[0].message.chars().take(48).collect();
+                let cut = if net.warnings[0].message.chars().count() > 48 {
+                    "\u{2026}"
+                } else {
+                    ""
+                };
                 ui.label(
                     RichText::new(format!(
-                        "{n} warning{}: {}",
+                        "{n} warning{}: {first}{cut}",
                         if n == 1 { "" } else { "s" },
-                        net.warnings[0].message
                     ))
                     .color(ui.visuals().warn_fg_color),
                 )
                 .on_hover_text(text);
+            }
+        }
+        ui.separator();
+        if self.is_spectrum_computing() {
+            ui.label("spectrum: computing");
+        } else if let Some(e) = &self.spectrum_error {
+            ui.label(RichText::new(format!("spectrum: {e}")).color(error_color(ui)));
+        } else if let Some(s) = &self.spectrum {
+            let r = ui.label(format!(
+                "spectrum: {} BPS state{} with |Z| < {} ({:.0} ms)",
+                s.states.len(),
+                if s.states.len() == 1 { "" } else { "s" },
+                s.reach,
+                self.spectrum_ms
+            ));
+            if !s.warnings.is_empty() {
+                r.on_hover_text(s.warnings.join("\n"));
             }
         }
         if let Some(e) = &self.compute_error {
@@ -455,6 +550,14 @@ impl WallflowerApp {
                 }
             });
         }
+    }
+}
+
+pub fn kind_name(kind: crate::spectrum::Kind) -> &'static str {
+    match kind {
+        crate::spectrum::Kind::Hyper => "hypermultiplet",
+        crate::spectrum::Kind::Vector => "vector multiplet",
+        crate::spectrum::Kind::Other => "other",
     }
 }
 

@@ -1,6 +1,7 @@
-//! The background worker: one named thread owns all engine work for the
-//! window. The UI sends `(generation, scenario snapshot)` jobs and never
-//! waits; it polls finished results once per frame.
+//! Background workers: named threads own all engine work for the window
+//! (one for the network at the current phase, one for the BPS spectrum).
+//! The UI sends `(generation, scenario snapshot)` jobs and never waits; it
+//! polls finished results once per frame.
 //!
 //! Stale work is cancelled through the job's [`CancelToken`], which the
 //! integrator checks inside its loops. When several jobs are queued the
@@ -10,6 +11,7 @@ use crate::cancel::CancelToken;
 use crate::curve::Curve;
 use crate::network::Network;
 use crate::scenario::Scenario;
+use crate::spectrum::{Spectrum, SpectrumSettings};
 use eframe::egui;
 use std::sync::mpsc::{self, Receiver, Sender};
 use std::sync::{Arc, Mutex};
@@ -31,19 +33,22 @@ pub struct Computed {
 }
 
 /// A finished job. Cancelled jobs send nothing.
-pub struct JobResult {
+pub struct JobResult<T> {
     pub generation: u64,
-    /// The network, or a readable message saying why the scenario could
+    /// The answer, or a readable message saying why the scenario could
     /// not be computed (a bad equation, a degenerate curve, bad settings).
-    pub outcome: Result<Arc<Computed>, String>,
+    pub outcome: Result<Arc<T>, String>,
     pub compute_ms: f64,
 }
 
+/// The work a worker does for one scenario.
+pub type ComputeFn<T> = fn(&Scenario, &CancelToken) -> Result<Arc<T>, String>;
+
 /// Handle to the worker thread. Dropping it cancels the running job,
 /// closes the channel and joins the thread.
-pub struct Worker {
+pub struct Worker<T> {
     jobs: Option<Sender<Job>>,
-    results: Receiver<JobResult>,
+    results: Receiver<JobResult<T>>,
     thread: Option<JoinHandle<()>>,
     /// The context to wake when a result is ready; set on the first frame
     /// (the app is built before the window's context exists in tests).
@@ -51,15 +56,16 @@ pub struct Worker {
     in_flight: Option<CancelToken>,
 }
 
-impl Worker {
-    pub fn spawn() -> Self {
+impl<T: Send + Sync + 'static> Worker<T> {
+    /// A thread named `name` that runs `compute` on each job.
+    pub fn spawn(name: &str, compute: ComputeFn<T>) -> Self {
         let (job_tx, job_rx) = mpsc::channel::<Job>();
-        let (res_tx, res_rx) = mpsc::channel::<JobResult>();
+        let (res_tx, res_rx) = mpsc::channel::<JobResult<T>>();
         let repaint: Arc<Mutex<Option<egui::Context>>> = Arc::new(Mutex::new(None));
         let repaint_in_thread = Arc::clone(&repaint);
         let thread = std::thread::Builder::new()
-            .name("wallflower-worker".into())
-            .spawn(move || worker_loop(&job_rx, &res_tx, &repaint_in_thread))
+            .name(name.into())
+            .spawn(move || worker_loop(&job_rx, &res_tx, &repaint_in_thread, compute))
             .ok();
         Self {
             jobs: Some(job_tx),
@@ -101,7 +107,7 @@ impl Worker {
     }
 
     /// The finished results since the last call, oldest first.
-    pub fn poll(&mut self) -> Vec<JobResult> {
+    pub fn poll(&mut self) -> Vec<JobResult<T>> {
         let mut out = Vec::new();
         while let Ok(r) = self.results.try_recv() {
             out.push(r);
@@ -110,7 +116,7 @@ impl Worker {
     }
 }
 
-impl Drop for Worker {
+impl<T> Drop for Worker<T> {
     fn drop(&mut self) {
         if let Some(token) = self.in_flight.take() {
             token.cancel();
@@ -122,10 +128,11 @@ impl Drop for Worker {
     }
 }
 
-fn worker_loop(
+fn worker_loop<T>(
     jobs: &Receiver<Job>,
-    results: &Sender<JobResult>,
+    results: &Sender<JobResult<T>>,
     repaint: &Arc<Mutex<Option<egui::Context>>>,
+    compute: ComputeFn<T>,
 ) {
     while let Ok(mut job) = jobs.recv() {
         // Skip to the newest queued job: older ones are stale.
@@ -159,10 +166,25 @@ fn worker_loop(
     }
 }
 
-/// The engine work for one scenario, on the worker thread.
+/// The network of a scenario at its phase, on the network worker.
 pub fn compute(scenario: &Scenario, cancel: &CancelToken) -> Result<Arc<Computed>, String> {
     let curve = scenario.build_curve().map_err(|e| e.to_string())?;
     let settings = scenario.settings().map_err(|e| e.to_string())?;
     let network = crate::network::compute(&curve, scenario.phase, &settings, cancel);
     Ok(Arc::new(Computed { curve, network }))
+}
+
+/// The BPS states of a scenario's curve up to its reach, on the spectrum
+/// worker (rank 2 only; other ranks give an empty spectrum with a warning).
+pub fn compute_spectrum(
+    scenario: &Scenario,
+    cancel: &CancelToken,
+) -> Result<Arc<Spectrum>, String> {
+    let curve = scenario.build_curve().map_err(|e| e.to_string())?;
+    let settings = SpectrumSettings {
+        reach: scenario.reach,
+        ..SpectrumSettings::default()
+    };
+    let spectrum = crate::spectrum::find(&curve, &settings, cancel, &mut |_| {});
+    Ok(Arc::new(spectrum))
 }
