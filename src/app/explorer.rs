@@ -834,7 +834,7 @@ impl WallflowerApp {
     }
 
     fn screenshot_step(&mut self, ctx: &egui::Context) {
-        let ready = !self.is_computing() && self.shown.is_some();
+        let ready = !self.is_computing() && !self.is_spectrum_computing() && self.shown.is_some();
         let Some(job) = &mut self.screenshot else {
             return;
         };
