@@ -176,3 +176,63 @@ fn delete_key_removes_the_selected_branch_point() {
         3
     );
 }
+
+#[test]
+fn export_writes_the_shared_scene_as_svg_and_png() {
+    let dir = temp_dir("export");
+    let mut h = harness_with(WallflowerApp::with_scenario(
+        two_zeros(),
+        None,
+        &AppOptions::default(),
+    ));
+    wait_for_worker(&mut h);
+    for name in ["fig.svg", "fig.png"] {
+        let path = dir.join(name);
+        h.state_mut().export_path = path.display().to_string();
+        h.state_mut().export_size = [640, 480];
+        h.get_by_label("Export").click();
+        h.run_steps(2);
+        assert!(
+            h.state()
+                .file_message
+                .as_deref()
+                .unwrap_or("")
+                .starts_with("exported"),
+            "{:?}",
+            h.state().file_message
+        );
+        assert!(path.exists());
+    }
+    let svg = std::fs::read_to_string(dir.join("fig.svg")).unwrap();
+    assert!(
+        svg.contains("<svg") && svg.contains("walls"),
+        "an SVG with a walls layer"
+    );
+    let png = resvg::tiny_skia::Pixmap::load_png(dir.join("fig.png")).unwrap();
+    assert_eq!((png.width(), png.height()), (640, 480));
+    // The SVG is exactly what the shared writer makes of the shared scene.
+    let app = h.state();
+    let shown = app.shown.as_ref().unwrap();
+    let opts = wallflower::scene::SceneOptions::new(
+        wallflower::scene::Transform {
+            center: app.view.center,
+            half_width: app.view.half_width,
+            width: 640.0,
+            height: 480.0,
+        },
+        app.export_theme,
+    );
+    let scene = wallflower::scene::build(&shown.computed.curve, &shown.computed.network, &opts);
+    assert_eq!(svg, wallflower::export::to_svg(&scene));
+
+    h.state_mut().export_path = dir.join("fig.txt").display().to_string();
+    h.get_by_label("Export").click();
+    h.run_steps(2);
+    assert!(h
+        .state()
+        .file_message
+        .as_deref()
+        .unwrap()
+        .contains(".svg or .png"));
+    std::fs::remove_dir_all(&dir).unwrap();
+}

@@ -143,7 +143,21 @@ fn worker_loop<T>(
             continue;
         }
         let start = Instant::now();
-        let outcome = compute(&job.scenario, &job.cancel);
+        // An engine panic must not leave the window saying "computing"
+        // forever: it becomes an error message and the thread lives on.
+        let outcome = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
+            compute(&job.scenario, &job.cancel)
+        }))
+        .unwrap_or_else(|payload| {
+            let why = payload
+                .downcast_ref::<&str>()
+                .map(|s| (*s).to_string())
+                .or_else(|| payload.downcast_ref::<String>().cloned())
+                .unwrap_or_else(|| "unknown cause".into());
+            Err(format!(
+                "internal error in the engine ({why}); please report this scenario"
+            ))
+        });
         let compute_ms = start.elapsed().as_secs_f64() * 1e3;
         if job.cancel.is_cancelled() {
             continue;
