@@ -1,0 +1,53 @@
+//! Export from the window: SVG or PNG of the shown network, through the
+//! same scene builder and writers as the command line's `draw`. The view
+//! is the canvas's (same centre, same width in z), at the chosen size and
+//! theme.
+
+use super::explorer::WallflowerApp;
+use crate::scene::{self, SceneOptions, Transform};
+use anyhow::Context as _;
+use std::path::Path;
+
+/// The scene an export of the current view would contain.
+pub fn export_scene(app: &WallflowerApp) -> anyhow::Result<crate::scene::Scene> {
+    let shown = app
+        .shown
+        .as_ref()
+        .context("nothing to export yet: the network is still computing")?;
+    let [w, h] = app.export_size;
+    let transform = Transform {
+        center: app.view.center,
+        half_width: app.view.half_width,
+        width: w as f32,
+        height: h as f32,
+    };
+    let opts = SceneOptions {
+        wall_labels: app.show_labels,
+        ..SceneOptions::new(transform, app.export_theme)
+    };
+    Ok(scene::build(
+        &shown.computed.curve,
+        &shown.computed.network,
+        &opts,
+    ))
+}
+
+/// Writes `path` as SVG or PNG, by its extension (atomically).
+pub fn export(app: &WallflowerApp, path: &Path) -> anyhow::Result<()> {
+    let ext = path
+        .extension()
+        .map(|e| e.to_string_lossy().to_ascii_lowercase())
+        .unwrap_or_default();
+    let scene = export_scene(app)?;
+    match ext.as_str() {
+        "svg" => super::files::atomic_write(path, &crate::export::to_svg(&scene)),
+        "png" => {
+            let bytes = crate::export::to_png(&scene)?;
+            super::files::atomic_write_bytes(path, &bytes)
+        }
+        _ => anyhow::bail!(
+            "export needs a file name ending in .svg or .png, got {}",
+            path.display()
+        ),
+    }
+}

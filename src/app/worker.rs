@@ -1,0 +1,204 @@
+//! Background workers: named threads own all engine work for the window
+//! (one for the network at the current phase, one for the BPS spectrum).
+//! The UI sends `(generation, scenario snapshot)` jobs and never waits; it
+//! polls finished results once per frame.
+//!
+//! Stale work is cancelled through the job's [`CancelToken`], which the
+//! integrator checks inside its loops. When several jobs are queued the
+//! worker skips to the newest one.
+
+use crate::cancel::CancelToken;
+use crate::curve::Curve;
+use crate::network::Network;
+use crate::scenario::Scenario;
+use crate::spectrum::{Spectrum, SpectrumSettings};
+use eframe::egui;
+use std::sync::mpsc::{self, Receiver, Sender};
+use std::sync::{Arc, Mutex};
+use std::thread::JoinHandle;
+use std::time::Instant;
+
+/// A request for the network of one scenario.
+pub struct Job {
+    pub generation: u64,
+    pub scenario: Scenario,
+    pub cancel: CancelToken,
+}
+
+/// What the engine made of a scenario.
+#[derive(Clone, Debug)]
+pub struct Computed {
+    pub curve: Curve,
+    pub network: Network,
+}
+
+/// A finished job. Cancelled jobs send nothing.
+pub struct JobResult<T> {
+    pub generation: u64,
+    /// The answer, or a readable message saying why the scenario could
+    /// not be computed (a bad equation, a degenerate curve, bad settings).
+    pub outcome: Result<Arc<T>, String>,
+    pub compute_ms: f64,
+}
+
+/// The work a worker does for one scenario.
+pub type ComputeFn<T> = fn(&Scenario, &CancelToken) -> Result<Arc<T>, String>;
+
+/// Handle to the worker thread. Dropping it cancels the running job,
+/// closes the channel and joins the thread.
+pub struct Worker<T> {
+    jobs: Option<Sender<Job>>,
+    results: Receiver<JobResult<T>>,
+    thread: Option<JoinHandle<()>>,
+    /// The context to wake when a result is ready; set on the first frame
+    /// (the app is built before the window's context exists in tests).
+    repaint: Arc<Mutex<Option<egui::Context>>>,
+    in_flight: Option<CancelToken>,
+}
+
+impl<T: Send + Sync + 'static> Worker<T> {
+    /// A thread named `name` that runs `compute` on each job.
+    pub fn spawn(name: &str, compute: ComputeFn<T>) -> Self {
+        let (job_tx, job_rx) = mpsc::channel::<Job>();
+        let (res_tx, res_rx) = mpsc::channel::<JobResult<T>>();
+        let repaint: Arc<Mutex<Option<egui::Context>>> = Arc::new(Mutex::new(None));
+        let repaint_in_thread = Arc::clone(&repaint);
+        let thread = std::thread::Builder::new()
+            .name(name.into())
+            .spawn(move || worker_loop(&job_rx, &res_tx, &repaint_in_thread, compute))
+            .ok();
+        Self {
+            jobs: Some(job_tx),
+            results: res_rx,
+            thread,
+            repaint,
+            in_flight: None,
+        }
+    }
+
+    /// Tells the worker which context to wake after each result.
+    pub fn set_context(&self, ctx: &egui::Context) {
+        if let Ok(mut slot) = self.repaint.lock() {
+            if slot.is_none() {
+                *slot = Some(ctx.clone());
+            }
+        }
+    }
+
+    /// Queues a job; with `cancel_running` the job being computed (if any)
+    /// is told to stop, because its answer is no longer wanted.
+    pub fn submit(&mut self, generation: u64, scenario: Scenario, cancel_running: bool) {
+        if cancel_running {
+            if let Some(token) = self.in_flight.take() {
+                token.cancel();
+            }
+        }
+        let cancel = CancelToken::new();
+        self.in_flight = Some(cancel.clone());
+        if let Some(tx) = &self.jobs {
+            // A send error means the thread is gone; the status bar then
+            // keeps saying "computing", which is the honest answer.
+            let _ = tx.send(Job {
+                generation,
+                scenario,
+                cancel,
+            });
+        }
+    }
+
+    /// The finished results since the last call, oldest first.
+    pub fn poll(&mut self) -> Vec<JobResult<T>> {
+        let mut out = Vec::new();
+        while let Ok(r) = self.results.try_recv() {
+            out.push(r);
+        }
+        out
+    }
+}
+
+impl<T> Drop for Worker<T> {
+    fn drop(&mut self) {
+        if let Some(token) = self.in_flight.take() {
+            token.cancel();
+        }
+        self.jobs = None;
+        if let Some(t) = self.thread.take() {
+            let _ = t.join();
+        }
+    }
+}
+
+fn worker_loop<T>(
+    jobs: &Receiver<Job>,
+    results: &Sender<JobResult<T>>,
+    repaint: &Arc<Mutex<Option<egui::Context>>>,
+    compute: ComputeFn<T>,
+) {
+    while let Ok(mut job) = jobs.recv() {
+        // Skip to the newest queued job: older ones are stale.
+        while let Ok(newer) = jobs.try_recv() {
+            job = newer;
+        }
+        if job.cancel.is_cancelled() {
+            continue;
+        }
+        let start = Instant::now();
+        // An engine panic must not leave the window saying "computing"
+        // forever: it becomes an error message and the thread lives on.
+        let outcome = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
+            compute(&job.scenario, &job.cancel)
+        }))
+        .unwrap_or_else(|payload| {
+            let why = payload
+                .downcast_ref::<&str>()
+                .map(|s| (*s).to_string())
+                .or_else(|| payload.downcast_ref::<String>().cloned())
+                .unwrap_or_else(|| "unknown cause".into());
+            Err(format!(
+                "internal error in the engine ({why}); please report this scenario"
+            ))
+        });
+        let compute_ms = start.elapsed().as_secs_f64() * 1e3;
+        if job.cancel.is_cancelled() {
+            continue;
+        }
+        if results
+            .send(JobResult {
+                generation: job.generation,
+                outcome,
+                compute_ms,
+            })
+            .is_err()
+        {
+            return;
+        }
+        if let Ok(slot) = repaint.lock() {
+            if let Some(ctx) = slot.as_ref() {
+                ctx.request_repaint();
+            }
+        }
+    }
+}
+
+/// The network of a scenario at its phase, on the network worker.
+pub fn compute(scenario: &Scenario, cancel: &CancelToken) -> Result<Arc<Computed>, String> {
+    let curve = scenario.build_curve().map_err(|e| e.to_string())?;
+    let settings = scenario.settings().map_err(|e| e.to_string())?;
+    let network = crate::network::compute(&curve, scenario.phase, &settings, cancel);
+    Ok(Arc::new(Computed { curve, network }))
+}
+
+/// The BPS states of a scenario's curve up to its reach, on the spectrum
+/// worker (rank 2 only; other ranks give an empty spectrum with a warning).
+pub fn compute_spectrum(
+    scenario: &Scenario,
+    cancel: &CancelToken,
+) -> Result<Arc<Spectrum>, String> {
+    let curve = scenario.build_curve().map_err(|e| e.to_string())?;
+    let settings = SpectrumSettings {
+        reach: scenario.reach,
+        ..SpectrumSettings::default()
+    };
+    let spectrum = crate::spectrum::find(&curve, &settings, cancel, &mut |_| {});
+    Ok(Arc::new(spectrum))
+}

@@ -1,0 +1,238 @@
+//! Scenario files from the window: save and open round trip, the
+//! unsaved-changes mark in the title, the recovery file offered at the next
+//! start, and deleting a point with the keyboard.
+#![cfg(feature = "gui")]
+
+use eframe::egui;
+use egui_kittest::kittest::Queryable;
+use egui_kittest::Harness;
+use num_complex::Complex64;
+use std::path::PathBuf;
+use std::time::{Duration, Instant};
+use wallflower::app::{AppOptions, WallflowerApp};
+use wallflower::scenario::{Quadratic, Scenario};
+
+fn temp_dir(name: &str) -> PathBuf {
+    let d = std::env::temp_dir().join(format!("wallflower-{name}-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&d);
+    std::fs::create_dir_all(&d).unwrap();
+    d
+}
+
+fn harness_with(app: WallflowerApp) -> Harness<'static, WallflowerApp> {
+    Harness::builder()
+        .with_size([1400.0, 880.0])
+        .build_ui_state(|ui, app: &mut WallflowerApp| app.ui(ui), app)
+}
+
+fn wait_for_worker(h: &mut Harness<'_, WallflowerApp>) {
+    let start = Instant::now();
+    h.step();
+    while h.state().is_computing() {
+        assert!(
+            start.elapsed() < Duration::from_secs(30),
+            "worker timed out"
+        );
+        std::thread::sleep(Duration::from_millis(5));
+        h.step();
+    }
+    h.run_steps(3);
+}
+
+fn two_zeros() -> Scenario {
+    Scenario {
+        title: "two zeros".into(),
+        quadratic: Some(Quadratic {
+            prefactor: [1.0, 0.0],
+            zeros: vec![[-1.0, 0.0], [1.0, 0.0]],
+            poles: vec![],
+        }),
+        phase: 0.3,
+        reach: 3.0,
+        ..Scenario::default()
+    }
+}
+
+fn click_at(h: &mut Harness<'_, WallflowerApp>, z: Complex64) {
+    let pos = h.state().transform.unwrap().to_screen(z);
+    h.hover_at(pos);
+    h.step();
+    for pressed in [true, false] {
+        h.event(egui::Event::PointerButton {
+            pos,
+            button: egui::PointerButton::Primary,
+            pressed,
+            modifiers: egui::Modifiers::NONE,
+        });
+        h.step();
+    }
+}
+
+#[test]
+fn save_then_open_round_trips_and_marks_unsaved_edits() {
+    let dir = temp_dir("save");
+    let file = dir.join("two.ron");
+    let app = WallflowerApp::with_scenario(two_zeros(), None, &AppOptions::default());
+    let mut h = harness_with(app);
+    wait_for_worker(&mut h);
+    h.state_mut().path_field = file.display().to_string();
+    h.get_by_label("Save as").click();
+    h.run_steps(2);
+    assert!(
+        h.state().title().starts_with("two.ron"),
+        "{}",
+        h.state().title()
+    );
+    let saved = Scenario::from_ron(&std::fs::read_to_string(&file).unwrap()).unwrap();
+    assert_eq!(saved.quadratic, two_zeros().quadratic);
+    // No temporary file is left beside it.
+    assert_eq!(std::fs::read_dir(&dir).unwrap().count(), 1);
+
+    h.get_by_label("Add branch point").click();
+    h.step();
+    click_at(&mut h, Complex64::new(0.0, 1.0));
+    h.run_steps(2);
+    assert!(h.state().is_dirty());
+    assert!(
+        h.state().title().starts_with("* two.ron"),
+        "{}",
+        h.state().title()
+    );
+
+    h.get_by_label("Open").click();
+    wait_for_worker(&mut h);
+    assert_eq!(h.state().scenario.quadratic, two_zeros().quadratic);
+    assert!(!h.state().is_dirty());
+    assert_eq!(h.state().recent.len(), 1);
+    std::fs::remove_dir_all(&dir).unwrap();
+}
+
+#[test]
+fn unsaved_edits_are_offered_back_at_the_next_start() {
+    let dir = temp_dir("recovery");
+    let opts = AppOptions {
+        persist: true,
+        state_dir: Some(dir.clone()),
+        autosave_after: Some(Duration::ZERO),
+        ..AppOptions::default()
+    };
+    let edited = {
+        let mut h = harness_with(WallflowerApp::with_scenario(two_zeros(), None, &opts));
+        wait_for_worker(&mut h);
+        assert!(h.state().recovery_offer.is_none());
+        h.get_by_label("Add branch point").click();
+        h.step();
+        click_at(&mut h, Complex64::new(0.3, -0.8));
+        h.run_steps(3);
+        assert!(dir.join("recovery.ron").exists(), "the edit was autosaved");
+        h.state().scenario.quadratic.clone()
+    };
+    let mut h = harness_with(WallflowerApp::with_scenario(two_zeros(), None, &opts));
+    wait_for_worker(&mut h);
+    assert!(h.state().recovery_offer.is_some());
+    h.get_by_label("Restore them").click();
+    wait_for_worker(&mut h);
+    assert_eq!(h.state().scenario.quadratic, edited);
+    assert_eq!(
+        h.state()
+            .shown
+            .as_ref()
+            .unwrap()
+            .computed
+            .network
+            .walls
+            .len(),
+        9
+    );
+    std::fs::remove_dir_all(&dir).unwrap();
+}
+
+#[test]
+fn delete_key_removes_the_selected_branch_point() {
+    let mut h = harness_with(WallflowerApp::with_scenario(
+        two_zeros(),
+        None,
+        &AppOptions::default(),
+    ));
+    wait_for_worker(&mut h);
+    click_at(&mut h, Complex64::new(1.0, 0.0));
+    assert!(
+        h.state().selection.is_some(),
+        "clicking the point selects it"
+    );
+    h.key_press(egui::Key::Delete);
+    wait_for_worker(&mut h);
+    let q = h.state().scenario.quadratic.clone().unwrap();
+    assert_eq!(q.zeros, vec![[-1.0, 0.0]]);
+    assert_eq!(
+        h.state()
+            .shown
+            .as_ref()
+            .unwrap()
+            .computed
+            .network
+            .walls
+            .len(),
+        3
+    );
+}
+
+#[test]
+fn export_writes_the_shared_scene_as_svg_and_png() {
+    let dir = temp_dir("export");
+    let mut h = harness_with(WallflowerApp::with_scenario(
+        two_zeros(),
+        None,
+        &AppOptions::default(),
+    ));
+    wait_for_worker(&mut h);
+    for name in ["fig.svg", "fig.png"] {
+        let path = dir.join(name);
+        h.state_mut().export_path = path.display().to_string();
+        h.state_mut().export_size = [640, 480];
+        h.get_by_label("Export").click();
+        h.run_steps(2);
+        assert!(
+            h.state()
+                .file_message
+                .as_deref()
+                .unwrap_or("")
+                .starts_with("exported"),
+            "{:?}",
+            h.state().file_message
+        );
+        assert!(path.exists());
+    }
+    let svg = std::fs::read_to_string(dir.join("fig.svg")).unwrap();
+    assert!(
+        svg.contains("<svg") && svg.contains("walls"),
+        "an SVG with a walls layer"
+    );
+    let png = resvg::tiny_skia::Pixmap::load_png(dir.join("fig.png")).unwrap();
+    assert_eq!((png.width(), png.height()), (640, 480));
+    // The SVG is exactly what the shared writer makes of the shared scene.
+    let app = h.state();
+    let shown = app.shown.as_ref().unwrap();
+    let opts = wallflower::scene::SceneOptions::new(
+        wallflower::scene::Transform {
+            center: app.view.center,
+            half_width: app.view.half_width,
+            width: 640.0,
+            height: 480.0,
+        },
+        app.export_theme,
+    );
+    let scene = wallflower::scene::build(&shown.computed.curve, &shown.computed.network, &opts);
+    assert_eq!(svg, wallflower::export::to_svg(&scene));
+
+    h.state_mut().export_path = dir.join("fig.txt").display().to_string();
+    h.get_by_label("Export").click();
+    h.run_steps(2);
+    assert!(h
+        .state()
+        .file_message
+        .as_deref()
+        .unwrap()
+        .contains(".svg or .png"));
+    std::fs::remove_dir_all(&dir).unwrap();
+}
