@@ -183,7 +183,12 @@ impl WallflowerApp {
         egui::CollapsingHeader::new(format!("BPS states ({})", spectrum.states.len()))
             .default_open(true)
             .show(ui, |ui| {
-                if spectrum.states.is_empty() {
+                // The finder's own caveats come first: "none found" must not
+                // read as "none exist" when the finder declined the curve.
+                for w in &spectrum.warnings {
+                    ui.label(RichText::new(w).color(ui.visuals().warn_fg_color));
+                }
+                if spectrum.states.is_empty() && spectrum.warnings.is_empty() {
                     ui.label(RichText::new(format!("none with |Z| < {}", spectrum.reach)).weak());
                 }
                 let selected = match self.selection {

@@ -291,6 +291,17 @@ impl WallflowerApp {
             ui.label("spectrum: computing");
         } else if let Some(e) = &self.spectrum_error {
             ui.label(RichText::new(format!("spectrum: {e}")).color(error_color(ui)));
+        } else if let Some(s) = self
+            .spectrum
+            .as_ref()
+            .filter(|s| s.states.is_empty() && !s.warnings.is_empty())
+        {
+            // The finder declined (e.g. rank 3): say so, not "0 states".
+            ui.label(
+                RichText::new("spectrum: not computed for this curve")
+                    .color(ui.visuals().warn_fg_color),
+            )
+            .on_hover_text(s.warnings.join("\n"));
         } else if let Some(s) = &self.spectrum {
             let r = ui.label(format!(
                 "spectrum: {} BPS state{} with |Z| < {} ({:.0} ms)",

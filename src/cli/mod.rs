@@ -78,6 +78,10 @@ pub fn one_line(text: &str) -> String {
 struct Cli {
     #[command(subcommand)]
     command: Option<Command>,
+    /// Window only: save the window's own frame to this PNG once the
+    /// network is shown, then exit (for tests and README pictures).
+    #[arg(long, value_name = "FILE.png", global = true)]
+    screenshot: Option<PathBuf>,
 }
 
 #[derive(Debug, Subcommand)]
@@ -147,13 +151,14 @@ pub fn run() -> anyhow::Result<ExitCode> {
             bad_input!("{first} (see wallflower --help)");
         }
     };
+    let screenshot = cli.screenshot.clone();
     match cli.command {
-        None => open_window(None),
+        None => open_window(None, screenshot),
         Some(Command::Open { file }) => {
             // Check the file here so that a bad one gets the same one-line
             // message and exit status as in every other command.
             source::load_file(&file)?;
-            open_window(Some(file))
+            open_window(Some(file), screenshot)
         }
         Some(Command::Network { source, json }) => network::run(&source, json),
         Some(Command::Draw(args)) => draw::run(&args),
@@ -172,13 +177,21 @@ pub fn run() -> anyhow::Result<ExitCode> {
 }
 
 #[cfg(feature = "gui")]
-fn open_window(file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
-    wallflower::app::run(file)?;
+fn open_window(file: Option<PathBuf>, screenshot: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+    match screenshot {
+        Some(shot) => wallflower::app::run_with(wallflower::app::AppOptions {
+            scenario: file,
+            screenshot: Some(shot),
+            persist: false,
+            ..wallflower::app::AppOptions::default()
+        })?,
+        None => wallflower::app::run(file)?,
+    }
     Ok(ExitCode::SUCCESS)
 }
 
 #[cfg(not(feature = "gui"))]
-fn open_window(_file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+fn open_window(_file: Option<PathBuf>, _screenshot: Option<PathBuf>) -> anyhow::Result<ExitCode> {
     bad_input!(
         "this build has no window (built without the \"gui\" feature); use a headless command such as `wallflower draw`"
     );
