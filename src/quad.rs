@@ -2,10 +2,21 @@
 
 use std::f64::consts::PI;
 
-/// `n` Gauss-Legendre nodes and weights mapped to [0, 1], computed by
-/// Newton's method on the Legendre polynomial P_n (exact for polynomials of
-/// degree 2n - 1).
+/// `n` Gauss-Legendre nodes and weights mapped to [0, 1] (exact for
+/// polynomials of degree 2n - 1). Rules up to 64 points are computed once
+/// and cached.
 pub fn gauss_legendre_unit(n: usize) -> Vec<(f64, f64)> {
+    use std::sync::OnceLock;
+    static CACHE: OnceLock<Vec<Vec<(f64, f64)>>> = OnceLock::new();
+    let n = n.max(1);
+    if n <= 64 {
+        return CACHE.get_or_init(|| (0..=64).map(compute_rule).collect())[n].clone();
+    }
+    compute_rule(n)
+}
+
+/// Newton's method on the Legendre polynomial P_n for each node.
+fn compute_rule(n: usize) -> Vec<(f64, f64)> {
     let n = n.max(1);
     let mut out = Vec::with_capacity(n);
     for k in 0..n {

@@ -48,17 +48,20 @@ impl Curve {
     /// Newton-polishes `guess` as a root of the monic polynomial `c`.
     /// Returns `None` if the iteration does not settle.
     pub fn newton_root(c: &[Complex64], guess: Complex64) -> Option<Complex64> {
+        // Squared moduli and the l1 norm as a scale: `norm()` (hypot) was
+        // a third of the integrator's time.
         let mut y = guess;
         for _ in 0..30 {
             let (p, dp) = Self::eval_p(c, y);
             let step = p / dp;
             if !step.is_finite() {
-                return if p.norm() == 0.0 { Some(y) } else { None };
+                return if p.norm_sqr() == 0.0 { Some(y) } else { None };
             }
             y -= step;
             // Convergence is quadratic: once a step is below 1e-8 relative,
             // one more step lands at rounding level.
-            if step.norm() <= 1e-8 * (1.0 + y.norm()) {
+            let scale = 1.0 + y.l1_norm();
+            if step.norm_sqr() <= 1e-16 * scale * scale {
                 let (p, dp) = Self::eval_p(c, y);
                 let last = p / dp;
                 if last.is_finite() {
@@ -68,7 +71,8 @@ impl Curve {
             }
         }
         let (p, dp) = Self::eval_p(c, y);
-        ((p / dp).norm() <= 1e-10 * (1.0 + y.norm())).then_some(y)
+        let scale = 1.0 + y.l1_norm();
+        ((p / dp).norm_sqr() <= 1e-20 * scale * scale).then_some(y)
     }
 
     /// Moves a full, ordered set of roots from `z0` to `z1` in one step, or
@@ -103,10 +107,14 @@ impl Curve {
             let keep = (a - roots[0]).norm_sqr() + (b - roots[1]).norm_sqr()
                 <= (b - roots[0]).norm_sqr() + (a - roots[1]).norm_sqr();
             (next[0], next[1]) = if keep { (a, b) } else { (b, a) };
-            // Each root moved much less than the two are apart.
-            let sep = (roots[0] - roots[1]).norm().min((next[0] - next[1]).norm());
-            let moved = (next[0] - roots[0]).norm().max((next[1] - roots[1]).norm());
-            return moved.is_finite() && moved <= MAX_MOVE_FRACTION * sep;
+            // Each root moved much less than the two are apart (squared).
+            let sep = (roots[0] - roots[1])
+                .norm_sqr()
+                .min((next[0] - next[1]).norm_sqr());
+            let moved = (next[0] - roots[0])
+                .norm_sqr()
+                .max((next[1] - roots[1]).norm_sqr());
+            return moved.is_finite() && moved <= MAX_MOVE_FRACTION * MAX_MOVE_FRACTION * sep;
         }
         for (slot, &r) in next.iter_mut().zip(roots) {
             match Self::newton_root(c, r) {
@@ -116,15 +124,18 @@ impl Curve {
         }
         // Ambiguity check: every root moved much less than its distance to
         // the nearest other root.
+        // (Squared distances throughout.)
         for a in 0..k {
             let mut sep = f64::INFINITY;
             for b in 0..k {
                 if a != b {
-                    sep = sep.min((roots[a] - roots[b]).norm());
-                    sep = sep.min((next[a] - next[b]).norm());
+                    sep = sep.min((roots[a] - roots[b]).norm_sqr());
+                    sep = sep.min((next[a] - next[b]).norm_sqr());
                 }
             }
-            if !next[a].is_finite() || (next[a] - roots[a]).norm() > MAX_MOVE_FRACTION * sep {
+            if !next[a].is_finite()
+                || (next[a] - roots[a]).norm_sqr() > MAX_MOVE_FRACTION * MAX_MOVE_FRACTION * sep
+            {
                 return false;
             }
         }
