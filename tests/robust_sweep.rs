@@ -43,11 +43,13 @@ fn poly(degree: usize) -> impl Strategy<Value = Vec<Complex64>> {
 
 /// `y^2 = P(z)`, P of degree 1..=8.
 fn rank2_polynomial() -> impl Strategy<Value = CurveSpec> {
-    (1..=8usize).prop_flat_map(poly).prop_map(|p| CurveSpec::Polynomial {
-        rank: 2,
-        nums: vec![p],
-        poles: vec![],
-    })
+    (1..=8usize)
+        .prop_flat_map(poly)
+        .prop_map(|p| CurveSpec::Polynomial {
+            rank: 2,
+            nums: vec![p],
+            poles: vec![],
+        })
 }
 
 /// `y^3 + u_2 y + u_3 = 0`, degrees 0..=8 each, optionally over a common
@@ -111,7 +113,14 @@ fn near_coincident() -> impl Strategy<Value = CurveSpec> {
 fn zeros_on_poles() -> impl Strategy<Value = CurveSpec> {
     (
         prop::collection::vec((point(), 1..=4u32), 1..=3),
-        prop::collection::vec((any::<prop::sample::Index>(), prop::option::of(-12.0..-3.0f64), 0.0..TAU), 1..=3),
+        prop::collection::vec(
+            (
+                any::<prop::sample::Index>(),
+                prop::option::of(-12.0..-3.0f64),
+                0.0..TAU,
+            ),
+            1..=3,
+        ),
         prop::collection::vec(point(), 0..=4),
         coefficient(),
     )
@@ -136,7 +145,12 @@ fn zeros_on_poles() -> impl Strategy<Value = CurveSpec> {
 }
 
 fn curve() -> impl Strategy<Value = CurveSpec> {
-    prop_oneof![rank2_polynomial(), rank3(), near_coincident(), zeros_on_poles()]
+    prop_oneof![
+        rank2_polynomial(),
+        rank3(),
+        near_coincident(),
+        zeros_on_poles()
+    ]
 }
 
 /// Settings within the documented ranges; a quarter of the cases have a
@@ -146,25 +160,27 @@ fn curve() -> impl Strategy<Value = CurveSpec> {
 fn settings() -> impl Strategy<Value = SettingsSpec> {
     (
         -7.0..7.0f64,
-        prop_oneof![3 => (-2.0..1.5f64), 1 => (4.0..=6.0f64)],
+        prop_oneof![3 => -2.0..1.5f64, 1 => 4.0..=6.0f64],
         -12.0..-4.0f64,
         50..2000usize,
         1..=48usize,
         0..=3u32,
         any::<bool>(),
     )
-        .prop_map(|(theta, log_reach, log_tol, step_budget, max_walls, max_generations, far)| {
-            let reach = 10f64.powf(log_reach);
-            SettingsSpec {
-                theta,
-                reach,
-                tolerance: 10f64.powf(log_tol),
-                step_budget,
-                max_walls,
-                max_generations,
-                bounds: (far || reach > 1e3).then(|| Bounds::square(0.0, 0.0, 1e5)),
-            }
-        })
+        .prop_map(
+            |(theta, log_reach, log_tol, step_budget, max_walls, max_generations, far)| {
+                let reach = 10f64.powf(log_reach);
+                SettingsSpec {
+                    theta,
+                    reach,
+                    tolerance: 10f64.powf(log_tol),
+                    step_budget,
+                    max_walls,
+                    max_generations,
+                    bounds: (far || reach > 1e3).then(|| Bounds::square(0.0, 0.0, 1e5)),
+                }
+            },
+        )
 }
 
 #[derive(Default, Debug)]
