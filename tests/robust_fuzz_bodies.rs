@@ -32,9 +32,43 @@ impl Rng {
 /// Bytes that often matter to a parser: delimiters, signs, digits, quotes,
 /// escapes, non-ASCII and invalid UTF-8.
 const INTERESTING: &[&[u8]] = &[
-    b"(", b")", b"[", b"]", b"{", b"}", b",", b":", b"\"", b"\\", b"^", b"-", b"+", b"*", b"/",
-    b"=", b"e", b"i", b"z", b"y", b"0", b"9", b".", b"1e308", b"1e400", b"-0", b"NaN", b"inf",
-    b"Some(", b"None", b"\n", b"//", b"/*", b"\xff", b"\xc3", "\u{e9}".as_bytes(), b"99999999999999999999",
+    b"(",
+    b")",
+    b"[",
+    b"]",
+    b"{",
+    b"}",
+    b",",
+    b":",
+    b"\"",
+    b"\\",
+    b"^",
+    b"-",
+    b"+",
+    b"*",
+    b"/",
+    b"=",
+    b"e",
+    b"i",
+    b"z",
+    b"y",
+    b"0",
+    b"9",
+    b".",
+    b"1e308",
+    b"1e400",
+    b"-0",
+    b"NaN",
+    b"inf",
+    b"Some(",
+    b"None",
+    b"\n",
+    b"//",
+    b"/*",
+    b"\xff",
+    b"\xc3",
+    "\u{e9}".as_bytes(),
+    b"99999999999999999999",
 ];
 
 /// One random edit: insert, delete, replace or duplicate a piece.
@@ -135,15 +169,30 @@ const EQUATIONS: &[&str] = &[
 #[test]
 fn equation_parser_body() {
     let seeds: Vec<Vec<u8>> = EQUATIONS.iter().map(|s| s.as_bytes().to_vec()).collect();
-    drive("equation_parser", &seeds, iterations(2000), bodies::equation_parser);
+    drive(
+        "equation_parser",
+        &seeds,
+        iterations(2000),
+        bodies::equation_parser,
+    );
 }
 
 #[test]
 fn scenario_loader_body() {
-    drive("scenario_loader", &scenario_seeds(), iterations(2000), bodies::scenario_loader);
+    drive(
+        "scenario_loader",
+        &scenario_seeds(),
+        iterations(2000),
+        bodies::scenario_loader,
+    );
 }
 
 #[test]
 fn network_engine_body() {
-    drive("network_engine", &[], iterations(300), bodies::network_engine);
+    drive(
+        "network_engine",
+        &[],
+        iterations(300),
+        bodies::network_engine,
+    );
 }

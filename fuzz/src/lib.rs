@@ -13,7 +13,7 @@
 
 use num_complex::Complex64;
 use std::collections::BTreeMap;
-use wallflower::algebra::{parse_complex, parse_equation, PolyInY, Poly, Rational};
+use wallflower::algebra::{parse_complex, parse_equation, Poly, PolyInY, Rational};
 use wallflower::curve::Curve;
 use wallflower::network::Network;
 use wallflower::scenario::{Scenario, ScenarioError};
@@ -42,7 +42,10 @@ pub fn equation_parser(data: &[u8]) {
             n_chars + 1,
             e.message
         );
-        assert!(!e.message.trim().is_empty(), "{what}: empty message for {text:?}");
+        assert!(
+            !e.message.trim().is_empty(),
+            "{what}: empty message for {text:?}"
+        );
     };
     if let Err(e) = parse_complex(&text) {
         check_error("parse_complex", &e);
@@ -91,9 +94,8 @@ pub fn equation_parser(data: &[u8]) {
 pub fn scenario_loader(data: &[u8]) {
     let data = &data[..data.len().min(MAX_INPUT_BYTES)];
     match Scenario::from_ron_bytes(data) {
-        Err(e) => check_scenario_error(data, &e).unwrap_or_else(|m| {
-            panic!("{m}\ninput: {:?}", String::from_utf8_lossy(data))
-        }),
+        Err(e) => check_scenario_error(data, &e)
+            .unwrap_or_else(|m| panic!("{m}\ninput: {:?}", String::from_utf8_lossy(data))),
         Ok((scenario, warnings)) => {
             for w in &warnings {
                 assert!(!w.trim().is_empty(), "empty warning");
@@ -133,7 +135,10 @@ pub fn check_scenario_error(data: &[u8], e: &ScenarioError) -> Result<(), String
             let text = String::from_utf8_lossy(data);
             let lines: Vec<&str> = text.split('\n').collect();
             if *line < 1 || *line > lines.len() {
-                return Err(format!("line {line} outside 1..={}: {message}", lines.len()));
+                return Err(format!(
+                    "line {line} outside 1..={}: {message}",
+                    lines.len()
+                ));
             }
             let width = lines[*line - 1].chars().count();
             if *column < 1 || *column > width + 1 {
@@ -145,9 +150,9 @@ pub fn check_scenario_error(data: &[u8], e: &ScenarioError) -> Result<(), String
             Ok(())
         }
         // Loading a text always points into it.
-        ScenarioError::Equation { .. } | ScenarioError::Invalid(_) => {
-            Err(format!("error from a text without a line and column: {message}"))
-        }
+        ScenarioError::Equation { .. } | ScenarioError::Invalid(_) => Err(format!(
+            "error from a text without a line and column: {message}"
+        )),
     }
 }
 
@@ -352,7 +357,9 @@ pub fn curve_spec_from(b: &mut Bytes) -> CurveSpec {
             if !poles.is_empty() && b.u8() < 64 {
                 let p = poles[usize::from(b.u8()) % poles.len()];
                 let p = b.near(p);
-                num = Poly::new(num).mul(&Poly::from_roots(Complex64::new(1.0, 0.0), &[p])).coeffs;
+                num = Poly::new(num)
+                    .mul(&Poly::from_roots(Complex64::new(1.0, 0.0), &[p]))
+                    .coeffs;
             }
             nums.push(num);
         }
@@ -414,7 +421,10 @@ pub fn check_curve(curve: &Curve) -> Result<(), String> {
             return Err(format!("branch point {k} is not finite: {:?}", bp.z));
         }
         if usize::from(bp.sheets[0]) >= curve.rank || usize::from(bp.sheets[1]) >= curve.rank {
-            return Err(format!("branch point {k} has sheets {:?} beyond rank {}", bp.sheets, curve.rank));
+            return Err(format!(
+                "branch point {k} has sheets {:?} beyond rank {}",
+                bp.sheets, curve.rank
+            ));
         }
     }
     for p in &curve.punctures {
@@ -448,10 +458,17 @@ pub struct NetworkTotals {
 ///   origins, joints and relabels in range;
 /// * the JSON form (serde_json) has no `null` other than the point at
 ///   infinity (serde_json writes NaN and infinity as `null`).
-pub fn check_network(curve: &Curve, settings: &Settings, net: &Network) -> Result<NetworkTotals, String> {
+pub fn check_network(
+    curve: &Curve,
+    settings: &Settings,
+    net: &Network,
+) -> Result<NetworkTotals, String> {
     let n_walls = net.walls.len();
     if n_walls > settings.max_walls {
-        return Err(format!("{n_walls} walls > max_walls {}", settings.max_walls));
+        return Err(format!(
+            "{n_walls} walls > max_walls {}",
+            settings.max_walls
+        ));
     }
     if !net.theta.is_finite() || !net.reach.is_finite() {
         return Err("theta or reach not finite".into());
@@ -467,11 +484,17 @@ pub fn check_network(curve: &Curve, settings: &Settings, net: &Network) -> Resul
     for (w_idx, w) in net.walls.iter().enumerate() {
         let ctx = |m: String| format!("wall {w_idx} ({}, end {:?}): {m}", w.kind, w.end);
         if w.steps > settings.step_budget as u64 {
-            return Err(ctx(format!("{} steps > step_budget {}", w.steps, settings.step_budget)));
+            return Err(ctx(format!(
+                "{} steps > step_budget {}",
+                w.steps, settings.step_budget
+            )));
         }
         totals.steps += w.steps;
         if w.generation > settings.max_generations {
-            return Err(ctx(format!("generation {} > max_generations", w.generation)));
+            return Err(ctx(format!(
+                "generation {} > max_generations",
+                w.generation
+            )));
         }
         let rank = curve.rank;
         let kinds = std::iter::once(w.kind).chain(w.relabels.iter().map(|r| r.kind));
@@ -525,7 +548,10 @@ pub fn check_network(curve: &Curve, settings: &Settings, net: &Network) -> Resul
             }
             // Rounding may move the mass by an ulp or so.
             if p.mass < last_mass - 1e-9 * (1.0 + last_mass.abs()) {
-                return Err(ctx(format!("mass decreases at point {p_idx}: {} < {last_mass}", p.mass)));
+                return Err(ctx(format!(
+                    "mass decreases at point {p_idx}: {} < {last_mass}",
+                    p.mass
+                )));
             }
             last_mass = p.mass;
         }
@@ -534,18 +560,29 @@ pub fn check_network(curve: &Curve, settings: &Settings, net: &Network) -> Resul
         return Err("total steps over walls * step_budget".into());
     }
     if net.stats.steps != totals.steps {
-        return Err(format!("stats.steps {} != sum of wall steps {}", net.stats.steps, totals.steps));
+        return Err(format!(
+            "stats.steps {} != sum of wall steps {}",
+            net.stats.steps, totals.steps
+        ));
     }
     for (j_idx, j) in net.joints.iter().enumerate() {
         if !finite(j.z) {
             return Err(format!("joint {j_idx} not finite"));
         }
         if j.parents.iter().chain([&j.child]).any(|&i| i >= n_walls) {
-            return Err(format!("joint {j_idx} refers to a wall out of range: {j:?}"));
+            return Err(format!(
+                "joint {j_idx} refers to a wall out of range: {j:?}"
+            ));
         }
     }
     let f = &net.flatness;
-    if !f.worst.is_finite() || !f.joints.iter().chain(&f.branch_points).all(|v| v.is_finite()) {
+    if !f.worst.is_finite()
+        || !f
+            .joints
+            .iter()
+            .chain(&f.branch_points)
+            .all(|v| v.is_finite())
+    {
         return Err(format!("flatness not finite: worst {}", f.worst));
     }
     for w in &net.warnings {
@@ -558,7 +595,10 @@ pub fn check_network(curve: &Curve, settings: &Settings, net: &Network) -> Resul
     find_nulls(&json, &mut String::new(), &mut nulls);
     nulls.retain(|path| !is_infinity_puncture(path));
     if let Some(path) = nulls.first() {
-        return Err(format!("JSON has null (NaN or infinity) at {path} ({} in all)", nulls.len()));
+        return Err(format!(
+            "JSON has null (NaN or infinity) at {path} ({} in all)",
+            nulls.len()
+        ));
     }
     Ok(totals)
 }
