@@ -28,7 +28,7 @@
 
 use crate::algebra::{parse_complex, parse_equation, Equation, ParseError};
 use crate::curve::{Curve, CurveError};
-use crate::walls::{Bounds, Settings};
+use crate::walls::{show_f64, Bounds, Settings};
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
@@ -242,6 +242,8 @@ impl Scenario {
         if bytes.len() > MAX_FILE_BYTES {
             return Err(too_large(bytes.len()));
         }
+        // A byte-order mark is not text (see from_ron_with_warnings).
+        let bytes = bytes.strip_prefix(b"\xef\xbb\xbf").unwrap_or(bytes);
         match std::str::from_utf8(bytes) {
             Ok(text) => Self::from_ron_with_warnings(text),
             Err(e) => {
@@ -261,6 +263,9 @@ impl Scenario {
     /// problem is reported with its line and column in `text`. Returns the
     /// scenario and warnings about keys that were ignored.
     pub fn from_ron_with_warnings(text: &str) -> Result<(Self, Vec<String>), ScenarioError> {
+        // Some editors start UTF-8 files with a byte-order mark; it is not
+        // part of the text (and editors do not count it as a column).
+        let text = text.strip_prefix('\u{feff}').unwrap_or(text);
         if text.len() > MAX_FILE_BYTES {
             return Err(too_large(text.len()));
         }
@@ -280,7 +285,7 @@ impl Scenario {
             ScenarioError::At {
                 line,
                 column,
-                message: one_line(&e.code.to_string()),
+                message: ron_message(text, &e),
             }
         })?;
         let keys = scan_keys(text);
@@ -393,7 +398,7 @@ impl Scenario {
                 "phase",
                 format!(
                     "phase must be a finite angle in radians, got {}",
-                    self.phase
+                    show_f64(self.phase)
                 ),
             ));
         }
@@ -419,7 +424,7 @@ impl Scenario {
         if !(hw.is_finite() && hw > 0.0 && hw <= MAX_MAGNITUDE) {
             out.push(Problem::new(
                 "view.half_width",
-                format!("view.half_width must be in (0, 1e6], got {hw}"),
+                format!("view.half_width must be in (0, 1e6], got {}", show_f64(hw)),
             ));
         }
         if self.notes.chars().count() > MAX_NOTES_CHARS {
@@ -558,6 +563,34 @@ fn too_large(n_bytes: usize) -> ScenarioError {
         message: format!(
             "the file has {n_bytes} bytes; a scenario may have at most {MAX_FILE_BYTES}"
         ),
+    }
+}
+
+/// RON's message, reworded where it would puzzle a user: a file cut short
+/// says so (RON only says what it expected next), and the nesting limit
+/// does not suggest changing the program.
+fn ron_message(text: &str, e: &ron::error::SpannedError) -> String {
+    use ron::error::Error as E;
+    let end = offset_of(text, e.span.end.line, e.span.end.col);
+    let at_eof = skip_trivia(text.as_bytes(), end.min(text.len())) >= text.len();
+    match &e.code {
+        E::ExceededRecursionLimit => {
+            "brackets are nested too deeply (more than 128 levels)".to_string()
+        }
+        E::ExpectedComma
+        | E::ExpectedStructLikeEnd
+        | E::ExpectedArrayEnd
+        | E::ExpectedMapEnd
+        | E::ExpectedMapColon
+        | E::Eof
+            if at_eof =>
+        {
+            format!(
+                "the file ends too early (is it cut short?): {}",
+                one_line(&e.code.to_string())
+            )
+        }
+        code => one_line(&code.to_string()),
     }
 }
 

@@ -73,6 +73,15 @@ impl Default for Settings {
     }
 }
 
+/// A number for a message: `1e308`, not its 309 digits.
+pub(crate) fn show_f64(x: f64) -> String {
+    if x != 0.0 && x.is_finite() && !(1e-4..1e7).contains(&x.abs()) {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
+}
+
 impl Settings {
     /// Checks every field against its documented range; the messages name
     /// the field and the range.
@@ -85,11 +94,14 @@ impl Settings {
         };
         check(
             self.reach.is_finite() && self.reach > 0.0 && self.reach <= 1e6,
-            format!("reach must be in (0, 1e6], got {}", self.reach),
+            format!("reach must be in (0, 1e6], got {}", show_f64(self.reach)),
         );
         check(
             self.tolerance.is_finite() && (1e-13..=1e-3).contains(&self.tolerance),
-            format!("tolerance must be in [1e-13, 1e-3], got {}", self.tolerance),
+            format!(
+                "tolerance must be in [1e-13, 1e-3], got {}",
+                show_f64(self.tolerance)
+            ),
         );
         check(
             (10..=10_000_000).contains(&self.step_budget),
