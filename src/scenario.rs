@@ -450,8 +450,8 @@ impl Scenario {
                     column,
                     message: p.message,
                 },
-                None if p.key.is_empty() => ScenarioError::Invalid(p.message),
-                None => ScenarioError::Invalid(format!("{}: {}", p.key, p.message)),
+                None if p.key.is_empty() => ScenarioError::Invalid(printable(&p.message)),
+                None => ScenarioError::Invalid(printable(&format!("{}: {}", p.key, p.message))),
             }),
         }
     }
@@ -912,8 +912,22 @@ fn locate_problem(text: &str, keys: &[KeyPos], p: &Problem) -> ScenarioError {
     ScenarioError::At {
         line,
         column,
-        message,
+        message: printable(&message),
     }
+}
+
+/// `s` with control characters escaped (`\n`), so that a message quoting a
+/// name from the file (a parameter name may hold a newline) stays one line.
+fn printable(s: &str) -> String {
+    s.chars()
+        .map(|c| {
+            if c.is_control() {
+                c.escape_default().to_string()
+            } else {
+                c.to_string()
+            }
+        })
+        .collect()
 }
 
 /// Warnings for keys the format does not have, found by reading the text

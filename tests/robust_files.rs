@@ -267,3 +267,17 @@ fn deep_nesting_is_refused_without_overflowing_the_stack() {
     let (_, _, message) = located(deep.as_bytes());
     assert!(message.contains("curve, column"), "{message}");
 }
+
+/// Found by the fuzz target `scenario_loader` (the whole input is
+/// tests/robust_regressions/scenario_loader/newline-in-parameter-name.ron):
+/// a parameter name holding a newline made a two-line message.
+#[test]
+fn a_parameter_name_with_a_newline_gives_a_one_line_message() {
+    let bytes = b"(\n  curve: \"y^2 = z\",\n  params: {\"5),\n    notea\": (0.0, 0.0)},\n)";
+    let (line, column, message) = located(bytes);
+    assert_eq!((line, column), (3, 12), "{message}");
+    assert!(
+        message.contains("'5),\\n    notea' is not a parameter name"),
+        "{message}"
+    );
+}

@@ -274,7 +274,7 @@ impl<'a> Bytes<'a> {
         let r = self.log_uniform(1e-6, 1e6);
         let phase = if tag < 96 {
             // Real coefficients: symmetric curves, walls along the axes.
-            if tag % 2 == 0 {
+            if tag & 1 == 0 {
                 0.0
             } else {
                 std::f64::consts::PI
