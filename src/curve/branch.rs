@@ -9,7 +9,7 @@
 //! Fourier transform, its roots found, and each root polished by Newton's
 //! method on the pair `P = dP/dy = 0` in (y, z).
 
-use super::sheets::{roots_of_monic, sort_roots};
+use super::sheets::{closest_pair, roots_of_monic, sort_roots};
 use super::{BranchPoint, Curve, CurveError, CurveNote, Cut, LabelFrame, Puncture, CUT_DIRECTION};
 use crate::algebra::Poly;
 use num_complex::Complex64;
@@ -267,7 +267,7 @@ fn interpolate(f: &impl Fn(Complex64) -> Complex64, d: usize, radius: f64) -> Po
 }
 
 /// Values of `P, P_y, P_z, P_yy, P_yz` at (y, z).
-fn partials_full(curve: &Curve, y: Complex64, z: Complex64) -> [Complex64; 5] {
+pub(super) fn partials_full(curve: &Curve, y: Complex64, z: Complex64) -> [Complex64; 5] {
     let k = curve.rank;
     let mut out = [Complex64::new(0.0, 0.0); 5];
     for (idx, r) in curve.u.iter().enumerate() {
@@ -286,20 +286,6 @@ fn partials_full(curve: &Curve, y: Complex64, z: Complex64) -> [Complex64; 5] {
         }
     }
     out
-}
-
-/// The pair of roots at z that are closest to each other: their indices.
-fn closest_pair(roots: &[Complex64]) -> (usize, usize, f64) {
-    let mut best = (0, 1, f64::INFINITY);
-    for a in 0..roots.len() {
-        for b in a + 1..roots.len() {
-            let d = (roots[a] - roots[b]).norm();
-            if d < best.2 {
-                best = (a, b, d);
-            }
-        }
-    }
-    best
 }
 
 /// Newton's method on `P = P_y = 0` in (y, z), starting at the double root

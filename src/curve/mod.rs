@@ -8,7 +8,7 @@
 mod branch;
 mod sheets;
 
-pub use sheets::{roots_of_monic, sort_roots, ContinuationError};
+pub use sheets::{closest_pair, roots_of_monic, sort_roots, ContinuationError};
 
 use crate::algebra::{Poly, PolyInY, Rational};
 use num_complex::Complex64;
@@ -251,18 +251,7 @@ impl Curve {
 
     /// `dP/dz` and `d^2P/dy^2` at `(y, z)`, for the local series at branch points.
     pub fn partials(&self, y: Complex64, z: Complex64) -> (Complex64, Complex64) {
-        let k = self.rank;
-        let mut pz = Complex64::new(0.0, 0.0);
-        let mut pyy = Complex64::new(0.0, 0.0);
-        for (idx, r) in self.u.iter().enumerate() {
-            let power = (k - idx) as i32;
-            let (_, d) = r.eval_with_derivative(z);
-            pz += d * y.powi(power);
-            if power >= 2 {
-                let (v, _) = r.eval_with_derivative(z);
-                pyy += v * f64::from(power * (power - 1)) * y.powi(power - 2);
-            }
-        }
+        let [_, _, pz, pyy, _] = branch::partials_full(self, y, z);
         (pz, pyy)
     }
 }

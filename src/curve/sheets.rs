@@ -184,10 +184,12 @@ impl Curve {
 
     /// Distance from `z` to the nearest branch point or pole (infinite if none).
     pub fn distance_to_singular(&self, z: Complex64) -> f64 {
+        // One square root, not one hypot per point: this runs every step.
         self.singular_points
             .iter()
-            .map(|s| (s - z).norm())
+            .map(|s| (s - z).norm_sqr())
             .fold(f64::INFINITY, f64::min)
+            .sqrt()
     }
 
     /// The sheets at `z`, labelled by the project's convention:
@@ -223,6 +225,20 @@ pub fn roots_of_monic(c: &[Complex64]) -> Vec<Complex64> {
     }
     let ascending: Vec<Complex64> = c.iter().rev().copied().collect();
     crate::algebra::Poly { coeffs: ascending }.roots()
+}
+
+/// The two roots closest to each other: their indices and distance.
+pub fn closest_pair(roots: &[Complex64]) -> (usize, usize, f64) {
+    let mut best = (0, 1, f64::INFINITY);
+    for a in 0..roots.len() {
+        for b in a + 1..roots.len() {
+            let d = (roots[a] - roots[b]).norm_sqr();
+            if d < best.2 {
+                best = (a, b, d);
+            }
+        }
+    }
+    (best.0, best.1, best.2.sqrt())
 }
 
 /// Orders roots by increasing real part, then imaginary part.

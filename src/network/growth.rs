@@ -357,11 +357,7 @@ impl Arc {
     }
 
     fn at(&self, s: f64) -> Complex64 {
-        let (s2, s3) = (s * s, s * s * s);
-        self.z0 * (2.0 * s3 - 3.0 * s2 + 1.0)
-            + self.d0 * (s3 - 2.0 * s2 + s)
-            + self.z1 * (-2.0 * s3 + 3.0 * s2)
-            + self.d1 * (s3 - s2)
+        crate::walls::hermite(self.z0, self.d0, self.z1, self.d1, s)
     }
 
     fn slope(&self, s: f64) -> Complex64 {

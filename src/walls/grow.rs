@@ -284,13 +284,7 @@ fn push_dense(
     let pieces = ((turn / max_turn).ceil() as usize).min(32);
     for p in 1..pieces {
         let s = p as f64 / pieces as f64;
-        let (h00, h10, h01, h11) = (
-            2.0 * s * s * s - 3.0 * s * s + 1.0,
-            s * s * s - 2.0 * s * s + s,
-            -2.0 * s * s * s + 3.0 * s * s,
-            s * s * s - s * s,
-        );
-        let z = z0 * h00 + f0 * (h * h10) + z1 * h01 + f1 * (h * h11);
+        let z = hermite(z0, f0 * h, z1, f1 * h, s);
         wall.points.push(WallPoint {
             z,
             mass: t0 + s * h,
@@ -318,4 +312,14 @@ pub fn invert(perm: &[usize]) -> Vec<usize> {
         inv[p] = a;
     }
     inv
+}
+
+/// The cubic Hermite point at `s` in [0, 1] between `z0` and `z1` with
+/// derivatives `d0`, `d1` (with respect to s) at the ends.
+pub fn hermite(z0: Complex64, d0: Complex64, z1: Complex64, d1: Complex64, s: f64) -> Complex64 {
+    let (s2, s3) = (s * s, s * s * s);
+    z0 * (2.0 * s3 - 3.0 * s2 + 1.0)
+        + d0 * (s3 - 2.0 * s2 + s)
+        + z1 * (-2.0 * s3 + 3.0 * s2)
+        + d1 * (s3 - s2)
 }

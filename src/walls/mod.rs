@@ -6,7 +6,7 @@ mod grow;
 mod settings;
 mod start;
 
-pub use grow::{crossed_cuts, grow_wall, invert, GrowContext, WallSeed};
+pub use grow::{crossed_cuts, grow_wall, hermite, invert, GrowContext, WallSeed};
 pub(crate) use settings::show_f64;
 pub use settings::{Bounds, Settings};
 pub use start::{period_from_branch_point, primary_seeds};

@@ -58,7 +58,7 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
     let rot = Complex64::from_polar(1.0, theta);
     // The two sheets that meet at b are the closest pair at z0 (their labels
     // there may differ from those above b when z0 lies across b's cut).
-    let (a, c) = closest_pair(&roots);
+    let (a, c, _) = crate::curve::closest_pair(&roots);
     // Orient the pair so that the wall moves away from b.
     let outward = |r: &[Complex64], i: usize, j: usize| ((rot / (r[i] - r[j])) / dir).re > 0.0;
     let (i, j) = if outward(&roots, a, c) {
@@ -95,19 +95,6 @@ fn seed_for(curve: &Curve, bp: &BranchPoint, index: usize, n: u8, theta: f64) ->
         multiplicity: if i < j { 1 } else { -1 },
         prefix: vec![WallPoint { z: b, mass: 0.0 }],
     })
-}
-
-fn closest_pair(r: &[Complex64]) -> (usize, usize) {
-    let mut best = (0, 1, f64::INFINITY);
-    for a in 0..r.len() {
-        for c in a + 1..r.len() {
-            let d = (r[a] - r[c]).norm();
-            if d < best.2 {
-                best = (a, c, d);
-            }
-        }
-    }
-    (best.0, best.1)
 }
 
 /// `int_b^z0 (y_i - y_j) dz` along the straight segment, given the sheets
