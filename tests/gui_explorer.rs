@@ -356,3 +356,228 @@ fn the_next_critical_phase_key_lands_on_a_saddle() {
         "no wall ends on a branch point at theta = {theta}"
     );
 }
+
+/// A primary click at a point of the central-charge plane.
+fn click_z_plane(h: &mut Harness<'_, WallflowerApp>, z: Complex64) {
+    let tf = h
+        .state()
+        .z_plot_transform
+        .expect("the central-charge plane was drawn");
+    let pos = tf.position_from_point(&egui_plot::PlotPoint::new(z.re, z.im));
+    h.hover_at(pos);
+    h.step();
+    for pressed in [true, false] {
+        h.event(egui::Event::PointerButton {
+            pos,
+            button: egui::PointerButton::Primary,
+            pressed,
+            modifiers: egui::Modifiers::NONE,
+        });
+        h.step();
+    }
+}
+
+#[test]
+fn clicking_a_state_in_the_central_charge_plane_turns_to_its_phase() {
+    let mut h = harness(Scenario {
+        reach: 5.0,
+        ..two_zeros()
+    });
+    wait_for_spectrum(&mut h);
+    h.get_by_label("Central charges");
+    let st = h.state().spectrum.as_ref().unwrap().states[0].clone();
+    // The plotted Z of the oscillator's one state: |Z| = pi (the area of
+    // the classical orbit, Bohr-Sommerfeld; elementary integral).
+    assert!((st.z.norm() - std::f64::consts::PI).abs() < 1e-6);
+    assert!(
+        (h.state().scenario.phase - st.phase).abs() > 0.05,
+        "start away from the critical phase"
+    );
+
+    click_z_plane(&mut h, st.z);
+    wait_for_worker(&mut h);
+    assert!(
+        (h.state().scenario.phase - st.phase).abs() < 1e-12,
+        "phase {} after clicking Z, want {}",
+        h.state().scenario.phase,
+        st.phase
+    );
+    assert_eq!(
+        h.state().selection,
+        Some(wallflower::app::command::Selection::State(0))
+    );
+    // At that phase the state's saddle is in the network.
+    let net = &h.state().shown.as_ref().unwrap().computed.network;
+    assert!(net.walls.iter().any(|w| w.end.code() == "branch_point"));
+
+    // Its antiparticle -Z is critical half a turn later.
+    click_z_plane(&mut h, -st.z);
+    wait_for_worker(&mut h);
+    let want = st.phase + std::f64::consts::PI;
+    assert!(
+        (h.state().scenario.phase - want).abs() < 1e-12,
+        "phase {} after clicking -Z, want {want}",
+        h.state().scenario.phase
+    );
+
+    // A click on empty plane selects nothing new and keeps the phase.
+    click_z_plane(&mut h, st.z * Complex64::new(0.0, 0.6));
+    h.run_steps(2);
+    assert!((h.state().scenario.phase - want).abs() < 1e-12);
+}
+
+/// Drags the zero at `from` along a straight line to `to` in `frames`
+/// frames at about 60 Hz; `during` sees the app after every frame.
+fn drag_zero(
+    h: &mut Harness<'_, WallflowerApp>,
+    from: Complex64,
+    to: Complex64,
+    frames: usize,
+    mut during: impl FnMut(&WallflowerApp),
+) {
+    let tf = h.state().transform.unwrap();
+    let pos = tf.to_screen(from);
+    h.hover_at(pos);
+    h.step();
+    h.event(egui::Event::PointerButton {
+        pos,
+        button: egui::PointerButton::Primary,
+        pressed: true,
+        modifiers: egui::Modifiers::NONE,
+    });
+    h.step();
+    for k in 1..=frames {
+        let z = from + (to - from) * (k as f64 / frames as f64);
+        h.event(egui::Event::PointerMoved(tf.to_screen(z)));
+        h.step();
+        during(h.state());
+        std::thread::sleep(Duration::from_millis(16));
+    }
+    h.event(egui::Event::PointerButton {
+        pos: tf.to_screen(to),
+        button: egui::PointerButton::Primary,
+        pressed: false,
+        modifiers: egui::Modifiers::NONE,
+    });
+    h.step();
+}
+
+/// |Z| of the one state of q = (z - a)(z - b): pi |b - a|^2 / 4, the
+/// oscillator's pi (Bohr-Sommerfeld) scaled by the scaling law of
+/// mathematics.md section 2 (masses scale as s^((n + 2) / 2), n = 2).
+fn oscillator_abs(a: [f64; 2], b: [f64; 2]) -> f64 {
+    let d2 = (b[0] - a[0]).powi(2) + (b[1] - a[1]).powi(2);
+    std::f64::consts::PI * d2 / 4.0
+}
+
+#[test]
+fn a_cheap_spectrum_follows_a_drag_live() {
+    let mut h = harness(Scenario {
+        reach: 8.0,
+        ..two_zeros()
+    });
+    wait_for_spectrum(&mut h);
+    let mut seen: Vec<f64> = Vec::new();
+    drag_zero(
+        &mut h,
+        Complex64::new(1.0, 0.0),
+        Complex64::new(1.6, 0.3),
+        60,
+        |app| {
+            if let Some(s) = &app.spectrum {
+                if let Some(st) = s.states.first() {
+                    if seen.last().is_none_or(|a| (a - st.abs).abs() > 1e-9) {
+                        seen.push(st.abs);
+                    }
+                }
+            }
+        },
+    );
+    assert!(
+        seen.len() >= 3,
+        "the spectrum did not follow the drag: |Z| values seen {seen:?}"
+    );
+    wait_for_spectrum(&mut h);
+    let q = h.state().scenario.quadratic.clone().unwrap();
+    let st = &h.state().spectrum.as_ref().unwrap().states[0];
+    let want = oscillator_abs(q.zeros[0], q.zeros[1]);
+    assert!(
+        (st.abs - want).abs() < 1e-7 * want,
+        "|Z| = {} after the drag, want {want}",
+        st.abs
+    );
+}
+
+#[test]
+fn a_slow_spectrum_waits_for_the_release_and_says_it_is_out_of_date() {
+    let mut h = harness(Scenario {
+        reach: 8.0,
+        ..two_zeros()
+    });
+    wait_for_spectrum(&mut h);
+    let before = h.state().spectrum.as_ref().unwrap().states[0].abs;
+    // As if every spectrum were too slow to follow a drag.
+    h.state_mut().live_spectrum_limit_ms = 0.0;
+    let mut waited_frames = 0;
+    let mut changed_during_drag = false;
+    drag_zero(
+        &mut h,
+        Complex64::new(1.0, 0.0),
+        Complex64::new(1.5, 0.0),
+        20,
+        |app| {
+            if app.spectrum_waits_for_release() {
+                waited_frames += 1;
+            }
+
+            let now = app.spectrum.as_ref().unwrap().states[0].abs;
+            changed_during_drag |= (now - before).abs() > 1e-9;
+        },
+    );
+    // Every frame once the point has moved (egui starts a drag after the
+    // first movement).
+    assert!(
+        waited_frames >= 19,
+        "waited in {waited_frames} of 20 frames"
+    );
+    assert!(
+        !changed_during_drag,
+        "a slow spectrum was recomputed mid-drag"
+    );
+    wait_for_spectrum(&mut h);
+    let q = h.state().scenario.quadratic.clone().unwrap();
+    let after = h.state().spectrum.as_ref().unwrap().states[0].abs;
+    let want = oscillator_abs(q.zeros[0], q.zeros[1]);
+    assert!(
+        (after - want).abs() < 1e-7 * want,
+        "after the release |Z| = {after}, want {want}"
+    );
+}
+
+#[test]
+fn the_out_of_date_mark_shows_while_a_drag_waits() {
+    let mut h = harness(Scenario {
+        reach: 8.0,
+        ..two_zeros()
+    });
+    wait_for_spectrum(&mut h);
+    h.state_mut().live_spectrum_limit_ms = 0.0;
+    let tf = h.state().transform.unwrap();
+    let pos = tf.to_screen(Complex64::new(1.0, 0.0));
+    h.hover_at(pos);
+    h.step();
+    h.event(egui::Event::PointerButton {
+        pos,
+        button: egui::PointerButton::Primary,
+        pressed: true,
+        modifiers: egui::Modifiers::NONE,
+    });
+    h.step();
+    for k in 1..=5 {
+        let z = Complex64::new(1.0 + 0.05 * k as f64, 0.0);
+        h.event(egui::Event::PointerMoved(tf.to_screen(z)));
+        h.step();
+    }
+    h.get_by_label_contains("out of date: the curve has changed");
+    h.get_by_label("spectrum: out of date (recomputed when the drag ends)");
+}

@@ -15,6 +15,11 @@ use std::path::PathBuf;
 use std::sync::{Arc, Mutex};
 use std::time::{Duration, Instant};
 
+/// During a drag the spectrum is recomputed live when the last one took
+/// at most this long (ms); slower ones wait for the release. At 150 ms a
+/// dragged point's states still update several times a second.
+const LIVE_SPECTRUM_MS: f64 = 150.0;
+
 /// Autosave unsaved edits this long after the last one, by default.
 const AUTOSAVE_AFTER: Duration = Duration::from_secs(3);
 
@@ -129,6 +134,8 @@ pub struct WallflowerApp {
     /// The newest BPS spectrum of the curve (phase-independent).
     pub spectrum: Option<Arc<Spectrum>>,
     pub spectrum_ms: f64,
+    /// Follow drags with the spectrum while one costs at most this (ms).
+    pub live_spectrum_limit_ms: f64,
     pub spectrum_error: Option<String>,
     generation: u64,
     /// The engine input of the last job sent.
@@ -170,6 +177,9 @@ pub struct WallflowerApp {
     pub(super) commands: Vec<Command>,
     /// The canvas transform of the last frame (tests use it to click).
     pub transform: Option<ScreenTransform>,
+    /// The central-charge plot's transform of the last frame (tests use it
+    /// to click a state).
+    pub z_plot_transform: Option<egui_plot::PlotTransform>,
     pub(super) wants_fit: bool,
     // Files.
     pub path: Option<PathBuf>,
@@ -235,6 +245,7 @@ impl WallflowerApp {
             spectrum_received: 0,
             spectrum: None,
             spectrum_ms: 0.0,
+            live_spectrum_limit_ms: LIVE_SPECTRUM_MS,
             spectrum_error: None,
             generation: 0,
             submitted: None,
@@ -259,6 +270,7 @@ impl WallflowerApp {
             wall_sort_descending: false,
             commands: Vec::new(),
             transform: None,
+            z_plot_transform: None,
             wants_fit,
             path_field: path
                 .as_ref()
@@ -414,6 +426,12 @@ impl WallflowerApp {
             || self.spectrum_submitted.as_ref() != Some(&spectrum_input(&self.scenario))
     }
 
+    /// True while a drag goes on and the spectrum is too slow to follow it
+    /// live: the one shown belongs to an earlier curve.
+    pub fn spectrum_waits_for_release(&self) -> bool {
+        self.continuous && self.spectrum_submitted.as_ref() != Some(&spectrum_input(&self.scenario))
+    }
+
     /// Critical phases in [0, 2 pi) with the state they belong to: each
     /// state's web appears at its phase and, with types reversed, half a
     /// turn later.
@@ -458,14 +476,25 @@ impl WallflowerApp {
 
     /// Sends the scenario to the workers when their inputs changed.
     fn sync_worker(&mut self) {
-        // The spectrum does not depend on the phase, and is not worth
-        // computing in the middle of a drag.
+        // The spectrum does not depend on the phase. During a drag it
+        // follows live only while one spectrum costs less than
+        // `live_spectrum_limit_ms`, one job at a time; otherwise it waits
+        // for the release and the window marks the shown one out of date.
+        // A drag that began this frame counts already.
+        self.continuous = self.drag.is_some() || self.playing || self.phase_dragging;
         let sinput = spectrum_input(&self.scenario);
-        if self.spectrum_submitted.as_ref() != Some(&sinput) && !self.continuous {
-            self.spectrum_generation += 1;
-            self.spectrum_worker
-                .submit(self.spectrum_generation, sinput.clone(), true);
-            self.spectrum_submitted = Some(sinput);
+        if self.spectrum_submitted.as_ref() != Some(&sinput) {
+            let in_flight = self.spectrum_received < self.spectrum_generation;
+            let live = self.spectrum_ms <= self.live_spectrum_limit_ms && !in_flight;
+            if !self.continuous || live {
+                self.spectrum_generation += 1;
+                self.spectrum_worker.submit(
+                    self.spectrum_generation,
+                    sinput.clone(),
+                    !self.continuous,
+                );
+                self.spectrum_submitted = Some(sinput);
+            }
         }
         let input = engine_input(&self.scenario);
         if self.submitted.as_ref() == Some(&input) {

@@ -17,76 +17,79 @@ impl WallflowerApp {
             .resizable(true)
             .show(ui, |ui| {
                 ui.heading("Inspector");
-                let Some(shown) = &self.shown else {
-                    ui.label("no network yet");
-                    return;
-                };
-                let computed = std::sync::Arc::clone(&shown.computed);
-                let net = &computed.network;
-                self.jump_matrix_section(ui, &computed);
-                if self.path_in_plane.len() >= 2 {
-                    ui.separator();
-                    self.path_product_section(ui);
-                }
-                ui.separator();
-                egui::CollapsingHeader::new(format!("Walls ({})", net.walls.len()))
-                    .default_open(true)
-                    .show(ui, |ui| self.walls_table(ui, &net.walls));
-                self.states_section(ui);
-                egui::CollapsingHeader::new(format!("Joints ({})", net.joints.len()))
-                    .default_open(true)
-                    .show(ui, |ui| {
-                        if net.joints.is_empty() {
-                            ui.label(
-                                RichText::new("none: joints need three or more sheets").weak(),
-                            );
-                        }
-                        egui::Grid::new("joints").striped(true).show(ui, |ui| {
-                            if !net.joints.is_empty() {
-                                ui.strong("#");
-                                ui.strong("z");
-                                ui.strong("parents");
-                                ui.strong("child");
-                                ui.end_row();
-                            }
-                            for (i, j) in net.joints.iter().enumerate() {
-                                ui.label((i + 1).to_string());
-                                ui.label(format!("{:.4}{:+.4}i", j.z.re, j.z.im));
-                                ui.label(format!("{}, {}", j.parents[0] + 1, j.parents[1] + 1));
-                                ui.label((j.child + 1).to_string());
-                                ui.end_row();
-                            }
-                        });
-                    });
-                egui::CollapsingHeader::new(format!("Branch points ({})", net.branch_points.len()))
-                    .default_open(false)
-                    .show(ui, |ui| {
-                        egui::Grid::new("branch_points")
-                            .striped(true)
-                            .show(ui, |ui| {
-                                for (i, b) in net.branch_points.iter().enumerate() {
-                                    ui.label((i + 1).to_string());
-                                    ui.label(format!("{:.4}{:+.4}i", b.z.re, b.z.im));
-                                    ui.label(format!(
-                                        "sheets {}{}",
-                                        b.sheets[0] + 1,
-                                        b.sheets[1] + 1
-                                    ));
-                                    ui.label(if b.simple { "simple" } else { "not simple" });
-                                    ui.end_row();
-                                }
-                            });
-                    });
-                if !net.warnings.is_empty() {
-                    egui::CollapsingHeader::new(format!("Warnings ({})", net.warnings.len()))
-                        .default_open(false)
-                        .show(ui, |ui| {
-                            for w in &net.warnings {
-                                ui.label(&w.message);
-                            }
-                        });
-                }
+                // Long spectra and big networks scroll rather than clip.
+                egui::ScrollArea::vertical()
+                    .id_salt("inspector_scroll")
+                    .auto_shrink([false, false])
+                    .show(ui, |ui| self.inspector_contents(ui));
             });
+    }
+
+    fn inspector_contents(&mut self, ui: &mut egui::Ui) {
+        let Some(shown) = &self.shown else {
+            ui.label("no network yet");
+            return;
+        };
+        let computed = std::sync::Arc::clone(&shown.computed);
+        let net = &computed.network;
+        self.jump_matrix_section(ui, &computed);
+        if self.path_in_plane.len() >= 2 {
+            ui.separator();
+            self.path_product_section(ui);
+        }
+        ui.separator();
+        egui::CollapsingHeader::new(format!("Walls ({})", net.walls.len()))
+            .default_open(true)
+            .show(ui, |ui| self.walls_table(ui, &net.walls));
+        self.states_section(ui);
+        self.central_charge_plane(ui);
+        egui::CollapsingHeader::new(format!("Joints ({})", net.joints.len()))
+            .default_open(true)
+            .show(ui, |ui| {
+                if net.joints.is_empty() {
+                    ui.label(RichText::new("none: joints need three or more sheets").weak());
+                }
+                egui::Grid::new("joints").striped(true).show(ui, |ui| {
+                    if !net.joints.is_empty() {
+                        ui.strong("#");
+                        ui.strong("z");
+                        ui.strong("parents");
+                        ui.strong("child");
+                        ui.end_row();
+                    }
+                    for (i, j) in net.joints.iter().enumerate() {
+                        ui.label((i + 1).to_string());
+                        ui.label(format!("{:.4}{:+.4}i", j.z.re, j.z.im));
+                        ui.label(format!("{}, {}", j.parents[0] + 1, j.parents[1] + 1));
+                        ui.label((j.child + 1).to_string());
+                        ui.end_row();
+                    }
+                });
+            });
+        egui::CollapsingHeader::new(format!("Branch points ({})", net.branch_points.len()))
+            .default_open(false)
+            .show(ui, |ui| {
+                egui::Grid::new("branch_points")
+                    .striped(true)
+                    .show(ui, |ui| {
+                        for (i, b) in net.branch_points.iter().enumerate() {
+                            ui.label((i + 1).to_string());
+                            ui.label(format!("{:.4}{:+.4}i", b.z.re, b.z.im));
+                            ui.label(format!("sheets {}{}", b.sheets[0] + 1, b.sheets[1] + 1));
+                            ui.label(if b.simple { "simple" } else { "not simple" });
+                            ui.end_row();
+                        }
+                    });
+            });
+        if !net.warnings.is_empty() {
+            egui::CollapsingHeader::new(format!("Warnings ({})", net.warnings.len()))
+                .default_open(false)
+                .show(ui, |ui| {
+                    for w in &net.warnings {
+                        ui.label(&w.message);
+                    }
+                });
+        }
     }
 
     /// The jump matrix of the selected wall at the picked point, if any.
@@ -196,31 +199,38 @@ impl WallflowerApp {
                     _ => None,
                 };
                 ui.style_mut().wrap_mode = Some(egui::TextWrapMode::Extend);
-                for (i, st) in spectrum.states.iter().enumerate() {
-                    let kind = match st.kind {
-                        crate::spectrum::Kind::Hyper => "hyper",
-                        crate::spectrum::Kind::Vector => "vector",
-                        crate::spectrum::Kind::Other => "other",
-                    };
-                    let text = format!(
-                        "{:<3} {:<6} \u{3a9}={:<3} |Z|={:>8.4}  \u{3b8}={:>7.2}\u{b0}",
-                        i + 1,
-                        kind,
-                        st.omega.map_or("?".into(), |o| o.to_string()),
-                        st.abs,
-                        st.phase.to_degrees()
-                    );
-                    let r = ui
-                        .selectable_label(selected == Some(i), RichText::new(text).monospace())
-                        .on_hover_text(format!(
-                            "Z = {:.6}{:+.6}i (error {:.1e})\nclick: go to its critical phase and show its web",
-                            st.z.re, st.z.im, st.z_error
-                        ));
-                    if r.clicked() {
-                        self.commands.push(Command::SetPhase(st.phase));
-                        self.commands.push(Command::Select(Some(Selection::State(i))));
+                // A tall tower scrolls, so the plane below stays in view.
+                egui::ScrollArea::vertical()
+                    .id_salt("states_scroll")
+                    .max_height(220.0)
+                    .auto_shrink([false, true])
+                    .show(ui, |ui| {
+                    for (i, st) in spectrum.states.iter().enumerate() {
+                        let kind = match st.kind {
+                            crate::spectrum::Kind::Hyper => "hyper",
+                            crate::spectrum::Kind::Vector => "vector",
+                            crate::spectrum::Kind::Other => "other",
+                        };
+                        let text = format!(
+                            "{:<3} {:<6} \u{3a9}={:<3} |Z|={:>8.4}  \u{3b8}={:>7.2}\u{b0}",
+                            i + 1,
+                            kind,
+                            st.omega.map_or("?".into(), |o| o.to_string()),
+                            st.abs,
+                            st.phase.to_degrees()
+                        );
+                        let r = ui
+                            .selectable_label(selected == Some(i), RichText::new(text).monospace())
+                            .on_hover_text(format!(
+                                "Z = {:.6}{:+.6}i (error {:.1e})\nclick: go to its critical phase and show its web",
+                                st.z.re, st.z.im, st.z_error
+                            ));
+                        if r.clicked() {
+                            self.commands.push(Command::SetPhase(st.phase));
+                            self.commands.push(Command::Select(Some(Selection::State(i))));
+                        }
                     }
-                }
+                    });
             });
     }
 

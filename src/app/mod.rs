@@ -8,6 +8,7 @@
 //! - `paint`: the shared scene -> egui shapes (the painter adapter).
 //! - `panels`: file/export bar, curve editor, phase control, status bar.
 //! - `inspector`: walls and joints tables, jump matrix.
+//! - `spectrum_view`: the central-charge plane of the BPS states.
 //! - `worker`: the background thread. `command`, `history`: edits and undo.
 //! - `files`: atomic saves, recovery file, recent list. `jump`: the
 //!   network's jump matrices, formatted for the inspector.
@@ -28,6 +29,7 @@ mod inspector;
 pub mod jump;
 mod paint;
 mod panels;
+mod spectrum_view;
 mod worker;
 
 pub use canvas::{Hit, ScreenTransform};

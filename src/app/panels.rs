@@ -288,7 +288,12 @@ impl WallflowerApp {
         }
         ui.separator();
         if self.is_spectrum_computing() {
-            ui.label("spectrum: computing");
+            let text = if self.spectrum_waits_for_release() {
+                "spectrum: out of date (recomputed when the drag ends)"
+            } else {
+                "spectrum: computing"
+            };
+            ui.label(RichText::new(text).color(ui.visuals().warn_fg_color));
         } else if let Some(e) = &self.spectrum_error {
             ui.label(RichText::new(format!("spectrum: {e}")).color(error_color(ui)));
         } else if let Some(s) = self

@@ -22,6 +22,7 @@
 
 use super::Rgba;
 use crate::scenario::Theme;
+use crate::spectrum::Kind;
 use crate::walls::WallType;
 
 /// Wall colours on the light (paper) theme, in the order types are assigned.
@@ -79,6 +80,19 @@ pub fn wall_color(kind: WallType, rank: usize, theme: Theme) -> Rgba {
 pub fn wall_dashed(kind: WallType, rank: usize) -> bool {
     let _ = rank;
     (type_index(kind) / WALL_COLORS_PAPER.len()) % 2 == 1
+}
+
+/// The colour of a BPS state of `kind` in the central-charge plane:
+/// bluish green for hypermultiplets, reddish purple for vector multiplets,
+/// the foreground colour for states of unknown index (their diamond marker
+/// tells them apart as well). Orange stays free for the selection, which
+/// the canvas highlights in orange too.
+pub fn state_color(kind: Kind, theme: Theme) -> Rgba {
+    match kind {
+        Kind::Hyper => Rgba::rgb(0x00, 0x9E, 0x73),
+        Kind::Vector => Rgba::rgb(0xCC, 0x79, 0xA7),
+        Kind::Other => theme_colors(theme).foreground,
+    }
 }
 
 /// The neutral colours of a theme.
