@@ -3,7 +3,7 @@
 
 use super::bad_input;
 use super::output::write_atomic;
-use super::source::{load, SourceArgs};
+use super::source::{load, Loaded, SourceArgs};
 use clap::{Args, ValueEnum};
 use std::path::PathBuf;
 use std::process::ExitCode;
@@ -29,6 +29,13 @@ pub struct DrawArgs {
     /// The output file: .svg or .png.
     #[arg(short = 'o', long = "output", value_name = "FILE")]
     pub output: PathBuf,
+    #[command(flatten)]
+    pub figure: FigureArgs,
+}
+
+/// How a figure looks: shared by `draw` and `sweep`.
+#[derive(Debug, Args)]
+pub struct FigureArgs {
     /// Picture size in pixels, WIDTHxHEIGHT.
     #[arg(long, value_name = "WxH", default_value = "800x800")]
     pub size: String,
@@ -49,12 +56,12 @@ pub struct DrawArgs {
     pub no_legend: bool,
 }
 
-enum Format {
+pub enum Format {
     Svg,
     Png,
 }
 
-fn parse_size(text: &str) -> anyhow::Result<(u32, u32)> {
+pub fn parse_size(text: &str) -> anyhow::Result<(u32, u32)> {
     let parsed = text
         .split_once(['x', 'X'])
         .and_then(|(w, h)| Some((w.trim().parse::<u32>().ok()?, h.trim().parse::<u32>().ok()?)));
@@ -67,34 +74,57 @@ fn parse_size(text: &str) -> anyhow::Result<(u32, u32)> {
     }
 }
 
-pub fn run(args: &DrawArgs) -> anyhow::Result<ExitCode> {
-    let ext = args
-        .output
-        .extension()
-        .and_then(|e| e.to_str())
-        .map(str::to_ascii_lowercase);
-    let format = match ext.as_deref() {
-        Some("svg") => Format::Svg,
-        Some("png") => Format::Png,
-        _ => bad_input!(
-            "-o {}: the file name must end in .svg or .png",
-            args.output.display()
-        ),
-    };
-    let (width, height) = parse_size(&args.size)?;
-    let loaded = load(&args.source)?;
-    loaded.print_warnings();
-    let net = compute(
-        &loaded.curve,
-        loaded.theta,
-        &loaded.settings,
-        &CancelToken::new(),
-    );
-    for w in &net.warnings {
-        if !loaded.warnings.contains(&w.message) {
-            eprintln!("warning: {}", super::one_line(&w.message));
+impl Format {
+    /// The format a file name asks for, by its extension.
+    pub fn of(path: &std::path::Path) -> Option<Self> {
+        let ext = path
+            .extension()
+            .and_then(|e| e.to_str())
+            .map(str::to_ascii_lowercase);
+        match ext.as_deref() {
+            Some("svg") => Some(Self::Svg),
+            Some("png") => Some(Self::Png),
+            _ => None,
         }
     }
+}
+
+pub fn run(args: &DrawArgs) -> anyhow::Result<ExitCode> {
+    let Some(format) = Format::of(&args.output) else {
+        bad_input!(
+            "-o {}: the file name must end in .svg or .png",
+            args.output.display()
+        );
+    };
+    let size = parse_size(&args.figure.size)?;
+    let loaded = load(&args.source)?;
+    loaded.print_warnings();
+    let (bytes, warnings) = figure_at(&loaded, loaded.theta, &args.figure, size, &format, None)?;
+    for w in warnings {
+        eprintln!("warning: {w}");
+    }
+    write_atomic(&args.output, &bytes)?;
+    Ok(ExitCode::SUCCESS)
+}
+
+/// The figure of the network at `theta`, encoded, with the network's
+/// warnings that the scenario had not already given (one line each);
+/// `subtitle` is appended to the title (the sweep's phase label).
+pub fn figure_at(
+    loaded: &Loaded,
+    theta: f64,
+    figure: &FigureArgs,
+    (width, height): (u32, u32),
+    format: &Format,
+    subtitle: Option<&str>,
+) -> anyhow::Result<(Vec<u8>, Vec<String>)> {
+    let net = compute(&loaded.curve, theta, &loaded.settings, &CancelToken::new());
+    let warnings: Vec<String> = net
+        .warnings
+        .iter()
+        .filter(|w| !loaded.warnings.contains(&w.message))
+        .map(|w| super::one_line(&w.message))
+        .collect();
     let view = &loaded.scenario.view;
     let transform = Transform {
         center: view.center,
@@ -102,21 +132,24 @@ pub fn run(args: &DrawArgs) -> anyhow::Result<ExitCode> {
         width: width as f32,
         height: height as f32,
     };
-    let theme = match args.theme {
+    let theme = match figure.theme {
         Some(ThemeArg::Paper) => Theme::Paper,
         Some(ThemeArg::Projector) => Theme::Projector,
         None => loaded.scenario.theme,
     };
     let mut opts = SceneOptions::new(transform, theme);
-    opts.title = args.title.clone();
-    opts.wall_labels = args.wall_labels;
-    opts.grid = !args.no_grid;
-    opts.legend = !args.no_legend;
+    opts.title = match (&figure.title, subtitle) {
+        (Some(t), Some(s)) => Some(format!("{t}   {s}")),
+        (Some(t), None) => Some(t.clone()),
+        (None, s) => s.map(str::to_string),
+    };
+    opts.wall_labels = figure.wall_labels;
+    opts.grid = !figure.no_grid;
+    opts.legend = !figure.no_legend;
     let picture = scene::build(&loaded.curve, &net, &opts);
     let bytes = match format {
         Format::Svg => export::svg::to_svg(&picture).into_bytes(),
         Format::Png => export::png::to_png(&picture)?,
     };
-    write_atomic(&args.output, &bytes)?;
-    Ok(ExitCode::SUCCESS)
+    Ok((bytes, warnings))
 }

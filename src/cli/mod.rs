@@ -14,6 +14,7 @@ mod network;
 mod output;
 mod source;
 mod spectrum;
+mod sweep;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;
@@ -101,6 +102,8 @@ enum Command {
     },
     /// Draw the network to an SVG or PNG file.
     Draw(draw::DrawArgs),
+    /// Draw a numbered sequence of figures while the phase turns (for animations).
+    Sweep(sweep::SweepArgs),
     /// Describe the curve: branch points, punctures, sheets at a point.
     Inspect(inspect::InspectArgs),
     /// The BPS states with |Z| below the reach (table, JSON or CSV).
@@ -162,6 +165,7 @@ pub fn run() -> anyhow::Result<ExitCode> {
         }
         Some(Command::Network { source, json }) => network::run(&source, json),
         Some(Command::Draw(args)) => draw::run(&args),
+        Some(Command::Sweep(args)) => sweep::run(&args),
         Some(Command::Inspect(args)) => inspect::run(&args),
         Some(Command::Jump(args)) => jump::run(&args),
         Some(Command::Spectrum(args)) => spectrum::run(&args),
