@@ -8,6 +8,7 @@
 //! dashes of 4 and gaps of 3 line widths ([`dash_pattern`]).
 
 mod build;
+pub mod charges;
 pub mod geometry;
 pub mod palette;
 

@@ -10,6 +10,7 @@
 use super::command::{Command, Selection};
 use super::explorer::WallflowerApp;
 use crate::scenario::Theme;
+use crate::scene::charges::state_label;
 use crate::scene::palette;
 use crate::spectrum::{BpsState, Kind, Spectrum};
 use eframe::egui::{self, Color32, RichText};
@@ -39,19 +40,6 @@ fn marker(kind: Kind) -> MarkerShape {
 fn kind_color(kind: Kind, theme: Theme) -> Color32 {
     let [r, g, b, _] = palette::state_color(kind, theme).0;
     Color32::from_rgb(r, g, b)
-}
-
-/// The short label drawn beside a marker: kind letter and index.
-pub fn state_label(st: &BpsState) -> String {
-    let letter = match st.kind {
-        Kind::Hyper => "H",
-        Kind::Vector => "V",
-        Kind::Other => "?",
-    };
-    let omega = st
-        .omega
-        .map_or_else(|| "\u{3a9}=?".to_string(), |o| format!("\u{3a9}={o}"));
-    format!("{letter} {omega}")
 }
 
 /// The state (and whether its antiparticle -Z) whose marker is nearest to

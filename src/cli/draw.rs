@@ -61,7 +61,8 @@ pub enum Format {
     Png,
 }
 
-pub fn parse_size(text: &str) -> anyhow::Result<(u32, u32)> {
+/// Parses WIDTHxHEIGHT given with option `flag` (named in the messages).
+pub fn parse_size(flag: &str, text: &str) -> anyhow::Result<(u32, u32)> {
     let parsed = text
         .split_once(['x', 'X'])
         .and_then(|(w, h)| Some((w.trim().parse::<u32>().ok()?, h.trim().parse::<u32>().ok()?)));
@@ -69,8 +70,8 @@ pub fn parse_size(text: &str) -> anyhow::Result<(u32, u32)> {
         Some((w, h)) if (16..=MAX_SIDE_PX).contains(&w) && (16..=MAX_SIDE_PX).contains(&h) => {
             Ok((w, h))
         }
-        Some(_) => bad_input!("--size {text}: each side must be 16 to {MAX_SIDE_PX} pixels"),
-        None => bad_input!("--size {text}: expected WIDTHxHEIGHT in pixels, e.g. 1200x800"),
+        Some(_) => bad_input!("{flag} {text}: each side must be 16 to {MAX_SIDE_PX} pixels"),
+        None => bad_input!("{flag} {text}: expected WIDTHxHEIGHT in pixels, e.g. 1200x800"),
     }
 }
 
@@ -96,7 +97,7 @@ pub fn run(args: &DrawArgs) -> anyhow::Result<ExitCode> {
             args.output.display()
         );
     };
-    let size = parse_size(&args.figure.size)?;
+    let size = parse_size("--size", &args.figure.size)?;
     let loaded = load(&args.source)?;
     loaded.print_warnings();
     let (bytes, warnings) = figure_at(&loaded, loaded.theta, &args.figure, size, &format, None)?;

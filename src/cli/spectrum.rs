@@ -2,13 +2,19 @@
 //! (the spectrum along a straight path in one parameter), with a progress
 //! bar on stderr when stderr is a terminal.
 
+use super::draw::{parse_size, Format, ThemeArg};
+use super::output::write_atomic;
 use super::source::{load, Loaded, SourceArgs};
 use super::{bad_input, emit};
 use clap::Args;
 use indicatif::{ProgressBar, ProgressStyle};
 use num_complex::Complex64;
 use serde::Serialize;
+use std::path::PathBuf;
 use std::process::ExitCode;
+use wallflower::export;
+use wallflower::scenario::Theme;
+use wallflower::scene::charges::{build_charges, ChargeOptions};
 use wallflower::spectrum::{self, BpsState, Kind, SpectrumSettings};
 use wallflower::CancelToken;
 
@@ -22,6 +28,23 @@ pub struct SpectrumArgs {
     /// Print comma-separated values with a header line.
     #[arg(long)]
     pub csv: bool,
+    /// Also draw the states in the central-charge plane to this file
+    /// (.svg or .png).
+    #[arg(long, value_name = "FILE")]
+    pub plot: Option<PathBuf>,
+    /// Size of the --plot picture in pixels, WIDTHxHEIGHT.
+    #[arg(long, value_name = "WxH", default_value = "800x800")]
+    pub plot_size: String,
+    /// Colour theme of the --plot picture (default: the scenario's).
+    #[arg(long, value_enum)]
+    pub theme: Option<ThemeArg>,
+    /// Text at the top of the --plot picture.
+    #[arg(long, value_name = "TEXT")]
+    pub plot_title: Option<String>,
+    /// Draw the scenario's phase (or --phase) as a dashed line through 0 in
+    /// the --plot picture.
+    #[arg(long)]
+    pub plot_phase: bool,
 }
 
 #[derive(Debug, Args)]
@@ -121,6 +144,19 @@ fn fmt_z(z: Complex64) -> String {
 }
 
 pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
+    // A bad picture request is refused before the computation.
+    let plot = match &args.plot {
+        Some(path) => {
+            let Some(format) = Format::of(path) else {
+                bad_input!(
+                    "--plot {}: the file name must end in .svg or .png",
+                    path.display()
+                );
+            };
+            Some((path, format, parse_size("--plot-size", &args.plot_size)?))
+        }
+        None => None,
+    };
     let loaded = load(&args.source)?;
     loaded.print_warnings();
     let settings = settings_for(&loaded)?;
@@ -184,6 +220,22 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
             ));
         }
         emit(&out)?;
+    }
+    if let Some((path, format, (width, height))) = plot {
+        let theme = match args.theme {
+            Some(ThemeArg::Paper) => Theme::Paper,
+            Some(ThemeArg::Projector) => Theme::Projector,
+            None => loaded.scenario.theme,
+        };
+        let mut opts = ChargeOptions::new(width as f32, height as f32, theme);
+        opts.title = args.plot_title.clone();
+        opts.phase = args.plot_phase.then_some(loaded.theta);
+        let picture = build_charges(&found, &opts);
+        let bytes = match format {
+            Format::Svg => export::svg::to_svg(&picture).into_bytes(),
+            Format::Png => export::png::to_png(&picture)?,
+        };
+        write_atomic(path, &bytes)?;
     }
     Ok(ExitCode::SUCCESS)
 }

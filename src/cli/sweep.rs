@@ -63,7 +63,7 @@ pub fn run(args: &SweepArgs) -> anyhow::Result<ExitCode> {
             bad_input!("{name}: the phase must be a finite number of radians below 1e6");
         }
     }
-    let size = parse_size(&args.figure.size)?;
+    let size = parse_size("--size", &args.figure.size)?;
     let loaded = load(&args.source)?;
     loaded.print_warnings();
     let from = args.from.unwrap_or(loaded.theta);

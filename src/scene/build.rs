@@ -447,6 +447,16 @@ fn wall_labels(runs: &[Run], s: f32) -> Vec<Shape> {
 /// Grid lines at a 1-2-5 step, the axes, tick labels at the bottom and
 /// left edges, and the axis names.
 fn grid(t: &Transform, colors: &ThemeColors, s: f32) -> Vec<Shape> {
+    grid_named(t, colors, s, ["Re z", "Im z"])
+}
+
+/// [`grid`] with other axis names (the central-charge plane's "Re Z").
+pub(super) fn grid_named(
+    t: &Transform,
+    colors: &ThemeColors,
+    s: f32,
+    [x_name, y_name]: [&str; 2],
+) -> Vec<Shape> {
     let mut shapes = Vec::new();
     let ppu = t.pixels_per_unit();
     let step = nice_step(f64::from(size::GRID_SPACING * s) / ppu);
@@ -517,8 +527,8 @@ fn grid(t: &Transform, colors: &ThemeColors, s: f32) -> Vec<Shape> {
             ));
         }
     }
-    shapes.push(text([w - pad, h - pad], "Re z".into(), Anchor::End));
-    shapes.push(text([pad, pad + text_size], "Im z".into(), Anchor::Start));
+    shapes.push(text([w - pad, h - pad], x_name.into(), Anchor::End));
+    shapes.push(text([pad, pad + text_size], y_name.into(), Anchor::Start));
     shapes
 }
 

@@ -1,0 +1,351 @@
+//! The central-charge plane as a figure: every BPS state of a spectrum as a
+//! ray from 0 to its Z with a filled marker (circle for hypermultiplets,
+//! square for vector multiplets, diamond when the index is unknown), its
+//! antiparticle at -Z as a faint dashed ray and a hollow marker, a label
+//! with kind and index where it does not collide with another, a legend
+//! and an optional line along a phase.
+//!
+//! The view is square in Z units, centred on 0 and fitted to the largest
+//! |Z|, so rays keep their true angles. Layers, bottom to top: background,
+//! grid, phase, rays, states, labels, legend, title.
+
+use super::build::{grid_named, text_width_em};
+use super::palette::{state_color, theme_colors};
+use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
+use crate::scenario::Theme;
+use crate::spectrum::{BpsState, Kind, Spectrum};
+use num_complex::Complex64;
+
+/// Layer names of a central-charge figure, bottom to top.
+pub mod charge_layer_names {
+    pub const BACKGROUND: &str = "background";
+    pub const GRID: &str = "grid";
+    pub const PHASE: &str = "phase";
+    pub const RAYS: &str = "rays";
+    pub const STATES: &str = "states";
+    pub const LABELS: &str = "labels";
+    pub const LEGEND: &str = "legend";
+    pub const TITLE: &str = "title";
+}
+use charge_layer_names as names;
+
+/// What to draw and how.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ChargeOptions {
+    /// Picture size in pixels.
+    pub width: f32,
+    pub height: f32,
+    pub theme: Theme,
+    pub title: Option<String>,
+    /// A dashed line through 0 along this phase (rad): states on it are
+    /// critical there.
+    pub phase: Option<f64>,
+    pub labels: bool,
+    pub legend: bool,
+}
+
+impl ChargeOptions {
+    pub fn new(width: f32, height: f32, theme: Theme) -> Self {
+        Self {
+            width,
+            height,
+            theme,
+            title: None,
+            phase: None,
+            labels: true,
+            legend: true,
+        }
+    }
+
+    /// Sizes scale with the picture: 1 at 800 px on the short side.
+    fn scale(&self) -> f32 {
+        let s = (self.width.min(self.height) / 800.0).clamp(0.75, 3.0);
+        if s.is_finite() {
+            s
+        } else {
+            1.0
+        }
+    }
+}
+
+/// The view: centred on 0, the largest |Z| at 85% of the shorter half side.
+pub fn charge_transform(spectrum: &Spectrum, width: f32, height: f32) -> Transform {
+    let extent = spectrum
+        .states
+        .iter()
+        .map(|s| s.abs)
+        .filter(|a| a.is_finite())
+        .fold(0.0_f64, f64::max);
+    let extent = if extent > 0.0 { extent } else { spectrum.reach };
+    let extent = if extent.is_finite() && extent > 0.0 {
+        extent
+    } else {
+        1.0
+    };
+    let aspect = f64::from(width / height.max(1.0));
+    // half_width is horizontal: a tall picture needs no more, a wide one
+    // needs its extra width.
+    let half_width = extent / 0.85 * aspect.max(1.0);
+    Transform::new([0.0, 0.0], half_width, width, height)
+}
+
+/// Marker of a state: shape by kind, filled at Z, hollow at -Z.
+fn marker(kind: Kind, center: [f32; 2], r: f32, color: Rgba, filled: bool, bg: Rgba) -> Shape {
+    let (fill, stroke) = if filled {
+        (Some(color), None)
+    } else {
+        (Some(bg), Some((0.3 * r, color)))
+    };
+    match kind {
+        Kind::Hyper => Shape::Circle {
+            center,
+            radius: r,
+            fill,
+            stroke,
+            item: Item::Decoration,
+        },
+        Kind::Vector | Kind::Other => Shape::Square {
+            center,
+            half: 0.9 * r,
+            fill,
+            stroke,
+            diamond: kind == Kind::Other,
+            item: Item::Decoration,
+        },
+    }
+}
+
+/// The label of a state: kind letter and index ("H  Ω=1").
+pub fn state_label(st: &BpsState) -> String {
+    let letter = match st.kind {
+        Kind::Hyper => "H",
+        Kind::Vector => "V",
+        Kind::Other => "?",
+    };
+    match st.omega {
+        Some(o) => format!("{letter} \u{3a9}={o}"),
+        None => format!("{letter} \u{3a9}=?"),
+    }
+}
+
+fn faded(c: Rgba, alpha: u8) -> Rgba {
+    Rgba([c.0[0], c.0[1], c.0[2], alpha])
+}
+
+/// Builds the central-charge figure of `spectrum`.
+pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
+    let colors = theme_colors(opts.theme);
+    let s = opts.scale();
+    let t = charge_transform(spectrum, opts.width, opts.height);
+    let mut layers = vec![Layer {
+        name: names::BACKGROUND.into(),
+        shapes: vec![Shape::Rect {
+            min: [0.0, 0.0],
+            max: [t.width.max(0.0), t.height.max(0.0)],
+            fill: colors.background,
+            stroke: None,
+        }],
+    }];
+    let mut push = |name: &str, shapes: Vec<Shape>| {
+        layers.push(Layer {
+            name: name.into(),
+            shapes,
+        });
+    };
+    let valid = t.is_valid();
+    let states: Vec<&BpsState> = spectrum
+        .states
+        .iter()
+        .filter(|st| st.z.re.is_finite() && st.z.im.is_finite())
+        .collect();
+    push(
+        names::GRID,
+        if valid {
+            grid_named(&t, &colors, s, ["Re Z", "Im Z"])
+        } else {
+            Vec::new()
+        },
+    );
+    let mut phase_line = Vec::new();
+    if let (true, Some(theta)) = (valid, opts.phase.filter(|p| p.is_finite())) {
+        let far = Complex64::from_polar(3.0 * t.half_width, theta);
+        phase_line.push(Shape::Polyline {
+            points: vec![t.to_screen(-far), t.to_screen(far)],
+            width: 1.2 * s,
+            color: colors.cut,
+            dashed: true,
+            item: Item::Decoration,
+        });
+    }
+    push(names::PHASE, phase_line);
+    let origin = t.to_screen(Complex64::new(0.0, 0.0));
+    let mut rays = Vec::new();
+    let mut markers = Vec::new();
+    let r = 5.0 * s;
+    for st in states.iter().filter(|_| valid) {
+        let color = state_color(st.kind, opts.theme);
+        rays.push(Shape::Polyline {
+            points: vec![origin, t.to_screen(-st.z)],
+            width: 1.0 * s,
+            color: faded(color, 110),
+            dashed: true,
+            item: Item::Decoration,
+        });
+        rays.push(Shape::Polyline {
+            points: vec![origin, t.to_screen(st.z)],
+            width: 1.8 * s,
+            color,
+            dashed: false,
+            item: Item::Decoration,
+        });
+        markers.push(marker(
+            st.kind,
+            t.to_screen(-st.z),
+            0.85 * r,
+            color,
+            false,
+            colors.background,
+        ));
+        markers.push(marker(
+            st.kind,
+            t.to_screen(st.z),
+            r,
+            color,
+            true,
+            colors.background,
+        ));
+    }
+    push(names::RAYS, rays);
+    push(names::STATES, markers);
+    let text_size = 12.0 * s;
+    // Labels avoid every marker and each other: right of the marker
+    // (left for Z in the left half), else the other side, else above or
+    // below; a label with no free place is left out.
+    let mut placed: Vec<[f32; 4]> = states
+        .iter()
+        .filter(|_| valid)
+        .flat_map(|st| [t.to_screen(st.z), t.to_screen(-st.z)])
+        .map(|[x, y]| [x - r, y - r, x + r, y + r])
+        .collect();
+    let mut labels = Vec::new();
+    if opts.labels && valid {
+        for st in &states {
+            let text = state_label(st);
+            let [x, y] = t.to_screen(st.z);
+            let w = text_width_em(&text) * text_size;
+            let h = text_size;
+            let right = [x + 1.6 * r, y - 0.5 * h];
+            let left = [x - 1.6 * r - w, y - 0.5 * h];
+            let above = [x - 0.5 * w, y - 1.4 * r - h];
+            let below = [x - 0.5 * w, y + 1.4 * r];
+            let sides = if st.z.re >= 0.0 {
+                [right, left, above, below]
+            } else {
+                [left, right, above, below]
+            };
+            let free = sides
+                .into_iter()
+                .map(|[x0, y0]| [x0, y0, x0 + w, y0 + h])
+                .find(|rect| {
+                    !placed.iter().any(|o| {
+                        rect[0] < o[2] && o[0] < rect[2] && rect[1] < o[3] && o[1] < rect[3]
+                    })
+                });
+            let Some(rect) = free else {
+                continue;
+            };
+            placed.push(rect);
+            labels.push(Shape::Text {
+                pos: [rect[0], rect[3] - 0.15 * h],
+                text,
+                size: text_size,
+                color: state_color(st.kind, opts.theme),
+                anchor: Anchor::Start,
+            });
+        }
+    }
+    push(names::LABELS, labels);
+    let legend = if opts.legend && valid && !states.is_empty() {
+        legend(&states, opts, s)
+    } else {
+        Vec::new()
+    };
+    push(names::LEGEND, legend);
+    let title = match &opts.title {
+        Some(text) if !text.trim().is_empty() => vec![Shape::Text {
+            pos: [t.width / 2.0, 26.0 * s],
+            text: text.clone(),
+            size: 17.0 * s,
+            color: colors.foreground,
+            anchor: Anchor::Middle,
+        }],
+        _ => Vec::new(),
+    };
+    push(names::TITLE, title);
+    Scene {
+        transform: t,
+        background: colors.background,
+        layers,
+    }
+}
+
+/// A box at the top right listing the kinds present and the antiparticle
+/// marker.
+fn legend(states: &[&BpsState], opts: &ChargeOptions, s: f32) -> Vec<Shape> {
+    let colors = theme_colors(opts.theme);
+    let text_size = 14.0 * s;
+    let row_h = 1.45 * text_size;
+    let pad = 0.7 * text_size;
+    let r = 5.0 * s;
+    let mut rows: Vec<(Kind, bool, String)> = Vec::new();
+    for (kind, name) in [
+        (Kind::Hyper, "hypermultiplet (\u{3a9} = 1)"),
+        (Kind::Vector, "vector multiplet (\u{3a9} = \u{2212}2)"),
+        (Kind::Other, "index unknown"),
+    ] {
+        if states.iter().any(|st| st.kind == kind) {
+            rows.push((kind, true, name.to_string()));
+        }
+    }
+    let first = rows[0].0;
+    rows.push((first, false, "antiparticle (\u{2212}Z)".into()));
+    let text_w = rows
+        .iter()
+        .map(|(_, _, t)| text_width_em(t) * text_size)
+        .fold(0.0_f32, f32::max);
+    let box_w = 2.0 * pad + 2.5 * r + 0.6 * text_size + text_w;
+    let box_h = 2.0 * pad + row_h * rows.len() as f32 - (row_h - text_size);
+    let has_title = opts.title.as_ref().is_some_and(|x| !x.trim().is_empty());
+    let top = if has_title { 40.0 * s } else { 12.0 * s };
+    let left = opts.width - 12.0 * s - box_w;
+    let mut shapes = vec![Shape::Rect {
+        min: [left, top],
+        max: [left + box_w, top + box_h],
+        fill: colors.legend_fill,
+        stroke: Some((1.0 * s, colors.legend_stroke)),
+    }];
+    for (k, (kind, filled, text)) in rows.iter().enumerate() {
+        let y = top + pad + row_h * k as f32 + 0.5 * text_size;
+        let color = if *filled {
+            state_color(*kind, opts.theme)
+        } else {
+            colors.foreground
+        };
+        shapes.push(marker(
+            *kind,
+            [left + pad + 1.2 * r, y],
+            r,
+            color,
+            *filled,
+            colors.background,
+        ));
+        shapes.push(Shape::Text {
+            pos: [left + pad + 2.5 * r + 0.6 * text_size, y + 0.35 * text_size],
+            text: text.clone(),
+            size: text_size,
+            color: colors.foreground,
+            anchor: Anchor::Start,
+        });
+    }
+    shapes
+}
