@@ -41,25 +41,25 @@ fn n_walls(h: &Harness<'_, WallflowerApp>) -> usize {
         .map_or(0, |s| s.computed.network.walls.len())
 }
 
+/// The primary button pressed or released at `pos`.
+fn primary(h: &mut Harness<'_, WallflowerApp>, pos: egui::Pos2, pressed: bool) {
+    h.event(egui::Event::PointerButton {
+        pos,
+        button: egui::PointerButton::Primary,
+        pressed,
+        modifiers: egui::Modifiers::NONE,
+    });
+}
+
 /// A primary click at a point of the z-plane.
 fn click_plane(h: &mut Harness<'_, WallflowerApp>, z: Complex64) {
     let tf = h.state().transform.expect("the canvas was drawn");
     let pos = tf.to_screen(z);
     h.hover_at(pos);
     h.step();
-    h.event(egui::Event::PointerButton {
-        pos,
-        button: egui::PointerButton::Primary,
-        pressed: true,
-        modifiers: egui::Modifiers::NONE,
-    });
+    primary(h, pos, true);
     h.step();
-    h.event(egui::Event::PointerButton {
-        pos,
-        button: egui::PointerButton::Primary,
-        pressed: false,
-        modifiers: egui::Modifiers::NONE,
-    });
+    primary(h, pos, false);
     h.step();
 }
 
@@ -367,12 +367,7 @@ fn click_z_plane(h: &mut Harness<'_, WallflowerApp>, z: Complex64) {
     h.hover_at(pos);
     h.step();
     for pressed in [true, false] {
-        h.event(egui::Event::PointerButton {
-            pos,
-            button: egui::PointerButton::Primary,
-            pressed,
-            modifiers: egui::Modifiers::NONE,
-        });
+        primary(h, pos, pressed);
         h.step();
     }
 }
@@ -439,12 +434,7 @@ fn drag_zero(
     let pos = tf.to_screen(from);
     h.hover_at(pos);
     h.step();
-    h.event(egui::Event::PointerButton {
-        pos,
-        button: egui::PointerButton::Primary,
-        pressed: true,
-        modifiers: egui::Modifiers::NONE,
-    });
+    primary(h, pos, true);
     h.step();
     for k in 1..=frames {
         let z = from + (to - from) * (k as f64 / frames as f64);
@@ -453,12 +443,7 @@ fn drag_zero(
         during(h.state());
         std::thread::sleep(Duration::from_millis(16));
     }
-    h.event(egui::Event::PointerButton {
-        pos: tf.to_screen(to),
-        button: egui::PointerButton::Primary,
-        pressed: false,
-        modifiers: egui::Modifiers::NONE,
-    });
+    primary(h, tf.to_screen(to), false);
     h.step();
 }
 
@@ -566,12 +551,7 @@ fn the_out_of_date_mark_shows_while_a_drag_waits() {
     let pos = tf.to_screen(Complex64::new(1.0, 0.0));
     h.hover_at(pos);
     h.step();
-    h.event(egui::Event::PointerButton {
-        pos,
-        button: egui::PointerButton::Primary,
-        pressed: true,
-        modifiers: egui::Modifiers::NONE,
-    });
+    primary(&mut h, pos, true);
     h.step();
     for k in 1..=5 {
         let z = Complex64::new(1.0 + 0.05 * k as f64, 0.0);

@@ -121,6 +121,20 @@ pub fn text_width_em(text: &str) -> f32 {
         .sum()
 }
 
+/// The bottom layer of every figure: the picture filled with the theme's
+/// background.
+pub(super) fn background_layer(t: &Transform, colors: &ThemeColors) -> Layer {
+    Layer {
+        name: layer_names::BACKGROUND.into(),
+        shapes: vec![Shape::Rect {
+            min: [0.0, 0.0],
+            max: [t.width.max(0.0), t.height.max(0.0)],
+            fill: colors.background,
+            stroke: None,
+        }],
+    }
+}
+
 /// The margin (in pixels) around the picture inside which the builder keeps
 /// every line, for a given scale.
 pub fn clip_margin(scale: f32) -> f32 {
@@ -132,15 +146,7 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
     let colors = theme_colors(opts.theme);
     let t = opts.transform;
     let s = opts.effective_scale();
-    let mut layers: Vec<Layer> = vec![Layer {
-        name: layer_names::BACKGROUND.into(),
-        shapes: vec![Shape::Rect {
-            min: [0.0, 0.0],
-            max: [t.width.max(0.0), t.height.max(0.0)],
-            fill: colors.background,
-            stroke: None,
-        }],
-    }];
+    let mut layers: Vec<Layer> = vec![background_layer(&t, &colors)];
     let mut push = |name: &str, shapes: Vec<Shape>| {
         layers.push(Layer {
             name: name.into(),

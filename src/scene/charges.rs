@@ -9,7 +9,7 @@
 //! |Z|, so rays keep their true angles. Layers, bottom to top: background,
 //! grid, phase, rays, states, labels, legend, title.
 
-use super::build::{grid_named, text_width_em};
+use super::build::{background_layer, grid_named, text_width_em};
 use super::palette::{state_color, theme_colors};
 use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
 use crate::scenario::Theme;
@@ -18,7 +18,7 @@ use num_complex::Complex64;
 
 /// Layer names of a central-charge figure, bottom to top.
 pub mod charge_layer_names {
-    pub const BACKGROUND: &str = "background";
+    pub const BACKGROUND: &str = super::super::layer_names::BACKGROUND;
     pub const GRID: &str = "grid";
     pub const PHASE: &str = "phase";
     pub const RAYS: &str = "rays";
@@ -137,15 +137,8 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
     let colors = theme_colors(opts.theme);
     let s = opts.scale();
     let t = charge_transform(spectrum, opts.width, opts.height);
-    let mut layers = vec![Layer {
-        name: names::BACKGROUND.into(),
-        shapes: vec![Shape::Rect {
-            min: [0.0, 0.0],
-            max: [t.width.max(0.0), t.height.max(0.0)],
-            fill: colors.background,
-            stroke: None,
-        }],
-    }];
+    // The same background layer name as network figures.
+    let mut layers = vec![background_layer(&t, &colors)];
     let mut push = |name: &str, shapes: Vec<Shape>| {
         layers.push(Layer {
             name: name.into(),
