@@ -561,3 +561,33 @@ fn the_out_of_date_mark_shows_while_a_drag_waits() {
     h.get_by_label_contains("out of date: the curve has changed");
     h.get_by_label("spectrum: out of date (recomputed when the drag ends)");
 }
+
+#[test]
+fn the_central_charges_export_beside_the_network_figure() {
+    let mut h = harness(Scenario {
+        reach: 5.0,
+        ..two_zeros()
+    });
+    wait_for_spectrum(&mut h);
+    let dir = std::env::temp_dir().join(format!("wallflower-zexport-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    h.state_mut().export_path = dir.join("fig.svg").display().to_string();
+    h.get_by_label("Export central charges").click();
+    h.run_steps(3);
+    let written = dir.join("fig-charges.svg");
+    let svg = std::fs::read_to_string(&written).expect("the figure was written");
+    assert!(
+        !dir.join("fig.svg").exists(),
+        "the network figure is untouched"
+    );
+    // The one state of the oscillator, labelled with kind and index (the
+    // writer draws each label twice: a halo in the background colour, then
+    // the text).
+    assert_eq!(svg.matches(">H \u{3a9}=1<").count(), 2, "{svg}");
+    assert!(h
+        .state()
+        .file_message
+        .as_deref()
+        .is_some_and(|m| m.contains("fig-charges.svg")));
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -54,6 +54,8 @@ pub enum Command {
     Save,
     SaveAs(PathBuf),
     ExportTo(PathBuf),
+    /// The central-charge plane of the spectrum as a figure.
+    ExportChargesTo(PathBuf),
     SetTheme(Theme),
     Fit,
     RestoreRecovery,

@@ -734,6 +734,7 @@ impl WallflowerApp {
             },
             Command::SaveAs(path) => self.save_to(path),
             Command::ExportTo(path) => self.export_to(&path),
+            Command::ExportChargesTo(path) => self.export_charges_to(&path),
             Command::SetTheme(t) => self.scenario.theme = t,
             Command::Fit => self.fit_view(),
             Command::Quit => self.quit_requested = true,
@@ -837,6 +838,13 @@ impl WallflowerApp {
     fn export_to(&mut self, path: &std::path::Path) {
         self.file_message = Some(match super::export::export(self, path) {
             Ok(()) => format!("exported {}", path.display()),
+            Err(e) => format!("{e:#}"),
+        });
+    }
+
+    fn export_charges_to(&mut self, path: &std::path::Path) {
+        self.file_message = Some(match super::export::export_charges(self, path) {
+            Ok(()) => format!("exported the central charges to {}", path.display()),
             Err(e) => format!("{e:#}"),
         });
     }

@@ -1,9 +1,11 @@
 //! Export from the window: SVG or PNG of the shown network, through the
 //! same scene builder and writers as the command line's `draw`. The view
 //! is the canvas's (same centre, same width in z), at the chosen size and
-//! theme.
+//! theme. The central-charge plane of the spectrum exports the same way,
+//! through the figure builder of `spectrum --plot`.
 
 use super::explorer::WallflowerApp;
+use crate::scene::charges::{build_charges, ChargeOptions};
 use crate::scene::{self, SceneOptions, Transform};
 use anyhow::Context as _;
 use std::path::Path;
@@ -32,17 +34,43 @@ pub fn export_scene(app: &WallflowerApp) -> anyhow::Result<crate::scene::Scene> 
     ))
 }
 
-/// Writes `path` as SVG or PNG, by its extension (atomically).
+/// The central-charge figure of the newest spectrum at the chosen size and
+/// theme, with the current phase drawn through 0.
+pub fn charges_scene(app: &WallflowerApp) -> anyhow::Result<crate::scene::Scene> {
+    let spectrum = app
+        .spectrum
+        .as_ref()
+        .context("nothing to export yet: the spectrum is still computing")?;
+    anyhow::ensure!(
+        !spectrum.states.is_empty(),
+        "the spectrum has no states to draw"
+    );
+    let [w, h] = app.export_size;
+    let mut opts = ChargeOptions::new(w as f32, h as f32, app.export_theme);
+    opts.phase = Some(app.scenario.phase);
+    Ok(build_charges(spectrum, &opts))
+}
+
+/// Writes the network figure to `path` as SVG or PNG, by its extension
+/// (atomically).
 pub fn export(app: &WallflowerApp, path: &Path) -> anyhow::Result<()> {
+    write_scene(&export_scene(app)?, path)
+}
+
+/// Writes the central-charge figure to `path`, like [`export`].
+pub fn export_charges(app: &WallflowerApp, path: &Path) -> anyhow::Result<()> {
+    write_scene(&charges_scene(app)?, path)
+}
+
+fn write_scene(scene: &crate::scene::Scene, path: &Path) -> anyhow::Result<()> {
     let ext = path
         .extension()
         .map(|e| e.to_string_lossy().to_ascii_lowercase())
         .unwrap_or_default();
-    let scene = export_scene(app)?;
     match ext.as_str() {
-        "svg" => super::files::atomic_write(path, &crate::export::to_svg(&scene)),
+        "svg" => super::files::atomic_write(path, &crate::export::to_svg(scene)),
         "png" => {
-            let bytes = crate::export::to_png(&scene)?;
+            let bytes = crate::export::to_png(scene)?;
             super::files::atomic_write_bytes(path, &bytes)
         }
         _ => anyhow::bail!(

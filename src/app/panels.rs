@@ -420,6 +420,16 @@ impl WallflowerApp {
                     .push(Command::ExportTo(PathBuf::from(self.export_path.trim())));
             }
         });
+        if ui
+            .button("Export central charges")
+            .on_hover_text(
+                "the BPS states in the central-charge plane, to the same file name with -charges added",
+            )
+            .clicked()
+        {
+            let path = charges_path(self.export_path.trim());
+            self.commands.push(Command::ExportChargesTo(path));
+        }
     }
 
     fn quadratic_editor(&mut self, ui: &mut egui::Ui) {
@@ -569,6 +579,20 @@ impl WallflowerApp {
     }
 }
 
+/// Where the central-charge figure of an export goes: `net.svg` gives
+/// `net-charges.svg`, so it never overwrites the network figure.
+pub fn charges_path(export_path: &str) -> PathBuf {
+    let p = std::path::Path::new(export_path);
+    let stem = p.file_stem().map_or_else(
+        || "network".to_string(),
+        |s| s.to_string_lossy().into_owned(),
+    );
+    let ext = p
+        .extension()
+        .map_or_else(|| "svg".to_string(), |e| e.to_string_lossy().into_owned());
+    p.with_file_name(format!("{stem}-charges.{ext}"))
+}
+
 pub fn kind_name(kind: crate::spectrum::Kind) -> &'static str {
     match kind {
         crate::spectrum::Kind::Hyper => "hypermultiplet",
@@ -656,7 +680,19 @@ fn complex_pad(
 
 #[cfg(test)]
 mod tests {
-    use super::error_excerpt;
+    use super::{charges_path, error_excerpt};
+    use std::path::PathBuf;
+
+    #[test]
+    fn the_charges_figure_never_takes_the_network_figures_name() {
+        assert_eq!(
+            charges_path("out/net.png"),
+            PathBuf::from("out/net-charges.png")
+        );
+        assert_eq!(charges_path("net.svg"), PathBuf::from("net-charges.svg"));
+        assert_eq!(charges_path("figure"), PathBuf::from("figure-charges.svg"));
+        assert_eq!(charges_path(""), PathBuf::from("network-charges.svg"));
+    }
 
     #[test]
     fn caret_points_at_the_column_in_a_short_excerpt() {
