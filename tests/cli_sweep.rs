@@ -130,3 +130,88 @@ fn bad_sweeps_say_why_in_one_line() {
     assert!(err.contains("cannot make the folder"), "{err}");
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn a_parameter_sweep_draws_each_value_at_a_fixed_phase() {
+    let dir = tmp_dir("param");
+    let out = dir.to_str().unwrap();
+    let (code, _, err) = run(&[
+        "sweep",
+        "scenarios/su2-pure.ron",
+        "--param-from",
+        "u=0.4",
+        "--param-to",
+        "u=3+1i",
+        "--frames",
+        "3",
+        "--phase",
+        "0.2",
+        "--format",
+        "svg",
+        "--size",
+        "300x300",
+        "-o",
+        out,
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let single = dir.join("single.svg");
+    let (from, to) = (
+        num_complex::Complex64::new(0.4, 0.0),
+        num_complex::Complex64::new(3.0, 1.0),
+    );
+    let mut frames = Vec::new();
+    for k in 0..3 {
+        // Both ends included: u = from, the midpoint, to.
+        let v = from + (to - from) * (k as f64 / 2.0);
+        let title = format!("u = {:.4}{:+.4}i", v.re, v.im);
+        let set = format!("u={}{:+}i", v.re, v.im);
+        let (code, _, err) = run(&[
+            "draw",
+            "scenarios/su2-pure.ron",
+            "--set",
+            &set,
+            "--phase",
+            "0.2",
+            "--title",
+            &title,
+            "--size",
+            "300x300",
+            "-o",
+            single.to_str().unwrap(),
+        ]);
+        assert_eq!(code, 0, "{err}");
+        let frame = std::fs::read_to_string(dir.join(format!("frame-{k:04}.svg"))).unwrap();
+        assert!(frame.contains(&title), "frame {k} lacks its label {title}");
+        assert_eq!(
+            frame,
+            std::fs::read_to_string(&single).unwrap(),
+            "frame {k} differs from draw --set {set}"
+        );
+        frames.push(frame);
+    }
+    assert_ne!(frames[0], frames[2], "the walls moved with u");
+    // Bad parameter paths.
+    for (args, needle) in [
+        (
+            vec!["--param-from", "u=1", "--param-to", "v=2"],
+            "different parameters",
+        ),
+        (
+            vec!["--param-from", "w=1", "--param-to", "w=2"],
+            "no parameter w",
+        ),
+        (vec!["--param-from", "u=1"], "--param-to"),
+        (
+            vec!["--param-from", "u=1", "--param-to", "u=2", "--from", "0"],
+            "--from",
+        ),
+    ] {
+        let mut all = vec!["sweep", "scenarios/su2-pure.ron", "-o", out];
+        all.extend(args.iter().copied());
+        let (code, _, err) = run(&all);
+        assert_eq!(code, 2, "{args:?}: {err}");
+        assert_eq!(err.trim().lines().count(), 1, "{args:?}: {err}");
+        assert!(err.contains(needle), "{args:?}: {err}");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -146,11 +146,21 @@ pub fn run() -> anyhow::Result<ExitCode> {
             // clap's first line names the problem; the usage lines after it
             // would break the one-line rule.
             let rendered = e.render().to_string();
-            let first = rendered
-                .lines()
-                .find(|l| !l.trim().is_empty())
+            let mut lines = rendered.lines().filter(|l| !l.trim().is_empty());
+            let mut first = lines
+                .next()
                 .unwrap_or("invalid arguments")
-                .trim_start_matches("error: ");
+                .trim_start_matches("error: ")
+                .to_string();
+            // "the following required arguments were not provided:" lists
+            // them on the next lines: keep those, on the same line.
+            if first.ends_with(':') {
+                let listed: Vec<&str> = lines
+                    .take_while(|l| l.starts_with(' '))
+                    .map(str::trim)
+                    .collect();
+                first = format!("{first} {}", listed.join(", "));
+            }
             bad_input!("{first} (see wallflower --help)");
         }
     };

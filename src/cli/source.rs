@@ -33,6 +33,7 @@ pub struct SourceArgs {
 }
 
 /// Everything a command needs, checked.
+#[derive(Clone)]
 pub struct Loaded {
     /// How to name the source in messages: the file path, `--curve` or
     /// `default scenario`.

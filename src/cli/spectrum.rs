@@ -240,7 +240,7 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
     Ok(ExitCode::SUCCESS)
 }
 
-fn parse_assignment(flag: &str, text: &str) -> anyhow::Result<(String, Complex64)> {
+pub(super) fn parse_assignment(flag: &str, text: &str) -> anyhow::Result<(String, Complex64)> {
     let Some((name, value)) = text.split_once('=') else {
         bad_input!("{flag} {text}: expected NAME=VALUE, e.g. {flag} u=0.5");
     };
