@@ -84,7 +84,8 @@ impl WallflowerApp {
     /// The central-charge plane of the newest spectrum, with its
     /// out-of-date mark while the curve has moved on.
     pub(super) fn central_charge_plane(&mut self, ui: &mut egui::Ui) {
-        let Some(spectrum) = self.spectrum.clone() else {
+        // Nothing to plot (the list above says why): no empty section.
+        let Some(spectrum) = self.spectrum.clone().filter(|s| !s.states.is_empty()) else {
             return;
         };
         let stale = self.is_spectrum_computing();
@@ -96,10 +97,6 @@ impl WallflowerApp {
                         RichText::new("out of date: the curve has changed, recomputing\u{2026}")
                             .color(ui.visuals().warn_fg_color),
                     );
-                }
-                if spectrum.states.is_empty() {
-                    ui.label(RichText::new("no states to plot").weak());
-                    return;
                 }
                 self.z_plot(ui, &spectrum, stale);
             });
