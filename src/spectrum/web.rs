@@ -76,9 +76,11 @@ const MAX_GENERATIONS: u32 = 6;
 /// `Im(e^(-i theta) W) = 0`; at the critical phase `W(b)` is on the same
 /// ray, and near b the level set `Im(e^(-i theta) W) = 0` is just the three
 /// trajectories from b (`W - W(b) ~ (2c/3)(z - b)^(3/2)`), so a wall that
-/// close is one of them. The margin absorbs integrator and joint errors
-/// (an error e in W moves the wall by about e^(2/3)).
-const HIT_FRACTION: f64 = 1e-2;
+/// close is one of them (the next term of the local series is a few per
+/// cent of the first there). The margin absorbs integrator and joint
+/// errors: an error e in W moves the wall by about e^(2/3), and joints
+/// placed on their chords carry e up to ~1e-4 relative.
+const HIT_FRACTION: f64 = 0.05;
 /// A web's two charges (integrator and quadrature) differing by more than
 /// this, relative, is warned about.
 const WARN_Z_ERROR: f64 = 1e-6;
@@ -86,9 +88,14 @@ const WARN_Z_ERROR: f64 = 1e-6;
 const SAME_WEB: f64 = 1e-7;
 /// At the scan's tolerance, a candidate's wall must pass its branch point
 /// within this fraction of the capture radius at the candidate's phase
-/// (the phase is then off by about the scan's relative error, which moves
-/// the wall by that to the power 2/3: far less than this).
-const QUICK_FRACTION: f64 = 0.02;
+/// (the phase is then off by about the scan's relative error in W, which
+/// moves the wall by that to the power 2/3: far less than this).
+const QUICK_FRACTION: f64 = 0.25;
+/// Relative agreement of a pass's `W(b)` with a candidate charge. `W(b)`
+/// from the integrator carries the joints' position errors (up to ~1e-3
+/// relative at the scan's tolerance), so this is loose; the quadrature
+/// then gives the charge to 1e-10.
+const WEB_MATCH: f64 = 3e-3;
 
 /// The branch points at the ends of the tree of walls behind a pass.
 fn tree_endpoints(net: &Network, pass: &Pass) -> Option<Vec<usize>> {
@@ -349,18 +356,17 @@ impl<'a> WebFinder<'a> {
 
     /// Whether a candidate was tried or found already: same charge (up to
     /// sign) and, when given, the same branch points.
+    ///
+    /// With the branch points known on both sides, charges within
+    /// `WEB_MATCH` are one web (scan values scatter that much); otherwise
+    /// they must agree to `CANDIDATE_MATCH`.
     fn known(&self, z: Complex64, ends: Option<&[usize]>) -> bool {
-        let same_ends = |e: Option<&[usize]>| match (e, ends) {
-            (Some(a), Some(b)) => a == b,
-            _ => true,
+        let same = |t: Complex64, e: Option<&[usize]>| match (e, ends) {
+            (Some(a), Some(b)) => a == b && same_up_to_sign(t, z, WEB_MATCH),
+            _ => same_up_to_sign(t, z, CANDIDATE_MATCH),
         };
-        self.tried
-            .iter()
-            .any(|(t, e)| same_up_to_sign(*t, z, CANDIDATE_MATCH) && same_ends(e.as_deref()))
-            || self
-                .states
-                .iter()
-                .any(|s| same_up_to_sign(s.z, z, CANDIDATE_MATCH) && same_ends(Some(&s.endpoints)))
+        self.tried.iter().any(|(t, e)| same(*t, e.as_deref()))
+            || self.states.iter().any(|s| same(s.z, Some(&s.endpoints)))
     }
 
     fn drain_queue(&mut self) {
@@ -496,7 +502,7 @@ impl<'a> WebFinder<'a> {
         {
             let net = self.network_at(theta, self.settings.scan_tolerance, only);
             let close = self.passes(&net).iter().any(|p| {
-                same_up_to_sign(p.w, z_cand, CANDIDATE_MATCH)
+                same_up_to_sign(p.w, z_cand, WEB_MATCH)
                     && p.distance <= QUICK_FRACTION * self.radii[p.to]
             });
             if !close {
@@ -514,7 +520,7 @@ impl<'a> WebFinder<'a> {
             let passes = self.passes(&net);
             let Some(best) = passes
                 .iter()
-                .filter(|p| same_up_to_sign(p.w, z_cand, CANDIDATE_MATCH))
+                .filter(|p| same_up_to_sign(p.w, z_cand, WEB_MATCH))
                 .min_by(|a, b| a.distance.total_cmp(&b.distance))
             else {
                 return Vec::new();
