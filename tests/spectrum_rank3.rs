@@ -559,6 +559,28 @@ fn cli_json_for_rank_three() {
         .all(|s| s["omega"].is_null()));
 }
 
+/// A closed form: on y^3 - 3y + z^3 = 0 the lightest states have |Z| = pi.
+///
+/// Derivation (ours; the integral is Euler's Beta integral). A web's
+/// charge is the period of y dz over a closed cycle of the curve, and
+/// y dz = d(yz) - z dy, so it equals -(the period of z dy). Over the y-plane
+/// the curve is z = w^k (3y - y^3)^(1/3) (w^3 = 1), branched at y = 0,
+/// +-sqrt(3). The cycle running from y = 0 to y = sqrt(3) on sheet k and
+/// back on sheet k' has period (w^k - w^k') I with
+/// I = int_0^sqrt(3) (3y - y^3)^(1/3) dy = 3 int_0^1 u^(1/3) (1 - u^2)^(1/3) du
+///   = (3/2) B(2/3, 4/3) = (1/2) Gamma(1/3) Gamma(2/3) = pi / sqrt(3),
+/// and |w^k - w^k'| = sqrt(3): |Z| = pi.
+#[test]
+fn cubic_well_lightest_states_have_abs_z_pi() {
+    let cv = curve("y^3 - 3*y + z^3 = 0", &[]);
+    let sp = spectrum(&cv, 5.0);
+    print("cubic well", &sp);
+    let lightest = sp.states.first().expect("states");
+    assert!((lightest.abs - PI).abs() < 1e-8 * PI, "{}", lightest.abs);
+    assert!(sp.states.iter().all(|s| s.abs > PI * (1.0 - 1e-8)));
+    check_states("cubic well", &cv, &sp, 1e-6);
+}
+
 /// Completeness of the scan: three times as many phases find the same
 /// states (charges up to sign, and branch points).
 #[test]
