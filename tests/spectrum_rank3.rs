@@ -626,3 +626,35 @@ fn rank_four_spectrum_is_closed_under_conjugation() {
     }
     check_states("rank 4", &cv, &sp, 1e-4);
 }
+
+/// Bounded work: a small network budget stops the search with a warning
+/// and whatever was confirmed so far (each a real state).
+#[test]
+fn network_budget_stops_with_a_warning() {
+    let cv = scenario_curve();
+    let settings = SpectrumSettings {
+        reach: 8.0,
+        max_networks: 12,
+        ..SpectrumSettings::default()
+    };
+    let sp = find(&cv, &settings, &CancelToken::new(), &mut |_| {});
+    assert!(sp.stats.networks_grown <= 12, "{:?}", sp.stats);
+    assert!(
+        sp.warnings.iter().any(|w| w.contains("max_networks")),
+        "{:?}",
+        sp.warnings
+    );
+    let full = spectrum(&cv, 8.0);
+    assert!(full.stats.networks_grown > 12);
+    for s in &sp.states {
+        assert!(full
+            .states
+            .iter()
+            .any(|t| t.endpoints == s.endpoints && same_up_to_sign(t.z, s.z, 1e-9)));
+    }
+    // Cancelled before it starts: partial (empty) and marked.
+    let cancel = CancelToken::new();
+    cancel.cancel();
+    let sp = find(&cv, &SpectrumSettings::default(), &cancel, &mut |_| {});
+    assert!(sp.cancelled && sp.states.is_empty());
+}

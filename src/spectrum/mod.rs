@@ -88,6 +88,9 @@ pub struct SpectrumStats {
     pub theta_samples: usize,
     pub candidates_tried: usize,
     pub walls_grown: usize,
+    /// Whole or partial networks grown (rank >= 3).
+    #[serde(default)]
+    pub networks_grown: usize,
 }
 
 /// The result of [`find`].

@@ -193,6 +193,8 @@ struct WebFinder<'a> {
     stats: SpectrumStats,
     cancelled: bool,
     budget_hit: bool,
+    /// `max_networks` was reached.
+    networks_hit: bool,
     truncated: bool,
     notes: Vec<String>,
 }
@@ -250,6 +252,7 @@ impl<'a> WebFinder<'a> {
             stats: SpectrumStats::default(),
             cancelled: false,
             budget_hit: false,
+            networks_hit: false,
             truncated: false,
             notes: Vec::new(),
         }
@@ -259,7 +262,10 @@ impl<'a> WebFinder<'a> {
         if self.cancel.is_cancelled() {
             self.cancelled = true;
         }
-        self.cancelled || self.budget_hit
+        if self.stats.networks_grown >= self.settings.max_networks {
+            self.networks_hit = true;
+        }
+        self.cancelled || self.budget_hit || self.networks_hit
     }
 
     /// The network (joints included) at `theta`, reaching just past the
@@ -282,6 +288,7 @@ impl<'a> WebFinder<'a> {
             Some(bps) => self.partial_network(theta, &settings, bps),
         };
         self.stats.walls_grown += net.walls.len();
+        self.stats.networks_grown += 1;
         match net.limit {
             GrowthLimit::Cancelled => self.cancelled = true,
             GrowthLimit::MaxWalls | GrowthLimit::MaxGenerations => self.truncated = true,
@@ -759,6 +766,12 @@ impl<'a> WebFinder<'a> {
             warnings.push(format!(
                 "stopped after max_candidates = {} candidates: the spectrum may be incomplete",
                 self.settings.max_candidates
+            ));
+        }
+        if self.networks_hit {
+            warnings.push(format!(
+                "stopped after max_networks = {} networks: the spectrum may be incomplete",
+                self.settings.max_networks
             ));
         }
         if self.cancelled {
