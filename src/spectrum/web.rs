@@ -27,11 +27,25 @@
 //! proposes its critical phase directly, with no bracketing inside a class:
 //! the finder re-grows the network there, matches the pass with the same
 //! charge, takes the phase of its independent quadrature, and repeats until
-//! two phases agree to `phase_tolerance` (1e-10). The candidate becomes a
-//! state only when the wall at that phase reaches b within a tiny fraction
-//! of the capture radius. Found states propose their sums and differences
+//! two phases agree to `phase_tolerance` (1e-10). Using the quadrature's
+//! phase (exact for the polyline, whatever the integrator's error) rather
+//! than W(b) makes the iteration settle on the true critical phase even
+//! where a joint was placed on its chord (W(b) then errs by up to ~1e-4).
+//! The candidate becomes a state only when the wall at that phase passes b
+//! within 5% of the capture radius (see `HIT_FRACTION` for why that close
+//! means it runs into b). Found states propose their sums and differences
 //! as further candidates (confirmed the same way, never reported
 //! unconfirmed).
+//!
+//! **Work.** Candidates from the scan carry the branch points of their
+//! tree; they are confirmed on networks grown from those branch points only
+//! (every wall of a web descends from them), after a first look at the
+//! scan's tolerance that rejects most of them with one cheap network. Each
+//! confirmed phase is looked at once more on the whole network, to see
+//! which other webs close there. Networks are counted against
+//! `max_networks` and candidates against `max_candidates`; the cancel
+//! token is polled by every network. A search stopped by either says so
+//! and keeps what it confirmed.
 //!
 //! The scan covers theta in [0, pi): the network at theta + pi is the same
 //! set of curves with every type ij read as ji (both sides of the wall
@@ -215,6 +229,28 @@ fn direction_hint(wall: &Wall, k: usize, theta: f64) -> Option<Complex64> {
     (dz.norm() > 0.0 && dt > 0.0).then(|| Complex64::from_polar(dt, theta) / dz)
 }
 
+/// The ordered pair of roots whose difference is `hint` (the wall's own
+/// finite difference), when one pair fits clearly better than every other
+/// (to 30%, and at least three times better): this avoids labelling the
+/// sheets from the base point at every pass. `None` leaves it to the labels.
+fn pair_by_hint(roots: &[Complex64], hint: Complex64) -> Option<Pair> {
+    let mut fits: Vec<(f64, usize, usize)> = Vec::new();
+    for a in 0..roots.len() {
+        for b in 0..roots.len() {
+            if a != b {
+                fits.push(((roots[a] - roots[b] - hint).norm() / hint.norm(), a, b));
+            }
+        }
+    }
+    fits.sort_by(|x, y| x.0.total_cmp(&y.0));
+    let (best, a, b) = *fits.first()?;
+    let second = fits.get(1).map_or(f64::INFINITY, |f| f.0);
+    (best < 0.3 && 3.0 * best < second).then_some(Pair {
+        a: roots[a],
+        b: roots[b],
+    })
+}
+
 /// Index of the segment of `points` nearest to `z`.
 fn nearest_segment(points: &[Complex64], z: Complex64) -> usize {
     let dist = |a: Complex64, b: Complex64| {
@@ -283,10 +319,10 @@ impl<'a> WebFinder<'a> {
             max_generations: MAX_GENERATIONS,
             ..Settings::default()
         };
-        let net = match only {
-            None => network::compute(self.curve, theta, &settings, self.cancel),
-            Some(bps) => self.partial_network(theta, &settings, bps),
-        };
+        // Grown here rather than by `network::compute`: the finder needs
+        // no flatness diagnostics, which cost as much as a tenth of a network.
+        let all: Vec<usize> = (0..self.curve.branch_points.len()).collect();
+        let net = self.partial_network(theta, &settings, only.unwrap_or(&all));
         self.stats.walls_grown += net.walls.len();
         self.stats.networks_grown += 1;
         match net.limit {
@@ -466,11 +502,17 @@ impl<'a> WebFinder<'a> {
             .filter(|(k, _)| *k <= closest)
             .min_by(|a, b| (a.1 - 0.25 * r).abs().total_cmp(&(b.1 - 0.25 * r).abs()))?;
         let z_k = wall.points[k].z;
-        let pair = self.labelled_pair(wall, k, z_k)?;
         let hint = direction_hint(wall, k, theta)?;
-        if (pair.diff() / hint).re <= 0.0 {
-            return None;
-        }
+        let pair = match pair_by_hint(&self.curve.roots_unordered(z_k), hint) {
+            Some(pair) => pair,
+            None => {
+                let pair = self.labelled_pair(wall, k, z_k)?;
+                if (pair.diff() / hint).re <= 0.0 {
+                    return None;
+                }
+                pair
+            }
+        };
         let tail = self
             .quad
             .to_branch_point(z_k, pair, self.curve.branch_points[to].z)?;
