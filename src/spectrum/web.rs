@@ -111,6 +111,19 @@ const QUICK_FRACTION: f64 = 0.25;
 /// then gives the charge to 1e-10.
 const WEB_MATCH: f64 = 3e-3;
 
+/// Per-web warnings shown one by one up to this many, then counted.
+const NOTES_SHOWN: usize = 6;
+
+/// The first `NOTES_SHOWN` notes, then one line counting the rest.
+fn summarised(notes: Vec<String>, what: &str) -> Vec<String> {
+    let n = notes.len();
+    let mut out: Vec<String> = notes.into_iter().take(NOTES_SHOWN).collect();
+    if n > NOTES_SHOWN {
+        out.push(format!("{} more webs {what} (not listed)", n - NOTES_SHOWN));
+    }
+    out
+}
+
 /// The branch points at the ends of the tree of walls behind a pass.
 fn tree_endpoints(net: &Network, pass: &Pass) -> Option<Vec<usize>> {
     let mut ends = vec![pass.to];
@@ -145,6 +158,11 @@ pub(super) fn find(
                 bp.order
             ));
         }
+    }
+    if !curve.branch_points.iter().any(|bp| bp.simple) {
+        // No walls start anywhere: no webs to look for.
+        progress(1.0);
+        return Spectrum::empty(settings.reach, warnings);
     }
     let mut finder = WebFinder::new(curve, settings, cancel);
     finder.run(progress);
@@ -210,7 +228,9 @@ struct WebFinder<'a> {
     /// `max_networks` was reached.
     networks_hit: bool,
     truncated: bool,
-    notes: Vec<String>,
+    /// Per-web warnings: index unknown, and charges that disagree.
+    unknown_notes: Vec<String>,
+    error_notes: Vec<String>,
 }
 
 /// `y_i - y_j` near point k of a wall from its own finite difference
@@ -290,7 +310,8 @@ impl<'a> WebFinder<'a> {
             budget_hit: false,
             networks_hit: false,
             truncated: false,
-            notes: Vec::new(),
+            unknown_notes: Vec::new(),
+            error_notes: Vec::new(),
         }
     }
 
@@ -427,7 +448,7 @@ impl<'a> WebFinder<'a> {
             }
             self.stats.candidates_tried += 1;
             self.tried.push((z, ends.clone()));
-            for state in self.confirm(z, ends.as_deref()) {
+            for (state, problems) in self.confirm(z, ends.as_deref()) {
                 let dup = self.states.iter().any(|s| {
                     same_up_to_sign(s.z, state.z, CANDIDATE_MATCH) && s.endpoints == state.endpoints
                 });
@@ -442,6 +463,18 @@ impl<'a> WebFinder<'a> {
                             self.queue.push((z, None));
                         }
                     }
+                }
+                if state.z_error > WARN_Z_ERROR * state.abs {
+                    self.error_notes.push(format!(
+                        "the web with |Z| = {:.6} at phase {:.6}: the integrator's charge differs from the quadrature by {:.1e} (a joint placed less accurately); Z is the quadrature's",
+                        state.abs, state.phase, state.z_error
+                    ));
+                }
+                if !problems.is_empty() {
+                    self.unknown_notes.push(format!(
+                        "the web with |Z| = {:.6} at phase {:.6} has index unknown: {problems}",
+                        state.abs, state.phase
+                    ));
                 }
                 self.states.push(state);
             }
@@ -545,7 +578,7 @@ impl<'a> WebFinder<'a> {
     /// A first look at the scan's tolerance rejects most candidates
     /// cheaply: a pass of the right charge must come within
     /// `QUICK_FRACTION` of the capture radius of its branch point.
-    fn confirm(&mut self, candidate: Complex64, only: Option<&[usize]>) -> Vec<BpsState> {
+    fn confirm(&mut self, candidate: Complex64, only: Option<&[usize]>) -> Vec<(BpsState, String)> {
         let mut z_cand = candidate;
         let mut theta = phase_mod_pi(z_cand.arg());
         {
@@ -599,7 +632,13 @@ impl<'a> WebFinder<'a> {
 
     /// The states of all webs that close in `net` (at a critical phase),
     /// with `confirmed` among them even where `net` (grown anew) misses it.
-    fn states_at(&mut self, net: &Network, passes: &[Pass], confirmed: Web) -> Vec<BpsState> {
+    /// Each comes with why its index is unknown (empty when it is 1).
+    fn states_at(
+        &mut self,
+        net: &Network,
+        passes: &[Pass],
+        confirmed: Web,
+    ) -> Vec<(BpsState, String)> {
         // `+ 0.0` turns a phase of -0.0 into 0.0.
         let theta = phase_mod_pi(net.theta) + 0.0;
         let mut webs: Vec<Web> = vec![confirmed];
@@ -652,27 +691,9 @@ impl<'a> WebFinder<'a> {
                 } else {
                     -web.z
                 };
-                let z_error = (web.z - web.z_wall)
-                    .norm()
-                    .min((web.z + web.z_wall).norm());
-                if z_error > WARN_Z_ERROR * z.norm() {
-                    self.notes.push(format!(
-                        "the web with |Z| = {:.6} at phase {:.6}: the integrator's charge differs from the quadrature by {:.1e} (a joint placed less accurately); Z is the quadrature's",
-                        z.norm(),
-                        theta,
-                        z_error
-                    ));
-                }
+                let z_error = (web.z - web.z_wall).norm().min((web.z + web.z_wall).norm());
                 let simple = web.problems.is_empty();
-                if !simple {
-                    self.notes.push(format!(
-                        "the web with |Z| = {:.6} at phase {:.6} has index unknown: {}",
-                        z.norm(),
-                        theta,
-                        web.problems.join("; ")
-                    ));
-                }
-                BpsState {
+                let state = BpsState {
                     z,
                     abs: z.norm(),
                     phase: theta,
@@ -681,7 +702,8 @@ impl<'a> WebFinder<'a> {
                     endpoints: web.endpoints,
                     web: web.polylines,
                     z_error,
-                }
+                };
+                (state, web.problems.join("; "))
             })
             .collect()
     }
@@ -798,7 +820,11 @@ impl<'a> WebFinder<'a> {
     }
 
     fn into_spectrum(self, mut warnings: Vec<String>) -> Spectrum {
-        warnings.extend(self.notes);
+        warnings.extend(summarised(self.unknown_notes, "have index unknown"));
+        warnings.extend(summarised(
+            self.error_notes,
+            "have charges that disagree by more than 1e-6 relative",
+        ));
         if self.truncated {
             warnings.push(format!(
                 "some networks stopped growing at a bound (max_walls or {MAX_GENERATIONS} generations): webs deeper than that may be missing"
