@@ -1,7 +1,9 @@
 //! Spectrum benchmarks (issue 5 targets on the 2-core machine):
 //! pure SU(2) q = (1 + 6z + z^2)/z^3 (u = 3, weak coupling: the W boson and
 //! a dyon tower) to reach 8 |Z_W|, target under 1 s; a generic quartic to
-//! reach 10, target under 300 ms.
+//! reach 10, target under 300 ms. Also the finite webs of the three-sheet
+//! scenario y^3 - 3 a z y + z^3 - 1 = 0 (a = 0.5) to reach 8 (no target
+//! yet; reported).
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use std::collections::BTreeMap;
@@ -43,6 +45,15 @@ fn spectrum(c: &mut Criterion) {
         reach: 10.0,
         ..SpectrumSettings::default()
     };
+    let rank3 = {
+        let eq = parse_equation("y^3 - 3*a*z*y + z^3 - 1 = 0").unwrap();
+        let params = BTreeMap::from([("a".to_string(), num_complex::Complex64::new(0.5, 0.0))]);
+        Curve::from_poly_in_y(&eq.evaluate(&params).unwrap()).unwrap()
+    };
+    let rank3_settings = SpectrumSettings {
+        reach: 8.0,
+        ..SpectrumSettings::default()
+    };
     let mut group = c.benchmark_group("spectrum");
     group.sample_size(10);
     group.warm_up_time(Duration::from_millis(500));
@@ -62,6 +73,16 @@ fn spectrum(c: &mut Criterion) {
             find(
                 black_box(&quartic),
                 &quartic_settings,
+                &CancelToken::new(),
+                &mut |_| {},
+            )
+        })
+    });
+    group.bench_function("rank3_scenario_reach_8", |b| {
+        b.iter(|| {
+            find(
+                black_box(&rank3),
+                &rank3_settings,
                 &CancelToken::new(),
                 &mut |_| {},
             )

@@ -189,7 +189,7 @@ pub fn compute(scenario: &Scenario, cancel: &CancelToken) -> Result<Arc<Computed
 }
 
 /// The BPS states of a scenario's curve up to its reach, on the spectrum
-/// worker (rank 2 only; other ranks give an empty spectrum with a warning).
+/// worker (saddles and ring domains for rank 2, finite webs above).
 pub fn compute_spectrum(
     scenario: &Scenario,
     cancel: &CancelToken,

@@ -25,14 +25,17 @@
 //! integrator's value. Each particle/antiparticle pair is reported once,
 //! with its phase in [0, pi) and `Z = |Z| e^(i phase)`.
 //!
-//! Rank 3 and up is not implemented: the result is empty with a warning
-//! saying so (never a guess).
+//! Rank 3 and up: finite webs, found by [`web`] (saddle connections and
+//! trees of walls through joints closed at a branch point; index 1 for
+//! simple webs, index unknown with a warning otherwise).
 
 pub mod crossing;
+pub mod pair;
 pub mod period;
 pub mod ring;
 pub mod saddle;
 mod settings;
+pub mod web;
 
 pub use crossing::{crossing, Crossing, CrossingReport};
 pub use settings::SpectrumSettings;
@@ -85,6 +88,9 @@ pub struct SpectrumStats {
     pub theta_samples: usize,
     pub candidates_tried: usize,
     pub walls_grown: usize,
+    /// Whole or partial networks grown (rank >= 3).
+    #[serde(default)]
+    pub networks_grown: usize,
 }
 
 /// The result of [`find`].
@@ -157,6 +163,9 @@ pub fn find(
 ) -> Spectrum {
     if let Err(errors) = settings.validate() {
         return Spectrum::empty(settings.reach, errors);
+    }
+    if curve.rank >= 3 {
+        return web::find(curve, settings, cancel, progress);
     }
     let mut warnings: Vec<String> = Vec::new();
     let Some(q) = curve.quadratic_differential() else {

@@ -30,6 +30,11 @@ pub struct SpectrumSettings {
     /// Most candidates confirmed by re-integration (bounds the work).
     /// Range [1, 10^6]. Default 2000.
     pub max_candidates: usize,
+    /// Rank >= 3: most networks (whole or partial, joints included) grown
+    /// by one search, scan included; the work of a web search is counted in
+    /// networks. Range [1, 10^6]. Default 1500 (the worked three-sheet
+    /// scenario needs about 100 to reach 8).
+    pub max_networks: usize,
     /// Walls stop outside a square this many times the default network box
     /// (so saddles that swing wide are still followed). Range [1, 1000].
     /// Default 4.
@@ -46,6 +51,7 @@ impl Default for SpectrumSettings {
             phase_tolerance: 1e-10,
             step_budget: 50_000,
             max_candidates: 2000,
+            max_networks: 1500,
             bounds_factor: 4.0,
         }
     }
@@ -103,6 +109,13 @@ impl SpectrumSettings {
             format!(
                 "max_candidates must be in [1, 1000000], got {}",
                 self.max_candidates
+            ),
+        );
+        check(
+            (1..=1_000_000).contains(&self.max_networks),
+            format!(
+                "max_networks must be in [1, 1000000], got {}",
+                self.max_networks
             ),
         );
         check(

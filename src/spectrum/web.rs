@@ -1,0 +1,858 @@
+//! Finite webs (rank >= 3): the BPS states of a curve with three or more
+//! sheets.
+//!
+//! At a critical phase some wall of the network, a primary wall or a
+//! descendant born at a joint, runs into a branch point where exactly its
+//! own pair of sheets meets: then the walls from that point run back along
+//! it and the web closes (two-way streets). A primary wall doing so is a
+//! saddle connection between two branch points; a descendant closes a tree
+//! of walls from branch points through joints.
+//!
+//! **Finding the phase.** Every wall of a full network (joints included)
+//! that passes through the capture disc of a simple branch point b (half
+//! the distance to the nearest other singular point) is continued straight
+//! to b:
+//!
+//! ```text
+//! W(b) = e^(i theta) t_k + int_{z_k}^{b} (y_i - y_j) dz
+//! ```
+//!
+//! with t_k the wall's mass at a point z_k of the pass (for a descendant
+//! the mass already includes its parents', Z_ij + Z_jk at its joint). The
+//! tail is only accepted when the pair i, j, followed from z_k, really meets
+//! at b ([`super::pair`]). W(b) is the period of a fixed class (the lift of
+//! the whole tree of walls closed at b) as long as the walls move without
+//! changing how they pass, and the signed miss `Im(e^(-i theta) W(b))`
+//! vanishes exactly at `theta_c = arg W(b)`. So, as for rank 2, every pass
+//! proposes its critical phase directly, with no bracketing inside a class:
+//! the finder re-grows the network there, matches the pass with the same
+//! charge, takes the phase of its independent quadrature, and repeats until
+//! two phases agree to `phase_tolerance` (1e-10). Using the quadrature's
+//! phase (exact for the polyline, whatever the integrator's error) rather
+//! than W(b) makes the iteration settle on the true critical phase even
+//! where a joint was placed on its chord (W(b) then errs by up to ~1e-4).
+//! The candidate becomes a state only when the wall at that phase passes b
+//! within 5% of the capture radius (see `HIT_FRACTION` for why that close
+//! means it runs into b). Found states propose their sums and differences
+//! as further candidates (confirmed the same way, never reported
+//! unconfirmed).
+//!
+//! **Work.** Candidates from the scan carry the branch points of their
+//! tree; they are confirmed on networks grown from those branch points only
+//! (every wall of a web descends from them), after a first look at the
+//! scan's tolerance that rejects most of them with one cheap network. Each
+//! confirmed phase is looked at once more on the whole network, to see
+//! which other webs close there. Networks are counted against
+//! `max_networks` and candidates against `max_candidates`; the cancel
+//! token is polled by every network. A search stopped by either says so
+//! and keeps what it confirmed.
+//!
+//! The scan covers theta in [0, pi): the network at theta + pi is the same
+//! set of curves with every type ij read as ji (both sides of the wall
+//! equation change sign, and a crossing of ji and kj composes to ki where
+//! ij and jk composed to ik), so a web and its antiparticle's web are the
+//! same curves, half a turn apart in phase.
+//!
+//! **Charge and its check.** Z is the sum over the walls of the tree of
+//! `int (y_i - y_j) dz` along each wall's polyline, from its branch point or
+//! joint to the joint where its child is born (or, for the last wall, to
+//! b), by the independent quadrature of [`super::pair`]. `z_error` is its
+//! distance from the integrator's `W(b)`.
+//!
+//! **Index.** A web whose walls form a tree with distinct branch points at
+//! its ends, each wall used once, is a simple web: index 1 (a saddle
+//! connection is the smallest case). Everything else gets kind `Other`
+//! with index `None` and a warning saying why: a wall used twice (a street
+//! carrying a joint of the web in its interior), a branch point reached
+//! twice, a soliton count other than 1, several webs of different charge at
+//! one phase, or webs of equal charge at one phase that share a branch
+//! point. Webs ending on branch points that are not simple are not sought
+//! (warned).
+
+use super::pair::{Pair, PairQuadrature};
+use super::saddle::capture_radii;
+use super::{
+    phase_gap, phase_mod_pi, same_up_to_sign, BpsState, Kind, Spectrum, SpectrumSettings,
+    SpectrumStats, CANDIDATE_MATCH, MAX_REFINE,
+};
+use crate::cancel::CancelToken;
+use crate::curve::Curve;
+use crate::network::{self, default_bounds, growth, GrowthLimit, Network};
+use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Origin, Settings, Wall};
+use num_complex::Complex64;
+use std::f64::consts::PI;
+
+/// Rounds of joint growth in the finder's networks: deep enough for webs
+/// of several joints below the reach (a truncated network is warned about).
+const MAX_GENERATIONS: u32 = 6;
+/// A web closes when, at its critical phase, its last wall passes its
+/// branch point within this fraction of the capture radius. Along a wall
+/// `Im(e^(-i theta) W) = 0`; at the critical phase `W(b)` is on the same
+/// ray, and near b the level set `Im(e^(-i theta) W) = 0` is just the three
+/// trajectories from b (`W - W(b) ~ (2c/3)(z - b)^(3/2)`), so a wall that
+/// close is one of them (the next term of the local series is a few per
+/// cent of the first there). The margin absorbs integrator and joint
+/// errors: an error e in W moves the wall by about e^(2/3), and joints
+/// placed on their chords carry e up to ~1e-4 relative.
+const HIT_FRACTION: f64 = 0.05;
+/// A web's two charges (integrator and quadrature) differing by more than
+/// this, relative, is warned about.
+const WARN_Z_ERROR: f64 = 1e-6;
+/// Relative agreement of two webs' charges found at one phase.
+const SAME_WEB: f64 = 1e-7;
+/// At the scan's tolerance, a candidate's wall must pass its branch point
+/// within this fraction of the capture radius at the candidate's phase
+/// (the phase is then off by about the scan's relative error in W, which
+/// moves the wall by that to the power 2/3: far less than this).
+const QUICK_FRACTION: f64 = 0.25;
+/// Relative agreement of a pass's `W(b)` with a candidate charge. `W(b)`
+/// from the integrator carries the joints' position errors (up to ~1e-3
+/// relative at the scan's tolerance), so this is loose; the quadrature
+/// then gives the charge to 1e-10.
+const WEB_MATCH: f64 = 3e-3;
+
+/// Per-web warnings shown one by one up to this many, then counted.
+const NOTES_SHOWN: usize = 6;
+
+/// The first `NOTES_SHOWN` notes, then one line counting the rest.
+fn summarised(notes: Vec<String>, what: &str) -> Vec<String> {
+    let n = notes.len();
+    let mut out: Vec<String> = notes.into_iter().take(NOTES_SHOWN).collect();
+    if n > NOTES_SHOWN {
+        out.push(format!("{} more webs {what} (not listed)", n - NOTES_SHOWN));
+    }
+    out
+}
+
+/// The branch points at the ends of the tree of walls behind a pass.
+fn tree_endpoints(net: &Network, pass: &Pass) -> Option<Vec<usize>> {
+    let mut ends = vec![pass.to];
+    let mut stack = vec![pass.wall];
+    let mut budget = net.walls.len() + 1;
+    while let Some(w) = stack.pop() {
+        budget = budget.checked_sub(1)?;
+        match net.walls.get(w)?.origin {
+            Origin::BranchPoint { index, .. } => ends.push(index),
+            Origin::Joint { index } => stack.extend(net.joints.get(index)?.parents),
+        }
+    }
+    ends.sort_unstable();
+    ends.dedup();
+    Some(ends)
+}
+
+/// Finds the states of a curve of rank >= 3 (see the module docs).
+pub(super) fn find(
+    curve: &Curve,
+    settings: &SpectrumSettings,
+    cancel: &CancelToken,
+    progress: &mut dyn FnMut(f64),
+) -> Spectrum {
+    let mut warnings = Vec::new();
+    for (idx, bp) in curve.branch_points.iter().enumerate() {
+        if !bp.simple {
+            warnings.push(format!(
+                "branch point {} is not simple ({} sheets meet, order {}): webs ending on it are not sought",
+                idx + 1,
+                bp.n_sheets_meeting,
+                bp.order
+            ));
+        }
+    }
+    if !curve.branch_points.iter().any(|bp| bp.simple) {
+        // No walls start anywhere: no webs to look for.
+        progress(1.0);
+        return Spectrum::empty(settings.reach, warnings);
+    }
+    let mut finder = WebFinder::new(curve, settings, cancel);
+    finder.run(progress);
+    finder.into_spectrum(warnings)
+}
+
+/// A wall passing through the capture disc of a branch point where its own
+/// pair of sheets meets.
+struct Pass {
+    wall: usize,
+    /// The branch point passed.
+    to: usize,
+    /// The wall's point closest to it, and that distance.
+    closest: usize,
+    distance: f64,
+    /// The point the tail to b starts from (about a quarter of the capture
+    /// radius out, where the roots are well separated).
+    k: usize,
+    /// `W(b)`: the integrator's mass at `k` plus the tail.
+    w: Complex64,
+}
+
+/// How far a wall of the tree is used.
+#[derive(Clone, Copy)]
+enum EdgeEnd {
+    /// The last wall: up to point `k`, then straight to branch point `to`.
+    Branch { k: usize, closest: usize, to: usize },
+    /// A parent: up to the joint where its child in the tree is born.
+    Joint(Complex64),
+}
+
+/// A web found at a phase.
+struct Web {
+    /// The independent quadrature's charge.
+    z: Complex64,
+    /// The integrator's `W(b)`.
+    z_wall: Complex64,
+    /// Branch points at its ends, sorted.
+    endpoints: Vec<usize>,
+    polylines: Vec<Vec<Complex64>>,
+    /// Why its index cannot be decided (empty for a simple web).
+    problems: Vec<String>,
+}
+
+struct WebFinder<'a> {
+    curve: &'a Curve,
+    settings: &'a SpectrumSettings,
+    cancel: &'a CancelToken,
+    quad: PairQuadrature<'a>,
+    bounds: Bounds,
+    radii: Vec<f64>,
+    states: Vec<BpsState>,
+    /// Candidates already confirmed or rejected, with their branch points:
+    /// webs of equal charge through other branch points are other states
+    /// (symmetric curves have them).
+    tried: Vec<(Complex64, Option<Vec<usize>>)>,
+    /// Candidate charges, with the branch points whose walls make the web
+    /// (`None`: all of them).
+    queue: Vec<(Complex64, Option<Vec<usize>>)>,
+    stats: SpectrumStats,
+    cancelled: bool,
+    budget_hit: bool,
+    /// `max_networks` was reached.
+    networks_hit: bool,
+    truncated: bool,
+    /// Per-web warnings: index unknown, and charges that disagree.
+    unknown_notes: Vec<String>,
+    error_notes: Vec<String>,
+}
+
+/// `y_i - y_j` near point k of a wall from its own finite difference
+/// `e^(i theta) dt/dz`: only used to check the labelled pair's sign.
+fn direction_hint(wall: &Wall, k: usize, theta: f64) -> Option<Complex64> {
+    let pts = &wall.points;
+    let (a, b) = if k + 1 < pts.len() {
+        (k, k + 1)
+    } else if k >= 1 {
+        (k - 1, k)
+    } else {
+        return None;
+    };
+    let dz = pts[b].z - pts[a].z;
+    let dt = pts[b].mass - pts[a].mass;
+    (dz.norm() > 0.0 && dt > 0.0).then(|| Complex64::from_polar(dt, theta) / dz)
+}
+
+/// The ordered pair of roots whose difference is `hint` (the wall's own
+/// finite difference), when one pair fits clearly better than every other
+/// (to 30%, and at least three times better): this avoids labelling the
+/// sheets from the base point at every pass. `None` leaves it to the labels.
+fn pair_by_hint(roots: &[Complex64], hint: Complex64) -> Option<Pair> {
+    let mut fits: Vec<(f64, usize, usize)> = Vec::new();
+    for a in 0..roots.len() {
+        for b in 0..roots.len() {
+            if a != b {
+                fits.push(((roots[a] - roots[b] - hint).norm() / hint.norm(), a, b));
+            }
+        }
+    }
+    fits.sort_by(|x, y| x.0.total_cmp(&y.0));
+    let (best, a, b) = *fits.first()?;
+    let second = fits.get(1).map_or(f64::INFINITY, |f| f.0);
+    (best < 0.3 && 3.0 * best < second).then_some(Pair {
+        a: roots[a],
+        b: roots[b],
+    })
+}
+
+/// Index of the segment of `points` nearest to `z`.
+fn nearest_segment(points: &[Complex64], z: Complex64) -> usize {
+    let dist = |a: Complex64, b: Complex64| {
+        let d = b - a;
+        let t = if d.norm_sqr() > 0.0 {
+            (((z - a) * d.conj()).re / d.norm_sqr()).clamp(0.0, 1.0)
+        } else {
+            0.0
+        };
+        (a + d * t - z).norm()
+    };
+    (0..points.len().saturating_sub(1))
+        .min_by(|&x, &y| dist(points[x], points[x + 1]).total_cmp(&dist(points[y], points[y + 1])))
+        .unwrap_or(0)
+}
+
+impl<'a> WebFinder<'a> {
+    fn new(curve: &'a Curve, settings: &'a SpectrumSettings, cancel: &'a CancelToken) -> Self {
+        let base = default_bounds(curve);
+        let (cx, cy) = (
+            0.5 * (base.min[0] + base.max[0]),
+            0.5 * (base.min[1] + base.max[1]),
+        );
+        let half = 0.5 * (base.max[0] - base.min[0]) * settings.bounds_factor;
+        Self {
+            curve,
+            settings,
+            cancel,
+            quad: PairQuadrature::new(curve),
+            bounds: Bounds::square(cx, cy, half),
+            radii: capture_radii(curve),
+            states: Vec::new(),
+            tried: Vec::new(),
+            queue: Vec::new(),
+            stats: SpectrumStats::default(),
+            cancelled: false,
+            budget_hit: false,
+            networks_hit: false,
+            truncated: false,
+            unknown_notes: Vec::new(),
+            error_notes: Vec::new(),
+        }
+    }
+
+    fn stop(&mut self) -> bool {
+        if self.cancel.is_cancelled() {
+            self.cancelled = true;
+        }
+        if self.stats.networks_grown >= self.settings.max_networks {
+            self.networks_hit = true;
+        }
+        self.cancelled || self.budget_hit || self.networks_hit
+    }
+
+    /// The network (joints included) at `theta`, reaching just past the
+    /// reach: all of it, or only the walls from the branch points `only`
+    /// and their descendants (every wall of a web descends from the web's
+    /// own branch points, and its joints are crossings among those walls,
+    /// so a web closes in that part exactly as in the whole network).
+    fn network_at(&mut self, theta: f64, tolerance: f64, only: Option<&[usize]>) -> Network {
+        let settings = Settings {
+            reach: self.settings.reach * (1.0 + 1e-6),
+            tolerance,
+            step_budget: self.settings.step_budget,
+            bounds: Some(self.bounds),
+            max_turn_rad: 0.2,
+            max_generations: MAX_GENERATIONS,
+            ..Settings::default()
+        };
+        // Grown here rather than by `network::compute`: the finder needs
+        // no flatness diagnostics, which cost as much as a tenth of a network.
+        let all: Vec<usize> = (0..self.curve.branch_points.len()).collect();
+        let net = self.partial_network(theta, &settings, only.unwrap_or(&all));
+        self.stats.walls_grown += net.walls.len();
+        self.stats.networks_grown += 1;
+        match net.limit {
+            GrowthLimit::Cancelled => self.cancelled = true,
+            GrowthLimit::MaxWalls | GrowthLimit::MaxGenerations => self.truncated = true,
+            GrowthLimit::None => {}
+        }
+        net
+    }
+
+    fn partial_network(&self, theta: f64, settings: &Settings, bps: &[usize]) -> Network {
+        let ctx = GrowContext {
+            curve: self.curve,
+            theta,
+            settings,
+            bounds: self.bounds,
+            cancel: self.cancel,
+        };
+        let mut walls: Vec<Wall> = primary_seeds(self.curve, theta)
+            .into_iter()
+            .filter(|seed| {
+                matches!(seed.origin, Origin::BranchPoint { index, .. } if bps.contains(&index))
+            })
+            .map(|seed| grow_wall(&ctx, seed))
+            .collect();
+        let mut joints = Vec::new();
+        let limit = if self.cancel.is_cancelled() {
+            GrowthLimit::Cancelled
+        } else {
+            growth::grow_descendants(&ctx, &mut walls, &mut joints)
+        };
+        Network {
+            theta,
+            reach: settings.reach,
+            bounds: self.bounds,
+            branch_points: self.curve.branch_points.clone(),
+            punctures: self.curve.punctures.clone(),
+            walls,
+            joints,
+            warnings: Vec::new(),
+            limit,
+            stats: network::Stats::default(),
+            flatness: network::jump::Flatness::default(),
+        }
+    }
+
+    fn run(&mut self, progress: &mut dyn FnMut(f64)) {
+        let reach = self.settings.reach;
+        let n = self.settings.theta_samples;
+        for m in 0..n {
+            if self.stop() {
+                break;
+            }
+            let theta = PI * (m as f64 + 0.5) / n as f64;
+            let net = self.network_at(theta, self.settings.scan_tolerance, None);
+            if self.stop() {
+                break;
+            }
+            for pass in self.passes(&net) {
+                if pass.w.norm() < reach * (1.0 + 1e-6) {
+                    let ends = tree_endpoints(&net, &pass);
+                    if !self.known(pass.w, ends.as_deref()) {
+                        self.queue.push((pass.w, ends));
+                    }
+                }
+            }
+            self.stats.theta_samples += 1;
+            self.drain_queue();
+            progress((m + 1) as f64 / n as f64);
+        }
+        self.drain_queue();
+        progress(1.0);
+    }
+
+    /// Whether a candidate was tried or found already: same charge (up to
+    /// sign) and, when given, the same branch points.
+    ///
+    /// With the branch points known on both sides, charges within
+    /// `WEB_MATCH` are one web (scan values scatter that much); otherwise
+    /// they must agree to `CANDIDATE_MATCH`.
+    fn known(&self, z: Complex64, ends: Option<&[usize]>) -> bool {
+        let same = |t: Complex64, e: Option<&[usize]>| match (e, ends) {
+            (Some(a), Some(b)) => a == b && same_up_to_sign(t, z, WEB_MATCH),
+            _ => same_up_to_sign(t, z, CANDIDATE_MATCH),
+        };
+        self.tried.iter().any(|(t, e)| same(*t, e.as_deref()))
+            || self.states.iter().any(|s| same(s.z, Some(&s.endpoints)))
+    }
+
+    fn drain_queue(&mut self) {
+        while let Some((z, ends)) = self.queue.pop() {
+            if self.stop() {
+                return;
+            }
+            if self.known(z, ends.as_deref()) || z.norm() >= self.settings.reach || z.norm() == 0.0
+            {
+                continue;
+            }
+            if self.stats.candidates_tried >= self.settings.max_candidates {
+                self.budget_hit = true;
+                return;
+            }
+            self.stats.candidates_tried += 1;
+            self.tried.push((z, ends.clone()));
+            for (state, problems) in self.confirm(z, ends.as_deref()) {
+                let dup = self.states.iter().any(|s| {
+                    same_up_to_sign(s.z, state.z, CANDIDATE_MATCH) && s.endpoints == state.endpoints
+                });
+                if dup || state.abs >= self.settings.reach {
+                    continue;
+                }
+                // A web of the sum may run through other branch points:
+                // these candidates are confirmed on whole networks.
+                for s in &self.states {
+                    for z in [s.z + state.z, s.z - state.z] {
+                        if z.norm() < self.settings.reach {
+                            self.queue.push((z, None));
+                        }
+                    }
+                }
+                if state.z_error > WARN_Z_ERROR * state.abs {
+                    self.error_notes.push(format!(
+                        "the web with |Z| = {:.6} at phase {:.6}: the integrator's charge differs from the quadrature by {:.1e} (a joint placed less accurately); Z is the quadrature's",
+                        state.abs, state.phase, state.z_error
+                    ));
+                }
+                if !problems.is_empty() {
+                    self.unknown_notes.push(format!(
+                        "the web with |Z| = {:.6} at phase {:.6} has index unknown: {problems}",
+                        state.abs, state.phase
+                    ));
+                }
+                self.states.push(state);
+            }
+        }
+    }
+
+    /// Every pass of a wall of `net` through the capture disc of a simple
+    /// branch point where the wall's own pair meets.
+    fn passes(&self, net: &Network) -> Vec<Pass> {
+        let mut out = Vec::new();
+        for (w_idx, wall) in net.walls.iter().enumerate() {
+            let own = match wall.origin {
+                Origin::BranchPoint { index, .. } => Some(index),
+                Origin::Joint { .. } => None,
+            };
+            for (to, bp) in self.curve.branch_points.iter().enumerate() {
+                if !bp.simple || own == Some(to) {
+                    continue;
+                }
+                let r = self.radii[to];
+                // Runs of consecutive points inside the disc.
+                let mut run: Vec<(usize, f64)> = Vec::new();
+                for k in 1..=wall.points.len() {
+                    let inside = wall.points.get(k).and_then(|p| {
+                        let d = (p.z - bp.z).norm();
+                        (d < r).then_some(d)
+                    });
+                    match inside {
+                        Some(d) => run.push((k, d)),
+                        None if !run.is_empty() => {
+                            if let Some(p) = self.make_pass(net.theta, w_idx, wall, to, &run) {
+                                out.push(p);
+                            }
+                            run.clear();
+                        }
+                        None => {}
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    fn make_pass(
+        &self,
+        theta: f64,
+        w_idx: usize,
+        wall: &Wall,
+        to: usize,
+        run: &[(usize, f64)],
+    ) -> Option<Pass> {
+        let &(closest, distance) = run.iter().min_by(|a, b| a.1.total_cmp(&b.1))?;
+        let r = self.radii[to];
+        // Start the tail where the pair is well separated: the point of the
+        // run up to the closest one nearest to a quarter of the radius.
+        let &(k, _) = run
+            .iter()
+            .filter(|(k, _)| *k <= closest)
+            .min_by(|a, b| (a.1 - 0.25 * r).abs().total_cmp(&(b.1 - 0.25 * r).abs()))?;
+        let z_k = wall.points[k].z;
+        let hint = direction_hint(wall, k, theta)?;
+        let pair = match pair_by_hint(&self.curve.roots_unordered(z_k), hint) {
+            Some(pair) => pair,
+            None => {
+                let pair = self.labelled_pair(wall, k, z_k)?;
+                if (pair.diff() / hint).re <= 0.0 {
+                    return None;
+                }
+                pair
+            }
+        };
+        let tail = self
+            .quad
+            .to_branch_point(z_k, pair, self.curve.branch_points[to].z)?;
+        let w = Complex64::from_polar(wall.points[k].mass, theta) + tail;
+        w.is_finite().then_some(Pass {
+            wall: w_idx,
+            to,
+            closest,
+            distance,
+            k,
+            w,
+        })
+    }
+
+    /// The wall's two sheets at `z`, whose labels are those of the wall's
+    /// segment starting at point `idx`.
+    fn labelled_pair(&self, wall: &Wall, idx: usize, z: Complex64) -> Option<Pair> {
+        let labels = self.curve.sheets_at(z).ok()?;
+        let kind = wall.kind_at(idx);
+        Some(Pair {
+            a: labels[kind.i as usize],
+            b: labels[kind.j as usize],
+        })
+    }
+
+    /// Re-grows the walls of the candidate's branch points at its phase
+    /// until the phase settles; then the states of the webs that close in
+    /// the whole network there.
+    ///
+    /// A first look at the scan's tolerance rejects most candidates
+    /// cheaply: a pass of the right charge must come within
+    /// `QUICK_FRACTION` of the capture radius of its branch point.
+    fn confirm(&mut self, candidate: Complex64, only: Option<&[usize]>) -> Vec<(BpsState, String)> {
+        let mut z_cand = candidate;
+        let mut theta = phase_mod_pi(z_cand.arg());
+        {
+            let net = self.network_at(theta, self.settings.scan_tolerance, only);
+            let close = self.passes(&net).iter().any(|p| {
+                same_up_to_sign(p.w, z_cand, WEB_MATCH)
+                    && p.distance <= QUICK_FRACTION * self.radii[p.to]
+            });
+            if !close {
+                return Vec::new();
+            }
+        }
+        for _ in 0..MAX_REFINE {
+            if self.stop() {
+                return Vec::new();
+            }
+            let net = self.network_at(theta, self.settings.tolerance, only);
+            if self.stop() {
+                return Vec::new();
+            }
+            let passes = self.passes(&net);
+            let Some(best) = passes
+                .iter()
+                .filter(|p| same_up_to_sign(p.w, z_cand, WEB_MATCH))
+                .min_by(|a, b| a.distance.total_cmp(&b.distance))
+            else {
+                return Vec::new();
+            };
+            let Some(web) = self.web_of(&net, best) else {
+                return Vec::new();
+            };
+            let theta_new = phase_mod_pi(web.z.arg());
+            if phase_gap(theta_new, theta) <= self.settings.phase_tolerance {
+                if best.distance > HIT_FRACTION * self.radii[best.to] {
+                    return Vec::new();
+                }
+                if only.is_none() {
+                    return self.states_at(&net, &passes, web);
+                }
+                // Other webs closing at the same phase matter for the index:
+                // look at the whole network.
+                let full = self.network_at(theta, self.settings.tolerance, None);
+                let all = self.passes(&full);
+                return self.states_at(&full, &all, web);
+            }
+            theta = theta_new;
+            z_cand = web.z;
+        }
+        Vec::new()
+    }
+
+    /// The states of all webs that close in `net` (at a critical phase),
+    /// with `confirmed` among them even where `net` (grown anew) misses it.
+    /// Each comes with why its index is unknown (empty when it is 1).
+    fn states_at(
+        &mut self,
+        net: &Network,
+        passes: &[Pass],
+        confirmed: Web,
+    ) -> Vec<(BpsState, String)> {
+        // `+ 0.0` turns a phase of -0.0 into 0.0.
+        let theta = phase_mod_pi(net.theta) + 0.0;
+        let mut webs: Vec<Web> = vec![confirmed];
+        for p in passes {
+            if p.distance > HIT_FRACTION * self.radii[p.to] {
+                continue;
+            }
+            let Some(web) = self.web_of(net, p) else {
+                continue;
+            };
+            // The same web seen from its other ends (the walls running back
+            // along its streets) has the same charge and branch points.
+            if !webs
+                .iter()
+                .any(|u| same_up_to_sign(u.z, web.z, SAME_WEB) && u.endpoints == web.endpoints)
+            {
+                webs.push(web);
+            }
+        }
+        let n = webs.len();
+        for a in 0..n {
+            for b in 0..n {
+                if a == b {
+                    continue;
+                }
+                let problem = if !same_up_to_sign(webs[a].z, webs[b].z, SAME_WEB) {
+                    Some("another web of a different charge closes at the same phase")
+                } else if webs[a]
+                    .endpoints
+                    .iter()
+                    .any(|e| webs[b].endpoints.contains(e))
+                {
+                    Some("another web of the same charge shares a branch point with it")
+                } else {
+                    None
+                };
+                if let Some(p) = problem {
+                    if !webs[a].problems.iter().any(|q| q == p) {
+                        webs[a].problems.push(p.to_string());
+                    }
+                }
+            }
+        }
+        let rot = Complex64::from_polar(1.0, theta);
+        webs.into_iter()
+            .map(|web| {
+                // Particle and antiparticle are one state: Z along e^(i theta).
+                let z = if (web.z / rot).re >= 0.0 {
+                    web.z
+                } else {
+                    -web.z
+                };
+                let z_error = (web.z - web.z_wall).norm().min((web.z + web.z_wall).norm());
+                let simple = web.problems.is_empty();
+                let state = BpsState {
+                    z,
+                    abs: z.norm(),
+                    phase: theta,
+                    kind: if simple { Kind::Hyper } else { Kind::Other },
+                    omega: simple.then_some(1),
+                    endpoints: web.endpoints,
+                    web: web.polylines,
+                    z_error,
+                };
+                (state, web.problems.join("; "))
+            })
+            .collect()
+    }
+
+    /// The tree of walls behind a pass, its independent charge and why its
+    /// index may be unknown.
+    fn web_of(&self, net: &Network, pass: &Pass) -> Option<Web> {
+        let mut edges: Vec<(usize, EdgeEnd)> = vec![(
+            pass.wall,
+            EdgeEnd::Branch {
+                k: pass.k,
+                closest: pass.closest,
+                to: pass.to,
+            },
+        )];
+        let mut endpoints = vec![pass.to];
+        let mut i = 0;
+        while i < edges.len() {
+            if edges.len() > net.walls.len() + 1 {
+                return None;
+            }
+            let w = edges[i].0;
+            i += 1;
+            match net.walls[w].origin {
+                Origin::BranchPoint { index, .. } => endpoints.push(index),
+                Origin::Joint { index } => {
+                    let joint = net.joints.get(index)?;
+                    for &parent in &joint.parents {
+                        edges.push((parent, EdgeEnd::Joint(joint.z)));
+                    }
+                }
+            }
+        }
+        let mut problems = Vec::new();
+        let mut walls_used: Vec<usize> = edges.iter().map(|e| e.0).collect();
+        walls_used.sort_unstable();
+        walls_used.dedup();
+        if walls_used.len() < edges.len() {
+            problems.push(
+                "a wall of the web is used twice (a street carries a joint of the web)".to_string(),
+            );
+        }
+        endpoints.sort_unstable();
+        let n_ends = endpoints.len();
+        endpoints.dedup();
+        if endpoints.len() < n_ends {
+            problems.push("the web reaches one branch point twice".to_string());
+        }
+        let mut z = Complex64::new(0.0, 0.0);
+        let mut polylines = Vec::new();
+        for &(w, end) in &edges {
+            let wall = &net.walls[w];
+            let (charge, line, counts) = self.edge(wall, end)?;
+            if counts.iter().any(|mu| mu.abs() != 1) {
+                problems.push("a wall of the web carries more than one soliton".to_string());
+            }
+            z += charge;
+            polylines.push(line);
+        }
+        Some(Web {
+            z,
+            z_wall: pass.w,
+            endpoints,
+            polylines,
+            problems,
+        })
+    }
+
+    /// One wall of a web: `int (y_i - y_j) dz` from its start to where the
+    /// web uses it, the polyline to draw, and its soliton counts there.
+    fn edge(&self, wall: &Wall, end: EdgeEnd) -> Option<(Complex64, Vec<Complex64>, Vec<i64>)> {
+        let pts: Vec<Complex64> = wall.points.iter().map(|p| p.z).collect();
+        let primary = match wall.origin {
+            Origin::BranchPoint { index, .. } => Some(self.curve.branch_points.get(index)?.z),
+            Origin::Joint { .. } => None,
+        };
+        let first = usize::from(primary.is_some());
+        let (last, end_z, draw_last) = match end {
+            EdgeEnd::Branch { k, closest, .. } => (k, None, closest),
+            EdgeEnd::Joint(z) => {
+                let s = nearest_segment(&pts, z);
+                (s, Some(z), s)
+            }
+        };
+        let mut path: Vec<Complex64> = if last >= first {
+            pts[first..=last].to_vec()
+        } else {
+            Vec::new()
+        };
+        path.extend(end_z);
+        let start = *path.first()?;
+        let mut pair = self.labelled_pair(wall, first.min(last), start)?;
+        let mut total = Complex64::new(0.0, 0.0);
+        if let Some(b) = primary {
+            total -= self.quad.to_branch_point(start, pair, b)?;
+        }
+        let (along, pair_end) = self.quad.polyline(&path, pair)?;
+        total += along;
+        pair = pair_end;
+        if let EdgeEnd::Branch { to, .. } = end {
+            total +=
+                self.quad
+                    .to_branch_point(*path.last()?, pair, self.curve.branch_points[to].z)?;
+        }
+        let mut line: Vec<Complex64> = pts[..=draw_last.min(pts.len() - 1)].to_vec();
+        match end {
+            EdgeEnd::Branch { to, .. } => line.push(self.curve.branch_points[to].z),
+            EdgeEnd::Joint(z) => line.push(z),
+        }
+        let counts = (0..=last.min(pts.len() - 1))
+            .map(|i| wall.multiplicity_at(i))
+            .collect();
+        Some((total, line, counts))
+    }
+
+    fn into_spectrum(self, mut warnings: Vec<String>) -> Spectrum {
+        warnings.extend(summarised(self.unknown_notes, "have index unknown"));
+        warnings.extend(summarised(
+            self.error_notes,
+            "have charges that disagree by more than 1e-6 relative",
+        ));
+        if self.truncated {
+            warnings.push(format!(
+                "some networks stopped growing at a bound (max_walls or {MAX_GENERATIONS} generations): webs deeper than that may be missing"
+            ));
+        }
+        if self.budget_hit {
+            warnings.push(format!(
+                "stopped after max_candidates = {} candidates: the spectrum may be incomplete",
+                self.settings.max_candidates
+            ));
+        }
+        if self.networks_hit {
+            warnings.push(format!(
+                "stopped after max_networks = {} networks: the spectrum may be incomplete",
+                self.settings.max_networks
+            ));
+        }
+        if self.cancelled {
+            warnings.push("cancelled: the spectrum is partial".into());
+        }
+        let mut states = self.states;
+        states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
+        Spectrum {
+            reach: self.settings.reach,
+            states,
+            warnings,
+            cancelled: self.cancelled,
+            stats: self.stats,
+        }
+    }
+}
