@@ -301,9 +301,10 @@ impl WallflowerApp {
             .as_ref()
             .filter(|s| s.states.is_empty() && !s.warnings.is_empty())
         {
-            // The finder declined (e.g. rank 3): say so, not "0 states".
+            // No states, with caveats (a budget hit, non-simple branch
+            // points): say so, not a bare "0 states".
             ui.label(
-                RichText::new("spectrum: not computed for this curve")
+                RichText::new("spectrum: no states found, with warnings (hover)")
                     .color(ui.visuals().warn_fg_color),
             )
             .on_hover_text(s.warnings.join("\n"));
