@@ -6,8 +6,10 @@
 //! leaves unchanged.
 
 mod branch;
+mod coeffs;
 mod sheets;
 
+pub use coeffs::{csqrt, CoeffEval};
 pub use sheets::{closest_pair, roots_of_monic, sort_roots, ContinuationError};
 
 use crate::algebra::{Poly, PolyInY, Rational};
@@ -129,6 +131,9 @@ pub struct Curve {
     /// One cut per singular point whose sheets are permuted around it.
     pub cuts: Vec<Cut>,
     pub notes: Vec<CurveNote>,
+    /// `u` arranged for fast evaluation (rebuilt from `u`, never stored).
+    #[serde(skip)]
+    pub(crate) fast: CoeffEval,
 }
 
 pub const MAX_RANK: usize = 8;
@@ -194,6 +199,7 @@ impl Curve {
     fn from_monic(rank: usize, u: Vec<Rational>) -> Result<Self, CurveError> {
         let mut curve = Self {
             rank,
+            fast: CoeffEval::new(&u),
             u,
             branch_points: Vec::new(),
             punctures: Vec::new(),

@@ -124,10 +124,22 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     if !f0.is_finite() {
         return EndReason::Degenerate("sheets coincide at the start".into());
     }
-    let mut h = 0.05 * curve.distance_to_singular(z).min(scale) / f0.norm();
+    let mut h = 0.05 * curve.distance_to_singular(z).min(scale) / modulus(f0);
     let reach = settings.reach;
     let mut stages = [Complex64::new(0.0, 0.0); 7];
     let mut stage_roots: Vec<Complex64> = roots.clone();
+    // For K >= 3 Newton starts each stage from the first-order prediction
+    // y + (dy/dz) dz, with the slopes taken once per step; for K = 2 the
+    // roots have a closed form and need no start.
+    let k = roots.len();
+    let predict = k >= 3;
+    let zero = Complex64::new(0.0, 0.0);
+    let mut slopes = [zero; crate::curve::MAX_RANK];
+    let mut guess = [zero; crate::curve::MAX_RANK];
+    if predict {
+        curve.root_slopes(z, &roots, &mut slopes[..k]);
+    }
+    let (punct_r2, hit_r2) = (punct_r * punct_r, hit_r * hit_r);
     loop {
         if t >= reach * (1.0 - 1e-14) {
             return EndReason::Reach;
@@ -141,7 +153,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         wall.steps += 1;
         // Never step further than half the distance to a singular point.
         let room = curve.distance_to_singular(z);
-        let h_room = 0.5 * room / f0.norm();
+        let h_room = 0.5 * room / modulus(f0);
         h = h.min(h_room).min(reach - t);
         if h.is_nan() || h <= 1e-15 * (1.0 + t) {
             return EndReason::Degenerate(format!(
@@ -159,7 +171,16 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
             let zs = z + dz * h;
             // Only the last stage's roots are kept (they are the roots at
             // the step's end, FSAL); earlier stages reuse the same buffer.
-            if !curve.step_roots_into(&roots, zs, &mut stage_roots) {
+            let ok = if predict {
+                let dzs = zs - z;
+                for a in 0..k {
+                    guess[a] = roots[a] + slopes[a] * dzs;
+                }
+                curve.step_roots_from(&roots, &guess[..k], zs, &mut stage_roots)
+            } else {
+                curve.step_roots_into(&roots, zs, &mut stage_roots)
+            };
+            if !ok {
                 refused = true;
                 break;
             }
@@ -182,7 +203,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         for k in 0..6 {
             dz += stages[k] * A[6][k];
         }
-        let err_norm = (err * h).norm() / (settings.tolerance * (z.norm() + 1.0));
+        let err_norm = modulus(err * h) / (settings.tolerance * (modulus(z) + 1.0));
         if !err_norm.is_finite() || err_norm > 1.0 {
             let factor = if err_norm.is_finite() {
                 0.9 * err_norm.powf(-0.2)
@@ -239,16 +260,19 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         t = t_new;
         roots.clone_from(&stage_roots);
         f0 = f_new;
+        if predict {
+            curve.root_slopes(z, &roots, &mut slopes[..k]);
+        }
         // Stop conditions.
         for (idx, p) in curve.punctures.iter().enumerate() {
             if let Some(pz) = p.z {
-                if (z - pz).norm() < punct_r {
+                if (z - pz).norm_sqr() < punct_r2 {
                     return EndReason::Puncture(idx);
                 }
             }
         }
         for (idx, b) in curve.branch_points.iter().enumerate() {
-            if (z - b.z).norm() < hit_r {
+            if (z - b.z).norm_sqr() < hit_r2 {
                 return EndReason::BranchPoint(idx);
             }
         }
@@ -277,7 +301,14 @@ fn push_dense(
     h: f64,
     max_turn: f64,
 ) {
-    let turn = (f1 / f0).arg().abs();
+    // |arg w| <= max_turn  <=>  Re w >= |w| cos(max_turn): checked first
+    // without atan2, since most steps turn less than that.
+    let w = f1 / f0;
+    let cos_max = max_turn.cos();
+    if w.re >= 0.0 && w.re * w.re >= w.norm_sqr() * cos_max * cos_max {
+        return;
+    }
+    let turn = w.arg().abs();
     if turn.is_nan() || turn <= max_turn {
         return;
     }
@@ -303,6 +334,19 @@ pub fn crossed_cuts(curve: &Curve, a: Complex64, b: Complex64) -> Vec<(f64, usiz
         .collect();
     out.sort_by(|x, y| x.0.total_cmp(&y.0));
     out
+}
+
+/// `|w|` by a plain square root: `norm()` goes through hypot, several
+/// times slower; hypot is kept only where squaring would overflow or
+/// underflow.
+#[inline]
+fn modulus(w: Complex64) -> f64 {
+    let r = w.norm_sqr().sqrt();
+    if r.is_finite() && r > 1e-150 {
+        r
+    } else {
+        w.norm()
+    }
 }
 
 /// The inverse of a permutation given as `perm[a] = image of a`.

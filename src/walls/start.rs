@@ -15,12 +15,18 @@
 
 use super::{Origin, WallPoint, WallSeed, WallType};
 use crate::curve::{BranchPoint, Curve};
-use crate::quad::gauss_legendre_unit;
+use crate::quad::gauss_legendre_rule;
 use num_complex::Complex64;
 use std::f64::consts::TAU;
 
 /// Start distance as a fraction of the room around the branch point.
 const START_FRACTION: f64 = 1e-3;
+
+/// Gauss-Legendre nodes for the period from the branch point. In s the
+/// integrand is analytic for |s| < (room / r0)^(1/2), about 30 at the start
+/// distance, so the rule's error is of order (4 * 30)^(-2n): 1e-41 for 10
+/// nodes, far below rounding.
+const PERIOD_NODES: usize = 10;
 
 /// Seeds of the three primary walls of every simple branch point.
 /// Branch points that are not simple give none (the caller warns).
@@ -116,13 +122,15 @@ pub fn period_from_branch_point(
     let ybar = (yi + yj) * 0.5;
     let half = (yi - yj) * 0.5;
     let mut total = Complex64::new(0.0, 0.0);
-    for (s, w) in gauss_legendre_unit(16) {
+    let mut c = [Complex64::new(0.0, 0.0); crate::curve::MAX_RANK + 1];
+    let c = &mut c[..=curve.rank];
+    for &(s, w) in gauss_legendre_rule(PERIOD_NODES) {
         let z = b + delta * (s * s);
-        let c = curve.coeffs_at(z);
-        let gi = Curve::newton_root(&c, ybar + half * s);
-        let gj = Curve::newton_root(&c, ybar - half * s);
+        curve.coeffs_into(z, c);
+        let gi = Curve::newton_root(c, ybar + half * s);
+        let gj = Curve::newton_root(c, ybar - half * s);
         let d = match (gi, gj) {
-            (Some(a), Some(bb)) if (a - bb).norm() > 0.5 * (half * s).norm() => a - bb,
+            (Some(a), Some(bb)) if (a - bb).norm_sqr() > 0.25 * (half * s).norm_sqr() => a - bb,
             _ => half * (2.0 * s),
         };
         total += d * (2.0 * s) * delta * w;
