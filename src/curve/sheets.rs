@@ -138,18 +138,24 @@ impl Curve {
         z1: Complex64,
         next: &mut [Complex64],
     ) -> bool {
-        self.step_roots_from(roots, roots, z1, next)
+        self.step_roots_from(roots, roots, z1, next, None)
     }
 
     /// [`Curve::step_roots_into`] with Newton started at `guess` (e.g. the
-    /// roots plus a first-order prediction) instead of at `roots`; `roots`
-    /// still decides which root is which and whether the match is clear.
+    /// roots plus a prediction) instead of at `roots`; `roots` still decides
+    /// which root is which and whether the match is clear.
+    ///
+    /// With `free = Some(a)` (K >= 3) root `a` is not polished but taken
+    /// from the sum of the roots, `-u_1`: one Newton solve fewer. Its
+    /// absolute error is then rounding times the size of the roots, so the
+    /// caller should pick a root whose value it needs only for tracking.
     pub fn step_roots_from(
         &self,
         roots: &[Complex64],
         guess: &[Complex64],
         z1: Complex64,
         next: &mut [Complex64],
+        free: Option<usize>,
     ) -> bool {
         let k = roots.len();
         let mut c = [Complex64::new(0.0, 0.0); super::MAX_RANK + 1];
@@ -175,11 +181,20 @@ impl Curve {
                 .max((next[1] - roots[1]).norm_sqr());
             return moved.is_finite() && moved <= MAX_MOVE_FRACTION * MAX_MOVE_FRACTION * sep;
         }
-        for (slot, &g) in next.iter_mut().zip(guess) {
+        let free = free.filter(|&a| a < k && k >= 3);
+        let mut sum = Complex64::new(0.0, 0.0);
+        for (a, (slot, &g)) in next.iter_mut().zip(guess).enumerate() {
+            if Some(a) == free {
+                continue;
+            }
             match Self::newton_root(c, g) {
                 Some(y) => *slot = y,
                 None => return false,
             }
+            sum += *slot;
+        }
+        if let Some(a) = free {
+            next[a] = -c[1] - sum;
         }
         // Ambiguity check: every root moved much less than its distance to
         // the nearest other root.

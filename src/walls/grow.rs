@@ -125,6 +125,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         return EndReason::Degenerate("sheets coincide at the start".into());
     }
     let mut h = 0.05 * curve.distance_to_singular(z).min(scale) / modulus(f0);
+    let lambda_ref = reference_separation(curve, seed, f0);
     let reach = settings.reach;
     let mut stages = [Complex64::new(0.0, 0.0); 7];
     let mut stage_roots: Vec<Complex64> = roots.clone();
@@ -135,6 +136,10 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     let predict = k >= 3;
     let zero = Complex64::new(0.0, 0.0);
     let mut slopes = [zero; crate::curve::MAX_RANK];
+    // Half the second derivative d2y/dz2, from the slopes at the last two
+    // step starts (0 at the first step and after a cut relabels the roots):
+    // the prediction is then of second order.
+    let mut curv = [zero; crate::curve::MAX_RANK];
     let mut guess = [zero; crate::curve::MAX_RANK];
     if predict {
         curve.root_slopes(z, &roots, &mut slopes[..k]);
@@ -174,9 +179,12 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
             let ok = if predict {
                 let dzs = zs - z;
                 for a in 0..k {
-                    guess[a] = roots[a] + slopes[a] * dzs;
+                    guess[a] = roots[a] + (slopes[a] + curv[a] * dzs) * dzs;
                 }
-                curve.step_roots_from(&roots, &guess[..k], zs, &mut stage_roots)
+                // The wall needs sheets i and j to full accuracy; one other
+                // sheet comes from the sum of the roots.
+                let free = (0..k).find(|&a| a != i && a != j);
+                curve.step_roots_from(&roots, &guess[..k], zs, &mut stage_roots, free)
             } else {
                 curve.step_roots_into(&roots, zs, &mut stage_roots)
             };
@@ -203,7 +211,12 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         for k in 0..6 {
             dz += stages[k] * A[6][k];
         }
-        let err_norm = modulus(err * h) / (settings.tolerance * (modulus(z) + 1.0));
+        // The error that matters is that of the period W = int (y_i - y_j) dz,
+        // |y_i - y_j| times the error on z: near a branch point, where the
+        // sheets nearly meet, z may be less accurate by the same factor
+        // (capped at 1 away from it).
+        let weight = (1.0 / (modulus(f0) * lambda_ref)).min(1.0);
+        let err_norm = modulus(err * h) * weight / (settings.tolerance * (modulus(z) + 1.0));
         if !err_norm.is_finite() || err_norm > 1.0 {
             let factor = if err_norm.is_finite() {
                 0.9 * err_norm.powf(-0.2)
@@ -218,6 +231,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         let f_new = stages[6];
         let t_new = t + h;
         let cuts_here = crossed_cuts(curve, z, z_new);
+        let (z_old, first_new) = (z, wall.points.len());
         // Interpolated points would not be ordered with the cut points, which
         // sit on the chord; a step that crosses a cut is drawn as its chord.
         if cuts_here.is_empty() {
@@ -261,7 +275,13 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         roots.clone_from(&stage_roots);
         f0 = f_new;
         if predict {
+            let old = slopes;
             curve.root_slopes(z, &roots, &mut slopes[..k]);
+            let crossed = wall.relabels.last().is_some_and(|r| r.from >= first_new);
+            for a in 0..k {
+                let c = (slopes[a] - old[a]) / (2.0 * (z - z_old));
+                curv[a] = if crossed || !c.is_finite() { zero } else { c };
+            }
         }
         // Stop conditions.
         for (idx, p) in curve.punctures.iter().enumerate() {
@@ -285,6 +305,31 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
             5.0
         };
         h *= grow.clamp(0.2, 5.0);
+    }
+}
+
+/// A typical size of `|y_i - y_j|` for the error weight: for a primary wall
+/// its value at the seed scaled by the square-root law out to the room
+/// around its branch point; for other walls its value at the seed.
+fn reference_separation(curve: &Curve, seed: &WallSeed, f0: Complex64) -> f64 {
+    let at_seed = 1.0 / modulus(f0);
+    let Origin::BranchPoint { index, .. } = seed.origin else {
+        return at_seed;
+    };
+    let Some(bp) = curve.branch_points.get(index) else {
+        return at_seed;
+    };
+    let d = modulus(seed.z - bp.z);
+    let room = curve
+        .singular_points
+        .iter()
+        .map(|s| modulus(s - bp.z))
+        .filter(|r| *r > 1e-12 * (1.0 + modulus(bp.z)))
+        .fold(curve.length_scale(), f64::min);
+    if d > 0.0 && d < room {
+        at_seed * (room / d).sqrt()
+    } else {
+        at_seed
     }
 }
 
