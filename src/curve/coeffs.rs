@@ -78,6 +78,14 @@ impl CoeffEval {
 
     /// Writes `[1, u_1(z), .., u_K(z)]` into `out[..=K]`.
     pub fn eval_into(&self, z: Complex64, out: &mut [Complex64]) {
+        out[0] = ONE;
+        if self.dens.is_empty() {
+            // Polynomial coefficients, the common case.
+            for (slot, n) in out[1..].iter_mut().zip(&self.num) {
+                *slot = horner(n, z);
+            }
+            return;
+        }
         let mut inv = [ONE; super::MAX_RANK];
         for (slot, d) in inv.iter_mut().zip(&self.dens) {
             *slot = ONE / horner(d, z);

@@ -56,9 +56,11 @@ impl Cut {
     /// Where the segment `a -> b` crosses this cut: the fraction along the
     /// segment and whether it crosses from west to east.
     pub fn crossing(&self, a: Complex64, b: Complex64) -> Option<(f64, bool)> {
-        // In w = (z - origin) / CUT_DIRECTION the cut is the positive real axis.
-        let wa = (a - self.origin) / CUT_DIRECTION;
-        let wb = (b - self.origin) / CUT_DIRECTION;
+        // In w = (z - origin) / CUT_DIRECTION the cut is the positive real
+        // axis (CUT_DIRECTION has modulus 1, so dividing is multiplying by
+        // its conjugate, which is cheaper: this runs on every wall step).
+        let wa = (a - self.origin) * CUT_DIRECTION.conj();
+        let wb = (b - self.origin) * CUT_DIRECTION.conj();
         if (wa.im < 0.0) == (wb.im < 0.0) {
             return None;
         }

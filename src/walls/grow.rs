@@ -145,6 +145,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         curve.root_slopes(z, &roots, &mut slopes[..k]);
     }
     let (punct_r2, hit_r2) = (punct_r * punct_r, hit_r * hit_r);
+    let cos_turn = settings.max_turn_rad.cos();
     loop {
         if t >= reach * (1.0 - 1e-14) {
             return EndReason::Reach;
@@ -235,7 +236,17 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         // Interpolated points would not be ordered with the cut points, which
         // sit on the chord; a step that crosses a cut is drawn as its chord.
         if cuts_here.is_empty() {
-            push_dense(wall, z, z_new, f0, f_new, t, h, settings.max_turn_rad);
+            push_dense(
+                wall,
+                z,
+                z_new,
+                f0,
+                f_new,
+                t,
+                h,
+                settings.max_turn_rad,
+                cos_turn,
+            );
         }
         // Branch cuts: apply each crossed cut's permutation in order along the step.
         for (frac, cut_idx, west_to_east) in cuts_here {
@@ -345,11 +356,11 @@ fn push_dense(
     t0: f64,
     h: f64,
     max_turn: f64,
+    cos_max: f64,
 ) {
     // |arg w| <= max_turn  <=>  Re w >= |w| cos(max_turn): checked first
     // without atan2, since most steps turn less than that.
     let w = f1 / f0;
-    let cos_max = max_turn.cos();
     if w.re >= 0.0 && w.re * w.re >= w.norm_sqr() * cos_max * cos_max {
         return;
     }

@@ -15,7 +15,7 @@
 
 use super::crossed_cuts;
 use super::{Origin, WallPoint, WallSeed, WallType};
-use crate::curve::{BranchPoint, Curve, CUT_DIRECTION};
+use crate::curve::{csqrt, BranchPoint, Curve, CUT_DIRECTION};
 use crate::quad::gauss_legendre_rule;
 use num_complex::Complex64;
 use std::f64::consts::{PI, TAU};
@@ -143,21 +143,20 @@ fn seed_for(
     } else {
         (c, a)
     };
+    // Newton on the distance of W from the ray, moving z0 across the wall;
+    // W is recomputed after every move, so it always belongs to z0.
+    let mut w = period_from_branch_point(curve, b, z0, roots[i], roots[j]);
     for _ in 0..3 {
-        let w = period_from_branch_point(curve, b, z0, roots[i], roots[j]);
         let off = (w / rot).im;
         let delta = -Complex64::new(0.0, 1.0) * rot * off / (roots[i] - roots[j]);
-        if !delta.is_finite() || delta.norm() > 0.5 * r0 {
+        if !delta.is_finite() || delta.norm() > 0.5 * r0 || delta.norm() < 1e-13 * r0 {
             break;
         }
         let moved = z0 + delta;
         roots = curve.step_roots(&roots, moved)?;
         z0 = moved;
-        if delta.norm() < 1e-12 * r0 {
-            break;
-        }
+        w = period_from_branch_point(curve, b, z0, roots[i], roots[j]);
     }
-    let w = period_from_branch_point(curve, b, z0, roots[i], roots[j]);
     let mass = (w / rot).re;
     if mass.is_nan() || mass <= 0.0 || !mass.is_finite() {
         return None;
@@ -198,6 +197,19 @@ pub fn period_from_branch_point(
     for &(s, w) in gauss_legendre_rule(PERIOD_NODES) {
         let z = b + delta * (s * s);
         curve.coeffs_into(z, c);
+        if curve.rank == 2 {
+            // Closed form: y_i - y_j = +-2 (u1^2/4 - u2)^(1/2), the sign
+            // nearest the local form.
+            let root = csqrt(c[1] * c[1] * 0.25 - c[2]) * 2.0;
+            let local = half * (2.0 * s);
+            let d = if (root - local).norm_sqr() <= (root + local).norm_sqr() {
+                root
+            } else {
+                -root
+            };
+            total += d * (2.0 * s) * delta * w;
+            continue;
+        }
         let gi = Curve::newton_root(c, ybar + half * s);
         let gj = Curve::newton_root(c, ybar - half * s);
         let d = match (gi, gj) {
