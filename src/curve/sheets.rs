@@ -315,21 +315,26 @@ impl Curve {
 /// every root moved much less than its distance to the nearest other root,
 /// before and after (squared distances throughout).
 fn unambiguous(roots: &[Complex64], next: &[Complex64]) -> bool {
+    // moved <= f^2 sep  <=>  no squared distance below moved / f^2 (early
+    // exits, no running minimum: this runs for every root of every stage).
+    const INV_F2: f64 = 1.0 / (MAX_MOVE_FRACTION * MAX_MOVE_FRACTION);
     let k = roots.len();
-    let mut sep = [f64::INFINITY; super::MAX_RANK];
     for a in 0..k {
-        for b in a + 1..k {
-            let d = (roots[a] - roots[b])
-                .norm_sqr()
-                .min((next[a] - next[b]).norm_sqr());
-            sep[a] = sep[a].min(d);
-            sep[b] = sep[b].min(d);
+        let moved = (next[a] - roots[a]).norm_sqr();
+        if !moved.is_finite() {
+            return false;
+        }
+        let bound = moved * INV_F2;
+        for b in 0..k {
+            if b != a
+                && ((roots[a] - roots[b]).norm_sqr() < bound
+                    || (next[a] - next[b]).norm_sqr() < bound)
+            {
+                return false;
+            }
         }
     }
-    (0..k).all(|a| {
-        next[a].is_finite()
-            && (next[a] - roots[a]).norm_sqr() <= MAX_MOVE_FRACTION * MAX_MOVE_FRACTION * sep[a]
-    })
+    true
 }
 
 /// Roots of the monic polynomial with descending coefficients `c`.
