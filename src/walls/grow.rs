@@ -2,8 +2,21 @@
 //! parameter t, with the sheets carried along by root tracking.
 //!
 //! ```text
-//! dz/dt = e^(i theta) / (y_i(z) - y_j(z)),   error on z  <=  tol (|z| + 1)
+//! dz/dt = e^(i theta) / (y_i(z) - y_j(z))
+//! error on z  <=  tol (|z| + 1) / min(1, |y_i - y_j| / lambda_ref)
 //! ```
+//!
+//! The weight is there because what a step's error costs is its error on
+//! the period W (|y_i - y_j| times the error on z), which is what the mass
+//! measures: near a branch point, where the two sheets nearly meet, z may
+//! be less accurate by that factor. `lambda_ref` is the typical size of
+//! |y_i - y_j| (see `reference_separation`), so away from branch points the
+//! criterion is the plain one.
+//!
+//! For K = 2 the sheets at each stage have a closed form; for K >= 3 they
+//! are found by Newton's method started from a second-order prediction
+//! (slopes -P_z/P_y at the step's start, curvature from the slopes of the
+//! last two steps).
 //!
 //! A step is also refused (and halved) when the sheets at a stage point
 //! cannot be matched unambiguously to those at the step's start, and it is
