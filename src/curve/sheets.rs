@@ -315,20 +315,23 @@ impl Curve {
 /// every root moved much less than its distance to the nearest other root,
 /// before and after (squared distances throughout).
 fn unambiguous(roots: &[Complex64], next: &[Complex64]) -> bool {
-    // moved <= f^2 sep  <=>  no squared distance below moved / f^2 (early
-    // exits, no running minimum: this runs for every root of every stage).
-    const INV_F2: f64 = 1.0 / (MAX_MOVE_FRACTION * MAX_MOVE_FRACTION);
+    // moved_a <= f^2 sep_a for every a  <=>  for every pair, both moves are
+    // at most f^2 times the pair's distance (each pair visited once, early
+    // exits: this runs for every stage of every step).
+    const F2: f64 = MAX_MOVE_FRACTION * MAX_MOVE_FRACTION;
     let k = roots.len();
+    let mut moved = [0.0; super::MAX_RANK];
     for a in 0..k {
-        let moved = (next[a] - roots[a]).norm_sqr();
-        if !moved.is_finite() {
+        moved[a] = (next[a] - roots[a]).norm_sqr();
+        if !moved[a].is_finite() {
             return false;
         }
-        let bound = moved * INV_F2;
-        for b in 0..k {
-            if b != a
-                && ((roots[a] - roots[b]).norm_sqr() < bound
-                    || (next[a] - next[b]).norm_sqr() < bound)
+    }
+    for a in 0..k {
+        for b in a + 1..k {
+            let bound = moved[a].max(moved[b]);
+            if (roots[a] - roots[b]).norm_sqr() * F2 < bound
+                || (next[a] - next[b]).norm_sqr() * F2 < bound
             {
                 return false;
             }
