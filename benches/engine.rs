@@ -5,7 +5,7 @@
 //! notes come from here. Work counters (RHS evaluations per wall, network
 //! memory) are printed once before the timings.
 
-use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
+use criterion::{criterion_group, BenchmarkId, Criterion};
 use num_complex::Complex64;
 use std::collections::BTreeMap;
 use std::hint::black_box;
@@ -175,9 +175,55 @@ fn crossing_search(c: &mut Criterion) {
     group.finish();
 }
 
+/// A fixed amount of work for instruction counting under
+/// `valgrind --tool=callgrind` (criterion's iteration counts vary from run
+/// to run): `WF_PROFILE=rank2|rank3|counters N` runs N networks and exits.
+fn profile(which: &str, n: usize) {
+    let (curve, settings) = match which {
+        "rank2" => (
+            sextic(),
+            Settings {
+                reach: 12.0,
+                ..Settings::default()
+            },
+        ),
+        "rank3" => (
+            equation("y^3 - 3*z*y + z^3 - 1 = 0"),
+            Settings {
+                reach: 6.0,
+                max_generations: 0,
+                ..Settings::default()
+            },
+        ),
+        _ => {
+            report_memory();
+            report_counters();
+            return;
+        }
+    };
+    let mut evals = 0;
+    for _ in 0..n {
+        evals += compute(black_box(&curve), 0.3, &settings, &CancelToken::new())
+            .stats
+            .rhs_evals;
+    }
+    eprintln!("{which}: {n} networks, {evals} RHS evaluations");
+}
+
 criterion_group! {
     name = benches;
     config = Criterion::default().sample_size(20).measurement_time(std::time::Duration::from_secs(3));
     targets = networks, crossing_search
 }
-criterion_main!(benches);
+
+fn main() {
+    if let Ok(spec) = std::env::var("WF_PROFILE") {
+        let mut parts = spec.split_whitespace();
+        let which = parts.next().unwrap_or("rank2").to_string();
+        let n = parts.next().and_then(|v| v.parse().ok()).unwrap_or(10);
+        profile(&which, n);
+        return;
+    }
+    benches();
+    Criterion::default().configure_from_args().final_summary();
+}

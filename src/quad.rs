@@ -4,15 +4,27 @@ use std::f64::consts::PI;
 
 /// `n` Gauss-Legendre nodes and weights mapped to [0, 1] (exact for
 /// polynomials of degree 2n - 1). Rules up to 64 points are computed once
-/// and cached.
+/// and cached; see [`gauss_legendre_rule`] for a borrowed copy.
 pub fn gauss_legendre_unit(n: usize) -> Vec<(f64, f64)> {
-    use std::sync::OnceLock;
-    static CACHE: OnceLock<Vec<Vec<(f64, f64)>>> = OnceLock::new();
     let n = n.max(1);
-    if n <= 64 {
-        return CACHE.get_or_init(|| (0..=64).map(compute_rule).collect())[n].clone();
+    if n <= MAX_CACHED {
+        return gauss_legendre_rule(n).to_vec();
     }
     compute_rule(n)
+}
+
+/// Largest rule kept in the cache.
+pub const MAX_CACHED: usize = 64;
+
+/// The cached `n`-point rule on [0, 1], `1 <= n <= 64` (clamped into that
+/// range). Each rule is computed on first use only: computing all of them
+/// at once cost about 11M instructions, more than a whole rank-2 network.
+pub fn gauss_legendre_rule(n: usize) -> &'static [(f64, f64)] {
+    use std::sync::OnceLock;
+    static CACHE: [OnceLock<Vec<(f64, f64)>>; MAX_CACHED + 1] =
+        [const { OnceLock::new() }; MAX_CACHED + 1];
+    let n = n.clamp(1, MAX_CACHED);
+    CACHE[n].get_or_init(|| compute_rule(n))
 }
 
 /// Newton's method on the Legendre polynomial P_n for each node.

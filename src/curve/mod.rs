@@ -6,8 +6,10 @@
 //! leaves unchanged.
 
 mod branch;
+mod coeffs;
 mod sheets;
 
+pub use coeffs::{csqrt, CoeffEval};
 pub use sheets::{closest_pair, roots_of_monic, sort_roots, ContinuationError};
 
 use crate::algebra::{Poly, PolyInY, Rational};
@@ -54,9 +56,11 @@ impl Cut {
     /// Where the segment `a -> b` crosses this cut: the fraction along the
     /// segment and whether it crosses from west to east.
     pub fn crossing(&self, a: Complex64, b: Complex64) -> Option<(f64, bool)> {
-        // In w = (z - origin) / CUT_DIRECTION the cut is the positive real axis.
-        let wa = (a - self.origin) / CUT_DIRECTION;
-        let wb = (b - self.origin) / CUT_DIRECTION;
+        // In w = (z - origin) / CUT_DIRECTION the cut is the positive real
+        // axis (CUT_DIRECTION has modulus 1, so dividing is multiplying by
+        // its conjugate, which is cheaper: this runs on every wall step).
+        let wa = (a - self.origin) * CUT_DIRECTION.conj();
+        let wb = (b - self.origin) * CUT_DIRECTION.conj();
         if (wa.im < 0.0) == (wb.im < 0.0) {
             return None;
         }
@@ -129,6 +133,9 @@ pub struct Curve {
     /// One cut per singular point whose sheets are permuted around it.
     pub cuts: Vec<Cut>,
     pub notes: Vec<CurveNote>,
+    /// `u` arranged for fast evaluation (rebuilt from `u`, never stored).
+    #[serde(skip)]
+    pub(crate) fast: CoeffEval,
 }
 
 pub const MAX_RANK: usize = 8;
@@ -194,6 +201,7 @@ impl Curve {
     fn from_monic(rank: usize, u: Vec<Rational>) -> Result<Self, CurveError> {
         let mut curve = Self {
             rank,
+            fast: CoeffEval::new(&u),
             u,
             branch_points: Vec::new(),
             punctures: Vec::new(),

@@ -25,7 +25,22 @@ const MAX_MOVE_FRACTION: f64 = 0.3;
 impl Curve {
     /// Monic coefficients of `P(., z)` in descending powers of y: `[1, u1, .., uK]`.
     pub fn coeffs_at(&self, z: Complex64) -> Vec<Complex64> {
-        self.u.iter().map(|r| r.eval(z)).collect()
+        let mut c = [Complex64::new(0.0, 0.0); super::MAX_RANK + 1];
+        self.coeffs_into(z, &mut c);
+        c[..=self.rank].to_vec()
+    }
+
+    /// Allocation-free [`Curve::coeffs_at`]: writes `[1, u1, .., uK]` into
+    /// `out[..=K]`.
+    pub fn coeffs_into(&self, z: Complex64, out: &mut [Complex64]) {
+        if self.fast.len() == self.rank {
+            self.fast.eval_into(z, out);
+        } else {
+            // A curve that was deserialized has no evaluator.
+            for (slot, r) in out.iter_mut().zip(&self.u) {
+                *slot = r.eval(z);
+            }
+        }
     }
 
     /// The K roots of `P(., z)` in no particular order.
@@ -35,6 +50,7 @@ impl Curve {
     }
 
     /// `P(y, z)` and `dP/dy` for monic coefficients `c` (descending).
+    #[inline]
     pub fn eval_p(c: &[Complex64], y: Complex64) -> (Complex64, Complex64) {
         let mut p = Complex64::new(0.0, 0.0);
         let mut dp = Complex64::new(0.0, 0.0);
@@ -47,10 +63,18 @@ impl Curve {
 
     /// Newton-polishes `guess` as a root of the monic polynomial `c`.
     /// Returns `None` if the iteration does not settle.
+    ///
+    /// The iteration stops when the next correction, estimated from the
+    /// last two (`|d_(n+1)| ~ |d_n|^3 / |d_(n-1)|^2` in the quadratic
+    /// regime), or the last correction itself, is below 1e-14 relative: a
+    /// root found from a good prediction then costs two or three
+    /// evaluations of P instead of five or six.
     pub fn newton_root(c: &[Complex64], guess: Complex64) -> Option<Complex64> {
         // Squared moduli and the l1 norm as a scale: `norm()` (hypot) was
         // a third of the integrator's time.
+        const FINAL: f64 = 1e-14;
         let mut y = guess;
+        let mut prev = f64::INFINITY;
         for _ in 0..30 {
             let (p, dp) = Self::eval_p(c, y);
             let step = p / dp;
@@ -58,21 +82,45 @@ impl Curve {
                 return if p.norm_sqr() == 0.0 { Some(y) } else { None };
             }
             y -= step;
-            // Convergence is quadratic: once a step is below 1e-8 relative,
-            // one more step lands at rounding level.
             let scale = 1.0 + y.l1_norm();
-            if step.norm_sqr() <= 1e-16 * scale * scale {
-                let (p, dp) = Self::eval_p(c, y);
-                let last = p / dp;
-                if last.is_finite() {
-                    y -= last;
-                }
+            let s2 = step.norm_sqr();
+            let tiny = FINAL * FINAL * scale * scale;
+            if s2 <= tiny {
                 return Some(y);
             }
+            // In the quadratic regime (each correction much smaller than
+            // the last) the next one is about s^3 / prev^2 (in moduli).
+            if prev.is_finite() && s2 <= 1e-4 * prev && s2 * s2 * s2 <= tiny * prev * prev {
+                return Some(y);
+            }
+            prev = s2;
         }
         let (p, dp) = Self::eval_p(c, y);
         let scale = 1.0 + y.l1_norm();
         ((p / dp).norm_sqr() <= 1e-20 * scale * scale).then_some(y)
+    }
+
+    /// `dy/dz = -P_z / P_y` at each root in `roots` (the sheets at `z`),
+    /// written into `out`: the first-order predictor for root tracking.
+    /// Entries where P_y vanishes are 0.
+    pub fn root_slopes(&self, z: Complex64, roots: &[Complex64], out: &mut [Complex64]) {
+        let k = self.rank;
+        let zero = Complex64::new(0.0, 0.0);
+        let mut c = [zero; super::MAX_RANK + 1];
+        let mut dc = [zero; super::MAX_RANK + 1];
+        if self.fast.len() == k {
+            self.fast.eval_with_derivative_into(z, &mut c, &mut dc);
+        } else {
+            for (idx, r) in self.u.iter().enumerate() {
+                (c[idx], dc[idx]) = r.eval_with_derivative(z);
+            }
+        }
+        for (slot, &y) in out.iter_mut().zip(roots) {
+            let (_, py) = Self::eval_p(&c[..=k], y);
+            let pz = dc[..=k].iter().fold(zero, |acc, d| acc * y + d);
+            let s = -pz / py;
+            *slot = if s.is_finite() { s } else { zero };
+        }
     }
 
     /// Moves a full, ordered set of roots from `z0` to `z1` in one step, or
@@ -90,11 +138,30 @@ impl Curve {
         z1: Complex64,
         next: &mut [Complex64],
     ) -> bool {
+        self.step_roots_from(roots, roots, z1, next, None)
+    }
+
+    /// [`Curve::step_roots_into`] with Newton started at `guess` (e.g. the
+    /// roots plus a prediction) instead of at `roots`; `roots` still decides
+    /// which root is which and whether the match is clear.
+    ///
+    /// With `free = Some(a)` (K >= 3) fewer Newton solves are made. For
+    /// K = 3 only root `a` is solved, and the other two come from the
+    /// quadratic factor left (see `cubic_by_deflation`), so `a` should be
+    /// the sheet the caller needs least. For K >= 4 root `a` is not
+    /// polished but taken from the sum of the roots, `-u_1`; its absolute
+    /// error is then rounding times the size of the roots.
+    pub fn step_roots_from(
+        &self,
+        roots: &[Complex64],
+        guess: &[Complex64],
+        z1: Complex64,
+        next: &mut [Complex64],
+        free: Option<usize>,
+    ) -> bool {
         let k = roots.len();
         let mut c = [Complex64::new(0.0, 0.0); super::MAX_RANK + 1];
-        for (slot, r) in c.iter_mut().zip(&self.u) {
-            *slot = r.eval(z1);
-        }
+        self.coeffs_into(z1, &mut c);
         let c = &c[..=k];
         if c.iter().any(|x| !x.is_finite()) {
             return false;
@@ -102,7 +169,7 @@ impl Curve {
         if k == 2 {
             // Closed form: the two roots are -u1/2 +- s.
             let half = -c[1] * 0.5;
-            let s = (half * half - c[2]).sqrt();
+            let s = super::csqrt(half * half - c[2]);
             let (a, b) = (half + s, half - s);
             let keep = (a - roots[0]).norm_sqr() + (b - roots[1]).norm_sqr()
                 <= (b - roots[0]).norm_sqr() + (a - roots[1]).norm_sqr();
@@ -116,30 +183,59 @@ impl Curve {
                 .max((next[1] - roots[1]).norm_sqr());
             return moved.is_finite() && moved <= MAX_MOVE_FRACTION * MAX_MOVE_FRACTION * sep;
         }
-        for (slot, &r) in next.iter_mut().zip(roots) {
-            match Self::newton_root(c, r) {
+        let free = free.filter(|&a| a < k && k >= 3);
+        if k == 3 {
+            if let Some(f) = free {
+                return Self::cubic_by_deflation(c, roots, guess, f, next);
+            }
+        }
+        let mut sum = Complex64::new(0.0, 0.0);
+        for (a, (slot, &g)) in next.iter_mut().zip(guess).enumerate() {
+            if Some(a) == free {
+                continue;
+            }
+            match Self::newton_root(c, g) {
                 Some(y) => *slot = y,
                 None => return false,
             }
+            sum += *slot;
         }
-        // Ambiguity check: every root moved much less than its distance to
-        // the nearest other root.
-        // (Squared distances throughout.)
-        for a in 0..k {
-            let mut sep = f64::INFINITY;
-            for b in 0..k {
-                if a != b {
-                    sep = sep.min((roots[a] - roots[b]).norm_sqr());
-                    sep = sep.min((next[a] - next[b]).norm_sqr());
-                }
-            }
-            if !next[a].is_finite()
-                || (next[a] - roots[a]).norm_sqr() > MAX_MOVE_FRACTION * MAX_MOVE_FRACTION * sep
-            {
-                return false;
-            }
+        if let Some(a) = free {
+            next[a] = -c[1] - sum;
         }
-        true
+        unambiguous(roots, next)
+    }
+
+    /// K = 3: root `f` by Newton from its guess, the other two from the
+    /// quadratic left after dividing it out, matched to their guesses. Their
+    /// difference then comes from one square root, accurate even where the
+    /// two nearly meet, and the step costs one Newton solve instead of three.
+    fn cubic_by_deflation(
+        c: &[Complex64],
+        roots: &[Complex64],
+        guess: &[Complex64],
+        f: usize,
+        next: &mut [Complex64],
+    ) -> bool {
+        let Some(r) = Self::newton_root(c, guess[f]) else {
+            return false;
+        };
+        // y^3 + c1 y^2 + c2 y + c3 = (y - r)(y^2 + a y + b).
+        let a = c[1] + r;
+        let b = c[2] + r * a;
+        let half = -a * 0.5;
+        let s = super::csqrt(half * half - b);
+        let (p, q) = (half + s, half - s);
+        let (u, v) = match f {
+            0 => (1, 2),
+            1 => (0, 2),
+            _ => (0, 1),
+        };
+        let keep = (p - guess[u]).norm_sqr() + (q - guess[v]).norm_sqr()
+            <= (q - guess[u]).norm_sqr() + (p - guess[v]).norm_sqr();
+        next[f] = r;
+        (next[u], next[v]) = if keep { (p, q) } else { (q, p) };
+        unambiguous(roots, next)
     }
 
     /// Continues an ordered set of roots along the straight segment `z0 -> z1`.
@@ -215,12 +311,41 @@ impl Curve {
     }
 }
 
+/// The ambiguity check of a root-tracking step from `roots` to `next`:
+/// every root moved much less than its distance to the nearest other root,
+/// before and after (squared distances throughout).
+fn unambiguous(roots: &[Complex64], next: &[Complex64]) -> bool {
+    // moved_a <= f^2 sep_a for every a  <=>  for every pair, both moves are
+    // at most f^2 times the pair's distance (each pair visited once, early
+    // exits: this runs for every stage of every step).
+    const F2: f64 = MAX_MOVE_FRACTION * MAX_MOVE_FRACTION;
+    let k = roots.len();
+    let mut moved = [0.0; super::MAX_RANK];
+    for a in 0..k {
+        moved[a] = (next[a] - roots[a]).norm_sqr();
+        if !moved[a].is_finite() {
+            return false;
+        }
+    }
+    for a in 0..k {
+        for b in a + 1..k {
+            let bound = moved[a].max(moved[b]);
+            if (roots[a] - roots[b]).norm_sqr() * F2 < bound
+                || (next[a] - next[b]).norm_sqr() * F2 < bound
+            {
+                return false;
+            }
+        }
+    }
+    true
+}
+
 /// Roots of the monic polynomial with descending coefficients `c`.
 pub fn roots_of_monic(c: &[Complex64]) -> Vec<Complex64> {
     let k = c.len() - 1;
     if k == 2 {
         let half = -c[1] * 0.5;
-        let s = (half * half - c[2]).sqrt();
+        let s = super::csqrt(half * half - c[2]);
         return vec![half + s, half - s];
     }
     let ascending: Vec<Complex64> = c.iter().rev().copied().collect();

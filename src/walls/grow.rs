@@ -2,8 +2,21 @@
 //! parameter t, with the sheets carried along by root tracking.
 //!
 //! ```text
-//! dz/dt = e^(i theta) / (y_i(z) - y_j(z)),   error on z  <=  tol (|z| + 1)
+//! dz/dt = e^(i theta) / (y_i(z) - y_j(z))
+//! error on z  <=  tol (|z| + 1) / min(1, |y_i - y_j| / lambda_ref)
 //! ```
+//!
+//! The weight is there because what a step's error costs is its error on
+//! the period W (|y_i - y_j| times the error on z), which is what the mass
+//! measures: near a branch point, where the two sheets nearly meet, z may
+//! be less accurate by that factor. `lambda_ref` is the typical size of
+//! |y_i - y_j| (see `reference_separation`), so away from branch points the
+//! criterion is the plain one.
+//!
+//! For K = 2 the sheets at each stage have a closed form; for K >= 3 they
+//! are found by Newton's method started from a second-order prediction
+//! (slopes -P_z/P_y at the step's start, curvature from the slopes of the
+//! last two steps).
 //!
 //! A step is also refused (and halved) when the sheets at a stage point
 //! cannot be matched unambiguously to those at the step's start, and it is
@@ -124,10 +137,28 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     if !f0.is_finite() {
         return EndReason::Degenerate("sheets coincide at the start".into());
     }
-    let mut h = 0.05 * curve.distance_to_singular(z).min(scale) / f0.norm();
+    let mut h = 0.05 * curve.distance_to_singular(z).min(scale) / modulus(f0);
+    let lambda_ref = reference_separation(curve, seed, f0);
     let reach = settings.reach;
     let mut stages = [Complex64::new(0.0, 0.0); 7];
     let mut stage_roots: Vec<Complex64> = roots.clone();
+    // For K >= 3 Newton starts each stage from the first-order prediction
+    // y + (dy/dz) dz, with the slopes taken once per step; for K = 2 the
+    // roots have a closed form and need no start.
+    let k = roots.len();
+    let predict = k >= 3;
+    let zero = Complex64::new(0.0, 0.0);
+    let mut slopes = [zero; crate::curve::MAX_RANK];
+    // Half the second derivative d2y/dz2, from the slopes at the last two
+    // step starts (0 at the first step and after a cut relabels the roots):
+    // the prediction is then of second order.
+    let mut curv = [zero; crate::curve::MAX_RANK];
+    let mut guess = [zero; crate::curve::MAX_RANK];
+    if predict {
+        curve.root_slopes(z, &roots, &mut slopes[..k]);
+    }
+    let (punct_r2, hit_r2) = (punct_r * punct_r, hit_r * hit_r);
+    let cos_turn = settings.max_turn_rad.cos();
     loop {
         if t >= reach * (1.0 - 1e-14) {
             return EndReason::Reach;
@@ -141,7 +172,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         wall.steps += 1;
         // Never step further than half the distance to a singular point.
         let room = curve.distance_to_singular(z);
-        let h_room = 0.5 * room / f0.norm();
+        let h_room = 0.5 * room / modulus(f0);
         h = h.min(h_room).min(reach - t);
         if h.is_nan() || h <= 1e-15 * (1.0 + t) {
             return EndReason::Degenerate(format!(
@@ -159,7 +190,19 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
             let zs = z + dz * h;
             // Only the last stage's roots are kept (they are the roots at
             // the step's end, FSAL); earlier stages reuse the same buffer.
-            if !curve.step_roots_into(&roots, zs, &mut stage_roots) {
+            let ok = if predict {
+                let dzs = zs - z;
+                for a in 0..k {
+                    guess[a] = roots[a] + (slopes[a] + curv[a] * dzs) * dzs;
+                }
+                // The wall needs sheets i and j to full accuracy; one other
+                // sheet comes from the sum of the roots.
+                let free = (0..k).find(|&a| a != i && a != j);
+                curve.step_roots_from(&roots, &guess[..k], zs, &mut stage_roots, free)
+            } else {
+                curve.step_roots_into(&roots, zs, &mut stage_roots)
+            };
+            if !ok {
                 refused = true;
                 break;
             }
@@ -182,7 +225,12 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         for k in 0..6 {
             dz += stages[k] * A[6][k];
         }
-        let err_norm = (err * h).norm() / (settings.tolerance * (z.norm() + 1.0));
+        // The error that matters is that of the period W = int (y_i - y_j) dz,
+        // |y_i - y_j| times the error on z: near a branch point, where the
+        // sheets nearly meet, z may be less accurate by the same factor
+        // (capped at 1 away from it).
+        let weight = (1.0 / (modulus(f0) * lambda_ref)).min(1.0);
+        let err_norm = modulus(err * h) * weight / (settings.tolerance * (modulus(z) + 1.0));
         if !err_norm.is_finite() || err_norm > 1.0 {
             let factor = if err_norm.is_finite() {
                 0.9 * err_norm.powf(-0.2)
@@ -197,10 +245,21 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         let f_new = stages[6];
         let t_new = t + h;
         let cuts_here = crossed_cuts(curve, z, z_new);
+        let (z_old, first_new) = (z, wall.points.len());
         // Interpolated points would not be ordered with the cut points, which
         // sit on the chord; a step that crosses a cut is drawn as its chord.
         if cuts_here.is_empty() {
-            push_dense(wall, z, z_new, f0, f_new, t, h, settings.max_turn_rad);
+            push_dense(
+                wall,
+                z,
+                z_new,
+                f0,
+                f_new,
+                t,
+                h,
+                settings.max_turn_rad,
+                cos_turn,
+            );
         }
         // Branch cuts: apply each crossed cut's permutation in order along the step.
         for (frac, cut_idx, west_to_east) in cuts_here {
@@ -239,16 +298,25 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         t = t_new;
         roots.clone_from(&stage_roots);
         f0 = f_new;
+        if predict {
+            let old = slopes;
+            curve.root_slopes(z, &roots, &mut slopes[..k]);
+            let crossed = wall.relabels.last().is_some_and(|r| r.from >= first_new);
+            for a in 0..k {
+                let c = (slopes[a] - old[a]) / (2.0 * (z - z_old));
+                curv[a] = if crossed || !c.is_finite() { zero } else { c };
+            }
+        }
         // Stop conditions.
         for (idx, p) in curve.punctures.iter().enumerate() {
             if let Some(pz) = p.z {
-                if (z - pz).norm() < punct_r {
+                if (z - pz).norm_sqr() < punct_r2 {
                     return EndReason::Puncture(idx);
                 }
             }
         }
         for (idx, b) in curve.branch_points.iter().enumerate() {
-            if (z - b.z).norm() < hit_r {
+            if (z - b.z).norm_sqr() < hit_r2 {
                 return EndReason::BranchPoint(idx);
             }
         }
@@ -264,6 +332,31 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     }
 }
 
+/// A typical size of `|y_i - y_j|` for the error weight: for a primary wall
+/// its value at the seed scaled by the square-root law out to the room
+/// around its branch point; for other walls its value at the seed.
+fn reference_separation(curve: &Curve, seed: &WallSeed, f0: Complex64) -> f64 {
+    let at_seed = 1.0 / modulus(f0);
+    let Origin::BranchPoint { index, .. } = seed.origin else {
+        return at_seed;
+    };
+    let Some(bp) = curve.branch_points.get(index) else {
+        return at_seed;
+    };
+    let d = modulus(seed.z - bp.z);
+    let room = curve
+        .singular_points
+        .iter()
+        .map(|s| modulus(s - bp.z))
+        .filter(|r| *r > 1e-12 * (1.0 + modulus(bp.z)))
+        .fold(curve.length_scale(), f64::min);
+    if d > 0.0 && d < room {
+        at_seed * (room / d).sqrt()
+    } else {
+        at_seed
+    }
+}
+
 /// Adds interpolated points (cubic Hermite in t) inside a step whose
 /// direction turns by more than `max_turn`, then nothing else: the step's
 /// end point is pushed by the caller.
@@ -276,8 +369,15 @@ fn push_dense(
     t0: f64,
     h: f64,
     max_turn: f64,
+    cos_max: f64,
 ) {
-    let turn = (f1 / f0).arg().abs();
+    // |arg w| <= max_turn  <=>  Re w >= |w| cos(max_turn): checked first
+    // without atan2, since most steps turn less than that.
+    let w = f1 / f0;
+    if w.re >= 0.0 && w.re * w.re >= w.norm_sqr() * cos_max * cos_max {
+        return;
+    }
+    let turn = w.arg().abs();
     if turn.is_nan() || turn <= max_turn {
         return;
     }
@@ -303,6 +403,19 @@ pub fn crossed_cuts(curve: &Curve, a: Complex64, b: Complex64) -> Vec<(f64, usiz
         .collect();
     out.sort_by(|x, y| x.0.total_cmp(&y.0));
     out
+}
+
+/// `|w|` by a plain square root: `norm()` goes through hypot, several
+/// times slower; hypot is kept only where squaring would overflow or
+/// underflow.
+#[inline]
+fn modulus(w: Complex64) -> f64 {
+    let r = w.norm_sqr().sqrt();
+    if r.is_finite() && r > 1e-150 {
+        r
+    } else {
+        w.norm()
+    }
 }
 
 /// The inverse of a permutation given as `perm[a] = image of a`.

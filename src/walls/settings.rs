@@ -31,10 +31,15 @@ pub struct Settings {
     /// Range (0, 1e6]. Default 8: enough to show the structure of the
     /// worked scenarios at unit scale.
     pub reach: f64,
-    /// Local error tolerance of the integrator on z, relative to `|z| + 1`.
+    /// Local error tolerance of the integrator on z, relative to `|z| + 1`
+    /// (near a branch point it bounds the error on the period instead, so
+    /// z there is less accurate by the factor by which the two sheets are
+    /// closer than usual; see `walls::grow`).
     /// Range [1e-13, 1e-3]. Default 1e-10: curves are then accurate far
-    /// beyond what a figure can show, and masses at reach 16 agree with an
-    /// independent quadrature to about 1e-9 (at 1e-9 they drift to 1e-8).
+    /// beyond what a figure can show, and masses agree with an independent
+    /// quadrature to 1.5e-9 or better on the worked scenarios and the
+    /// six-branch-point benchmark curve at reach 12 (at 1e-9 that curve
+    /// drifts to 5.7e-8).
     pub tolerance: f64,
     /// Integration steps (accepted or rejected) allowed per wall.
     /// Range [10, 10^7]. Default 20 000.
