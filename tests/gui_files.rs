@@ -236,3 +236,158 @@ fn export_writes_the_shared_scene_as_svg_and_png() {
         .contains(".svg or .png"));
     std::fs::remove_dir_all(&dir).unwrap();
 }
+
+/// True if this process can write into a folder without write permission
+/// (root, or a capability that overrides permissions): then a read-only
+/// folder cannot be simulated with permissions in this process.
+fn permissions_are_overridden(dir: &std::path::Path) -> bool {
+    use std::os::unix::fs::PermissionsExt as _;
+    let probe = dir.join("probe");
+    std::fs::create_dir_all(&probe).unwrap();
+    std::fs::set_permissions(&probe, std::fs::Permissions::from_mode(0o555)).unwrap();
+    let overridden = std::fs::write(probe.join("x"), "x").is_ok();
+    std::fs::set_permissions(&probe, std::fs::Permissions::from_mode(0o755)).unwrap();
+    std::fs::remove_dir_all(&probe).unwrap();
+    overridden
+}
+
+/// Saves an edited scenario into `target` (which must fail) and checks
+/// that nothing is lost: the window still holds the edits and marks them
+/// unsaved, the recovery file holds them too, the status bar says the
+/// save failed, the old file is untouched, and no temporary file is left.
+fn failing_save_keeps_the_edits(
+    project: &std::path::Path,
+    target: &std::path::Path,
+    state: &std::path::Path,
+    make_it_fail: impl FnOnce(),
+) -> Harness<'static, WallflowerApp> {
+    let opts = AppOptions {
+        persist: true,
+        state_dir: Some(state.to_path_buf()),
+        // No autosave during the test: the recovery file must come from
+        // the failed save itself.
+        autosave_after: Some(Duration::from_secs(3600)),
+        ..AppOptions::default()
+    };
+    let mut h = harness_with(WallflowerApp::with_scenario(
+        two_zeros(),
+        Some(target.to_path_buf()),
+        &opts,
+    ));
+    wait_for_worker(&mut h);
+    h.get_by_label("Add branch point").click();
+    h.step();
+    click_at(&mut h, Complex64::new(0.4, 0.9));
+    wait_for_worker(&mut h);
+    assert!(h.state().is_dirty());
+    let edited = h.state().scenario.clone();
+    let listing = |d: &std::path::Path| {
+        let mut v: Vec<_> = std::fs::read_dir(d)
+            .unwrap()
+            .map(|e| e.unwrap().file_name())
+            .collect();
+        v.sort();
+        v
+    };
+    let before = listing(project);
+    let old_bytes = std::fs::read(target).ok();
+    assert!(!state.join("recovery.ron").exists());
+
+    make_it_fail();
+    h.get_by_label("Save").click();
+    h.run_steps(3);
+
+    let app = h.state();
+    assert!(app.is_dirty(), "the edits are still marked unsaved");
+    assert_eq!(app.scenario.quadratic, edited.quadratic);
+    let msg = app.file_message.clone().unwrap_or_default();
+    assert!(
+        msg.starts_with("NOT saved") && msg.contains("recovery file"),
+        "{msg}"
+    );
+    assert!(app.save_error.is_some());
+    assert!(app.title().starts_with("* "), "{}", app.title());
+    h.get_by_label("NOT saved: edits kept");
+    let recovered =
+        Scenario::from_ron(&std::fs::read_to_string(state.join("recovery.ron")).unwrap()).unwrap();
+    assert_eq!(recovered.quadratic, edited.quadratic);
+    assert_eq!(
+        std::fs::read(target).ok(),
+        old_bytes,
+        "the old file is untouched"
+    );
+    assert_eq!(listing(project), before, "no temporary file is left");
+    h
+}
+
+#[test]
+fn saving_into_a_read_only_folder_keeps_the_edits() {
+    use std::os::unix::fs::PermissionsExt as _;
+    use std::os::unix::process::CommandExt as _;
+    let dir = temp_dir(&format!(
+        "readonly-{}",
+        std::env::var("WALLFLOWER_TEST_UNPRIVILEGED").unwrap_or_default()
+    ));
+    if permissions_are_overridden(&dir) {
+        // Root ignores folder permissions, so run this test again in a
+        // child process as the unprivileged user `nobody`.
+        assert!(
+            std::env::var_os("WALLFLOWER_TEST_UNPRIVILEGED").is_none(),
+            "permissions are overridden even for nobody"
+        );
+        std::fs::remove_dir_all(&dir).unwrap();
+        let out = std::process::Command::new(std::env::current_exe().unwrap())
+            .args([
+                "saving_into_a_read_only_folder_keeps_the_edits",
+                "--exact",
+                "--test-threads=1",
+            ])
+            .env("WALLFLOWER_TEST_UNPRIVILEGED", "1")
+            .uid(65534)
+            .gid(65534)
+            .output()
+            .expect("the test re-runs itself as nobody");
+        let text = String::from_utf8_lossy(&out.stdout);
+        assert!(
+            out.status.success() && text.contains("1 passed"),
+            "as nobody: {text}{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        return;
+    }
+    let project = dir.join("project");
+    std::fs::create_dir_all(&project).unwrap();
+    let target = project.join("two.ron");
+    wallflower::app::files::save_scenario(&target, &two_zeros()).unwrap();
+    let mut h = failing_save_keeps_the_edits(&project, &target, &dir.join("state"), || {
+        std::fs::set_permissions(&project, std::fs::Permissions::from_mode(0o555)).unwrap();
+    });
+    let msg = h.state().file_message.clone().unwrap();
+    assert!(msg.contains("Permission denied"), "{msg}");
+    // Once the folder is writable again, Save succeeds and clears the mark.
+    std::fs::set_permissions(&project, std::fs::Permissions::from_mode(0o755)).unwrap();
+    h.get_by_label("Save").click();
+    h.run_steps(3);
+    assert!(!h.state().is_dirty());
+    assert!(h.state().save_error.is_none());
+    let saved = Scenario::from_ron(&std::fs::read_to_string(&target).unwrap()).unwrap();
+    assert_eq!(saved.quadratic, h.state().scenario.quadratic);
+    assert!(
+        !dir.join("state/recovery.ron").exists(),
+        "saved: no recovery needed"
+    );
+    std::fs::remove_dir_all(&dir).unwrap();
+}
+
+#[test]
+fn saving_onto_a_folder_keeps_the_edits() {
+    let dir = temp_dir("onto-folder");
+    let project = dir.join("project");
+    let target = project.join("two.ron");
+    std::fs::create_dir_all(&target).unwrap();
+    let h = failing_save_keeps_the_edits(&project, &target, &dir.join("state"), || {});
+    let msg = h.state().file_message.clone().unwrap();
+    assert!(msg.contains("is a folder"), "{msg}");
+    assert!(target.is_dir());
+    std::fs::remove_dir_all(&dir).unwrap();
+}

@@ -5,7 +5,8 @@
 //! same code paths are exercised without cargo-fuzz and a nightly compiler.
 //!
 //! Set `ROBUST_FUZZ_ITERS` to change the number of random inputs per target
-//! (default 2000 for the parsers, 300 for the network engine).
+//! (default 2000 for the parsers, 300 for the network engine, 100 for the
+//! spectrum finder).
 
 #[path = "../fuzz/src/lib.rs"]
 #[allow(dead_code)]
@@ -194,5 +195,15 @@ fn network_engine_body() {
         &[],
         iterations(300),
         bodies::network_engine,
+    );
+}
+
+#[test]
+fn spectrum_finder_body() {
+    drive(
+        "spectrum_finder",
+        &[],
+        iterations(100),
+        bodies::spectrum_finder,
     );
 }

@@ -17,6 +17,7 @@ use wallflower::algebra::{parse_complex, parse_equation, Poly, PolyInY, Rational
 use wallflower::curve::Curve;
 use wallflower::network::Network;
 use wallflower::scenario::{Scenario, ScenarioError};
+use wallflower::spectrum::{Kind, Spectrum, SpectrumSettings};
 use wallflower::walls::{Bounds, EndReason, Origin, Settings};
 use wallflower::CancelToken;
 
@@ -405,6 +406,125 @@ pub fn network_engine(data: &[u8]) {
     let net = wallflower::compute(&curve, set.theta, &settings, &CancelToken::new());
     check_network(&curve, &settings, &net)
         .unwrap_or_else(|m| panic!("{m}\ncurve: {spec:?}\nsettings: {set:?}"));
+}
+
+// ---------------------------------------------------------------------------
+// Target 4: the spectrum finder.
+
+/// Decodes spectrum settings from fuzz bytes, within the documented ranges
+/// and with budgets small enough for a fuzzer.
+pub fn spectrum_settings_from(b: &mut Bytes) -> SpectrumSettings {
+    SpectrumSettings {
+        reach: b.log_uniform(1e-3, 1e3),
+        theta_samples: 8 + usize::from(b.u8()) % 25,
+        scan_tolerance: b.log_uniform(1e-9, 1e-4),
+        tolerance: b.log_uniform(1e-12, 1e-6),
+        phase_tolerance: b.log_uniform(1e-12, 1e-4),
+        step_budget: 100 + usize::from(b.u16()) % 3000,
+        max_candidates: 1 + usize::from(b.u8()) % 40,
+        bounds_factor: b.log_uniform(1.0, 1000.0),
+    }
+}
+
+/// Builds a curve and spectrum settings from the bytes, runs the spectrum
+/// finder and checks [`check_spectrum`].
+pub fn spectrum_finder(data: &[u8]) {
+    let mut b = Bytes::new(data);
+    let spec = curve_spec_from(&mut b);
+    let settings = spectrum_settings_from(&mut b);
+    assert!(
+        settings.validate().is_ok(),
+        "decoder made invalid settings: {settings:?}"
+    );
+    let Some(curve) = spec.build() else {
+        return;
+    };
+    check_curve(&curve).unwrap_or_else(|m| panic!("{m}\ncurve: {spec:?}"));
+    let mut last = 0.0_f64;
+    let mut progress_ok = true;
+    let found = wallflower::spectrum::find(&curve, &settings, &CancelToken::new(), &mut |p| {
+        progress_ok &= p.is_finite() && (0.0..=1.0).contains(&p) && p >= last;
+        last = p;
+    });
+    assert!(
+        progress_ok,
+        "progress not increasing in [0, 1]\ncurve: {spec:?}"
+    );
+    check_spectrum(&curve, &settings, &found)
+        .unwrap_or_else(|m| panic!("{m}\ncurve: {spec:?}\nsettings: {settings:?}"));
+}
+
+/// Everything a finished spectrum must satisfy: not cancelled; states
+/// sorted by `|Z|`, each with `|Z| < reach`, `abs == |z|`, its phase in
+/// [0, pi) and equal to `arg z` (mod 2 pi), an index that matches its kind
+/// (hyper 1, vector -2), endpoints that are branch points, and only finite
+/// numbers; at most `theta_samples` scan samples; warnings one line each.
+pub fn check_spectrum(
+    curve: &Curve,
+    settings: &SpectrumSettings,
+    s: &Spectrum,
+) -> Result<(), String> {
+    if s.cancelled {
+        return Err("cancelled although nothing cancelled it".into());
+    }
+    if s.stats.theta_samples > settings.theta_samples {
+        return Err(format!(
+            "{} scan samples > theta_samples {}",
+            s.stats.theta_samples, settings.theta_samples
+        ));
+    }
+    for w in &s.warnings {
+        if w.trim().is_empty() || w.contains('\n') {
+            return Err(format!("bad warning {w:?}"));
+        }
+    }
+    let mut prev = 0.0_f64;
+    for (k, st) in s.states.iter().enumerate() {
+        let ctx = |m: String| format!("state {k} ({:?}, Z = {:?}): {m}", st.kind, st.z);
+        if !finite(st.z) || !st.abs.is_finite() || !st.phase.is_finite() || !st.z_error.is_finite()
+        {
+            return Err(ctx("a number is not finite".into()));
+        }
+        if st.abs < prev {
+            return Err(ctx("states not sorted by |Z|".into()));
+        }
+        prev = st.abs;
+        if st.abs >= settings.reach * (1.0 + 1e-6) {
+            return Err(ctx(format!(
+                "|Z| = {} beyond reach {}",
+                st.abs, settings.reach
+            )));
+        }
+        if (st.abs - st.z.norm()).abs() > 1e-9 * (1.0 + st.abs) {
+            return Err(ctx(format!("abs {} != |z| {}", st.abs, st.z.norm())));
+        }
+        if !(0.0..std::f64::consts::PI).contains(&st.phase) {
+            return Err(ctx(format!("phase {} outside [0, pi)", st.phase)));
+        }
+        let turn = Complex64::from_polar(1.0, st.phase);
+        if st.abs > 0.0 && (st.z / st.abs - turn).norm() > 1e-6 {
+            return Err(ctx(format!("arg Z != phase {}", st.phase)));
+        }
+        let want = match st.kind {
+            Kind::Hyper => Some(1),
+            Kind::Vector => Some(-2),
+            Kind::Other => st.omega,
+        };
+        if st.omega.is_some() && st.omega != want {
+            return Err(ctx(format!("index {:?} for kind {:?}", st.omega, st.kind)));
+        }
+        if let Some(e) = st
+            .endpoints
+            .iter()
+            .find(|&&e| e >= curve.branch_points.len())
+        {
+            return Err(ctx(format!("endpoint {e} is not a branch point")));
+        }
+        if !st.web.iter().flatten().all(|z| finite(*z)) {
+            return Err(ctx("web point not finite".into()));
+        }
+    }
+    Ok(())
 }
 
 // ---------------------------------------------------------------------------

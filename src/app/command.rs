@@ -96,3 +96,98 @@ impl Command {
         })
     }
 }
+
+/// Parses a script of commands for `WALLFLOWER_SCRIPT` (see [`super::run`]):
+/// commands separated by `;` or newlines, each a word and its arguments.
+///
+/// ```text
+/// phase DEGREES | reach R | param NAME RE IM | add-zero RE IM
+/// restore-recovery | save-as PATH | quit
+/// ```
+///
+/// A script drives the real window through the same command path as its
+/// widgets; the kill -9 recovery test (tests/gui_recovery_kill.rs) uses it
+/// to make an edit without synthesising mouse events.
+pub fn parse_script(text: &str) -> Result<Vec<Command>, String> {
+    let mut out = Vec::new();
+    for part in text.split([';', '\n']) {
+        let words: Vec<&str> = part.split_whitespace().collect();
+        let Some((&name, args)) = words.split_first() else {
+            continue;
+        };
+        let num = |k: usize| -> Result<f64, String> {
+            args.get(k)
+                .and_then(|s| s.parse::<f64>().ok())
+                .filter(|x| x.is_finite())
+                .ok_or_else(|| {
+                    format!(
+                        "script: `{}` wants a number at argument {}",
+                        part.trim(),
+                        k + 1
+                    )
+                })
+        };
+        let arity = |n: usize| -> Result<(), String> {
+            (args.len() == n)
+                .then_some(())
+                .ok_or_else(|| format!("script: `{}` wants {n} argument(s)", part.trim()))
+        };
+        let cmd = match name {
+            "phase" => {
+                arity(1)?;
+                Command::SetPhase(num(0)?.to_radians())
+            }
+            "reach" => {
+                arity(1)?;
+                Command::SetReach(num(0)?)
+            }
+            "param" => {
+                arity(3)?;
+                Command::SetParam(args[0].to_string(), [num(1)?, num(2)?])
+            }
+            "add-zero" => {
+                arity(2)?;
+                Command::AddZero(Complex64::new(num(0)?, num(1)?))
+            }
+            "restore-recovery" => {
+                arity(0)?;
+                Command::RestoreRecovery
+            }
+            "save-as" => {
+                arity(1)?;
+                Command::SaveAs(PathBuf::from(args[0]))
+            }
+            "quit" => {
+                arity(0)?;
+                Command::Quit
+            }
+            other => return Err(format!("script: unknown command `{other}`")),
+        };
+        out.push(cmd);
+    }
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn scripts_parse_into_commands() {
+        let cmds =
+            parse_script("phase 90; param u 0.5 -1\nreach 7 ; save-as /tmp/x.ron;quit").unwrap();
+        assert_eq!(
+            cmds,
+            vec![
+                Command::SetPhase(std::f64::consts::FRAC_PI_2),
+                Command::SetParam("u".into(), [0.5, -1.0]),
+                Command::SetReach(7.0),
+                Command::SaveAs(PathBuf::from("/tmp/x.ron")),
+                Command::Quit,
+            ]
+        );
+        for bad in ["phase", "phase x", "reach 1 2", "jump 3", "phase inf"] {
+            assert!(parse_script(bad).is_err(), "{bad}");
+        }
+    }
+}

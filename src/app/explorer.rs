@@ -187,6 +187,9 @@ pub struct WallflowerApp {
     pub recent: Vec<PathBuf>,
     saved: Scenario,
     pub file_message: Option<String>,
+    /// Why the last save failed, until a save succeeds (the status bar
+    /// shows it, so that a failed save is not missed).
+    pub save_error: Option<String>,
     state_dir: Option<StateDir>,
     pub recovery_offer: Option<Scenario>,
     last_edit: Option<Instant>,
@@ -202,6 +205,8 @@ pub struct WallflowerApp {
     quit_requested: bool,
     screenshot: Option<ScreenshotJob>,
     exit_after_screenshot: bool,
+    /// Scripted commands still to apply (`AppOptions::script`).
+    script: Vec<Command>,
 }
 
 impl WallflowerApp {
@@ -279,6 +284,7 @@ impl WallflowerApp {
             path,
             recent,
             file_message: None,
+            save_error: None,
             state_dir,
             recovery_offer,
             last_edit: None,
@@ -298,6 +304,7 @@ impl WallflowerApp {
                 done: Arc::new(Mutex::new(None)),
             }),
             exit_after_screenshot: opts.screenshot.is_some(),
+            script: opts.script.clone(),
         };
         app.export_theme = app.scenario.theme;
         app.sync_worker();
@@ -347,9 +354,17 @@ impl WallflowerApp {
             .frame(egui::Frame::NONE)
             .show(ui, |ui| self.canvas(ui));
 
+        if !self.script.is_empty() && self.shown.is_some() {
+            // As if a widget had sent them, once there is a network to see.
+            self.commands.append(&mut self.script);
+        }
         self.handle_commands();
         self.sync_worker();
         self.autosave();
+        if let Some(wait) = self.autosave_due() {
+            // No input may come for a while: wake up for the autosave.
+            ctx.request_repaint_after(wait);
+        }
         self.update_title(&ctx);
         if self.quit_requested {
             // Unsaved edits stay in the recovery file.
@@ -743,7 +758,10 @@ impl WallflowerApp {
                     self.history
                         .before_edit(&self.scenario, &super::command::EditGroup::Single);
                     self.view = s.view.clone();
+                    // All of it, the phase too: it is what was on screen.
+                    let phase = s.phase;
                     self.restore(s);
+                    self.scenario.phase = phase;
                     self.file_message = Some("restored the unsaved edits".into());
                 }
             }
@@ -786,6 +804,7 @@ impl WallflowerApp {
                     format!("opened {} ({})", path.display(), warnings.join("; "))
                 });
                 self.path = Some(path);
+                self.save_error = None;
             }
             Err(e) => self.file_message = Some(format!("{e:#}")),
         }
@@ -809,9 +828,28 @@ impl WallflowerApp {
                     d.clear_recovery();
                 }
                 self.file_message = Some(format!("saved {}", path.display()));
+                self.save_error = None;
                 self.path = Some(path);
             }
-            Err(e) => self.file_message = Some(format!("{e:#}")),
+            Err(e) => {
+                // Nothing is lost: the scenario stays as edited (and marked
+                // unsaved), and the edits go to the recovery file now
+                // rather than at the next autosave.
+                let kept = match &self.state_dir {
+                    Some(d) if self.is_dirty() => match d.write_recovery(&s) {
+                        Ok(()) => {
+                            self.autosaved = true;
+                            "the edits are kept, unsaved, and in the recovery file".to_string()
+                        }
+                        Err(r) => format!(
+                            "the edits are kept in the window, unsaved; the recovery file failed too: {r:#}"
+                        ),
+                    },
+                    _ => "the edits are kept in the window, unsaved".to_string(),
+                };
+                self.file_message = Some(format!("NOT saved: {e:#}; {kept}"));
+                self.save_error = Some(format!("{e:#}"));
+            }
         }
     }
 
@@ -833,6 +871,13 @@ impl WallflowerApp {
             self.file_message = Some(format!("autosave failed: {e:#}"));
         }
         self.autosaved = true;
+    }
+
+    /// How long until a pending autosave is due, if one is pending.
+    fn autosave_due(&self) -> Option<Duration> {
+        let t = self.last_edit?;
+        (self.state_dir.is_some() && !self.autosaved && self.is_dirty())
+            .then(|| self.autosave_after.saturating_sub(t.elapsed()))
     }
 
     fn export_to(&mut self, path: &std::path::Path) {

@@ -17,7 +17,9 @@
 //! or the `WALLFLOWER_SCREENSHOT=FILE.png` environment variable read by
 //! [`run`]: the window renders, saves its own frame once the first network
 //! is shown, and closes. `WALLFLOWER_FRAME_LOG=1` prints frame timings of
-//! point drags when the window closes.
+//! point drags when the window closes. `WALLFLOWER_SCRIPT` applies a few
+//! commands once the first network is shown (for scripted tests of the
+//! real window, such as the kill -9 recovery test).
 
 mod canvas;
 pub mod command;
@@ -56,15 +58,25 @@ pub struct AppOptions {
     pub autosave_after: Option<std::time::Duration>,
     /// Inner window size in points; default 1500 x 920.
     pub size: Option<[f32; 2]>,
+    /// Commands applied once the first network is shown, through the same
+    /// path as the widgets' (see [`command::parse_script`]).
+    pub script: Vec<command::Command>,
 }
 
 /// Opens the window on `scenario` (a file) or on the embedded default.
 /// `WALLFLOWER_SCREENSHOT=FILE.png` saves a screenshot and exits.
+/// `WALLFLOWER_SCRIPT="phase 30; reach 12"` applies those commands once
+/// the first network is shown (scripted tests of the real window).
 pub fn run(scenario: Option<PathBuf>) -> anyhow::Result<()> {
+    let script = match std::env::var("WALLFLOWER_SCRIPT") {
+        Ok(text) => command::parse_script(&text).map_err(anyhow::Error::msg)?,
+        Err(_) => Vec::new(),
+    };
     run_with(AppOptions {
         scenario,
         screenshot: std::env::var_os("WALLFLOWER_SCREENSHOT").map(PathBuf::from),
         persist: true,
+        script,
         ..AppOptions::default()
     })
 }

@@ -249,6 +249,11 @@ impl WallflowerApp {
         } else {
             ui.label("up to date");
         }
+        if let Some(e) = &self.save_error {
+            ui.separator();
+            ui.label(RichText::new("NOT saved: edits kept").color(error_color(ui)))
+                .on_hover_text(e.as_str());
+        }
         if let Some(s) = &self.shown {
             let net = &s.computed.network;
             ui.separator();

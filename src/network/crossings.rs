@@ -1,50 +1,117 @@
-//! A uniform grid over wall segments, so that crossings are found by
-//! looking only at segments in the same cells (never all pairs).
+//! A hierarchy of uniform grids over wall segments, so that crossings are
+//! found by looking only at segments in nearby cells (never all pairs).
+//!
+//! Wall segments range over many orders of magnitude in length (tiny steps
+//! near branch points, huge ones far out at a large reach), so one cell size
+//! cannot suit them all: with one grid, a dense cluster of short segments
+//! shares a few cells and every query there returns thousands of them. Here
+//! each segment lives on the level whose cells are at least as large as its
+//! bounding box (so it touches at most 2 x 2 cells), and a query visits
+//! every occupied level. A segment touching several cells of a query is
+//! looked at once: only from the query cell that holds the lower-left
+//! corner of the overlap of the two cell ranges, so no sorting or marking
+//! is needed. It is reported only if it comes within a relative 1e-9 of
+//! the query segment, so rounding never hides a crossing and far segments
+//! never reach the caller.
 
 use crate::walls::Wall;
 use num_complex::Complex64;
 use std::collections::HashMap;
+use std::hash::{BuildHasherDefault, Hasher};
 
-/// Segments longer than this many cells go to a list that is always checked.
+/// Levels of the hierarchy: cells double in size from one to the next.
+const LEVELS: usize = 64;
+
+/// Segments that would touch more cells than this (only possible past the
+/// last level) go to a list that every query looks at.
 const MAX_CELLS_PER_SEGMENT: i64 = 64;
 
-/// Wall segments bucketed by grid cell. A segment is `(wall_idx, k)`: the
-/// piece from `points[k]` to `points[k + 1]`.
+/// Relative distance within which a segment counts as touching a query.
+const NEAR: f64 = 1e-9;
+
+/// A multiplicative hash for cell coordinates; the default SipHash costs
+/// more than the rest of a lookup.
+#[derive(Default)]
+struct CellHasher(u64);
+
+impl Hasher for CellHasher {
+    fn write(&mut self, bytes: &[u8]) {
+        for &b in bytes {
+            self.write_u64(u64::from(b));
+        }
+    }
+
+    fn write_u64(&mut self, x: u64) {
+        self.0 = (self.0.rotate_left(5) ^ x).wrapping_mul(0x517c_c1b7_2722_0a95);
+    }
+
+    fn write_i64(&mut self, x: i64) {
+        self.write_u64(x as u64);
+    }
+
+    fn finish(&self) -> u64 {
+        self.0
+    }
+}
+
+type CellMap = HashMap<(i64, i64), Vec<Entry>, BuildHasherDefault<CellHasher>>;
+
+/// A segment `(wall, k)` from `a` to `b` in a cell, with the lower-left
+/// cell of its own range (on its level), which decides where a query looks
+/// at it.
+#[derive(Clone, Copy)]
+struct Entry {
+    wall: u32,
+    k: u32,
+    x0: i64,
+    y0: i64,
+    a: Complex64,
+    b: Complex64,
+}
+
+/// Wall segments bucketed by level and grid cell. A segment is
+/// `(wall_idx, k)`: the piece from `points[k]` to `points[k + 1]`.
 pub struct SegmentGrid {
     origin: Complex64,
-    cell: f64,
-    cells: HashMap<(i64, i64), Vec<(u32, u32)>>,
-    oversize: Vec<(u32, u32)>,
+    /// Cell size of level 0.
+    base: f64,
+    levels: Vec<CellMap>,
+    /// Levels holding at least one segment, ascending.
+    occupied: Vec<usize>,
+    oversize: Vec<Entry>,
 }
+
+/// Inclusive cell ranges `(x0, x1, y0, y1)`.
+type CellRange = (i64, i64, i64, i64);
 
 impl SegmentGrid {
     pub fn build(walls: &[Wall]) -> Self {
         let mut lo = Complex64::new(f64::INFINITY, f64::INFINITY);
-        let mut hi = Complex64::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
-        let mut n_segments = 0usize;
+        let mut shortest = f64::INFINITY;
         for w in walls {
             for p in &w.points {
                 if p.z.is_finite() {
                     lo = Complex64::new(lo.re.min(p.z.re), lo.im.min(p.z.im));
-                    hi = Complex64::new(hi.re.max(p.z.re), hi.im.max(p.z.im));
                 }
             }
-            n_segments += w.points.len().saturating_sub(1);
+            for s in w.points.windows(2) {
+                if let Some(e) = extent(s[0].z, s[1].z).filter(|&e| e > 0.0) {
+                    shortest = shortest.min(e);
+                }
+            }
         }
         if !lo.re.is_finite() {
             lo = Complex64::new(0.0, 0.0);
-            hi = Complex64::new(1.0, 1.0);
         }
-        let area = ((hi.re - lo.re) * (hi.im - lo.im)).max(1e-300);
-        // About two segments per occupied cell on average.
-        let cell = (area / (n_segments.max(1) as f64))
-            .sqrt()
-            .max((hi - lo).norm() * 1e-6)
-            .max(1e-300);
+        // Level 0 fits the shortest segments (tiny steps crowd around
+        // branch points and joints); longer ones climb the levels. Empty
+        // levels cost nothing.
+        let base = shortest.min(1.0).max(lo.norm().max(1.0) * 1e-12);
         let mut grid = Self {
             origin: lo,
-            cell,
-            cells: HashMap::new(),
+            base,
+            levels: (0..LEVELS).map(|_| CellMap::default()).collect(),
+            occupied: Vec::new(),
             oversize: Vec::new(),
         };
         for (wi, w) in walls.iter().enumerate() {
@@ -52,63 +119,252 @@ impl SegmentGrid {
                 grid.insert(wi as u32, k as u32, w.points[k].z, w.points[k + 1].z);
             }
         }
+        grid.occupied = (0..LEVELS)
+            .filter(|&l| !grid.levels[l].is_empty())
+            .collect();
         grid
     }
 
-    fn cell_range(&self, a: Complex64, b: Complex64) -> Option<(i64, i64, i64, i64)> {
-        if !a.is_finite() || !b.is_finite() {
-            return None;
-        }
-        let to = |x: f64, o: f64| ((x - o) / self.cell).floor().clamp(-1e15, 1e15) as i64;
-        let (x0, x1) = (
-            to(a.re.min(b.re), self.origin.re),
-            to(a.re.max(b.re), self.origin.re),
-        );
-        let (y0, y1) = (
-            to(a.im.min(b.im), self.origin.im),
-            to(a.im.max(b.im), self.origin.im),
-        );
-        Some((x0, x1, y0, y1))
+    fn cell_size(&self, level: usize) -> f64 {
+        self.base * 2f64.powi(level as i32)
+    }
+
+    fn cell_range(&self, level: usize, lo: Complex64, hi: Complex64) -> CellRange {
+        let cell = self.cell_size(level);
+        let to = |x: f64, o: f64| ((x - o) / cell).floor().clamp(-1e15, 1e15) as i64;
+        (
+            to(lo.re, self.origin.re),
+            to(hi.re, self.origin.re),
+            to(lo.im, self.origin.im),
+            to(hi.im, self.origin.im),
+        )
     }
 
     fn insert(&mut self, wall: u32, k: u32, a: Complex64, b: Complex64) {
-        let Some((x0, x1, y0, y1)) = self.cell_range(a, b) else {
+        let Some(e) = extent(a, b) else {
             return;
         };
+        // The smallest level whose cells are at least as large as the
+        // segment's bounding box.
+        let ratio = e / self.base;
+        let level = if ratio <= 1.0 {
+            0
+        } else {
+            (ratio.log2().ceil() as usize).min(LEVELS - 1)
+        };
+        let (lo, hi) = corners(a, b, 0.0);
+        let (x0, x1, y0, y1) = self.cell_range(level, lo, hi);
+        let entry = Entry {
+            wall,
+            k,
+            x0,
+            y0,
+            a,
+            b,
+        };
         if (x1 - x0 + 1).saturating_mul(y1 - y0 + 1) > MAX_CELLS_PER_SEGMENT {
-            self.oversize.push((wall, k));
+            self.oversize.push(entry);
             return;
         }
         for x in x0..=x1 {
             for y in y0..=y1 {
-                self.cells.entry((x, y)).or_default().push((wall, k));
+                self.levels[level].entry((x, y)).or_default().push(entry);
             }
         }
     }
 
-    /// Segments whose cells overlap the bounding box of `a -> b`, each once.
-    pub fn candidates(&self, a: Complex64, b: Complex64) -> Vec<(usize, usize)> {
-        let mut out: Vec<(u32, u32)> = self.oversize.clone();
-        if let Some((x0, x1, y0, y1)) = self.cell_range(a, b) {
-            if (x1 - x0 + 1).saturating_mul(y1 - y0 + 1) > 4096 {
-                // A huge query: scan every bucket instead of every cell.
-                for v in self.cells.values() {
-                    out.extend_from_slice(v);
+    /// Segments that come within a relative 1e-9 of the segment `a -> b`
+    /// (every segment crossing it among them), each once, in `out`
+    /// (cleared first; the order is not specified; a buffer reused across
+    /// calls saves the allocations). Returns the number of grid entries
+    /// looked at: the work of the query.
+    pub fn candidates_into(
+        &self,
+        a: Complex64,
+        b: Complex64,
+        out: &mut Vec<(usize, usize)>,
+    ) -> usize {
+        out.clear();
+        let mut looked = self.oversize.len();
+        if !a.is_finite() || !b.is_finite() {
+            return looked;
+        }
+        // Sums of moduli of parts bound the moduli (no square roots).
+        let pad = NEAR * (l1(a).max(l1(b)) + l1(b - a));
+        for e in &self.oversize {
+            if near(e.a, e.b, a, b, pad) {
+                out.push((e.wall as usize, e.k as usize));
+            }
+        }
+        let (qlo, qhi) = corners(a, b, pad);
+        for &level in &self.occupied {
+            let cells = &self.levels[level];
+            let (qx0, qx1, qy0, qy1) = self.cell_range(level, qlo, qhi);
+            let mut look = |(cx, cy): (i64, i64), v: &[Entry]| {
+                looked += v.len();
+                for e in v {
+                    // Looked at only from the lower-left cell of the
+                    // overlap of the two cell ranges.
+                    if cx == e.x0.max(qx0) && cy == e.y0.max(qy0) && near(e.a, e.b, a, b, pad) {
+                        out.push((e.wall as usize, e.k as usize));
+                    }
+                }
+            };
+            let n_cells = (qx1 - qx0 + 1).saturating_mul(qy1 - qy0 + 1);
+            if n_cells > cells.len() as i64 {
+                // A query larger than the level's occupied cells: go
+                // through the buckets instead of the cells.
+                for (&(cx, cy), v) in cells {
+                    if (qx0..=qx1).contains(&cx) && (qy0..=qy1).contains(&cy) {
+                        look((cx, cy), v);
+                    }
                 }
             } else {
-                for x in x0..=x1 {
-                    for y in y0..=y1 {
-                        if let Some(v) = self.cells.get(&(x, y)) {
-                            out.extend_from_slice(v);
+                for x in qx0..=qx1 {
+                    for y in qy0..=qy1 {
+                        if let Some(v) = cells.get(&(x, y)) {
+                            look((x, y), v);
                         }
                     }
                 }
             }
         }
+        looked
+    }
+
+    /// [`Self::candidates_into`], sorted by (wall, segment).
+    pub fn candidates(&self, a: Complex64, b: Complex64) -> Vec<(usize, usize)> {
+        let mut out = Vec::new();
+        self.candidates_into(a, b, &mut out);
         out.sort_unstable();
-        out.dedup();
-        out.into_iter()
-            .map(|(w, k)| (w as usize, k as usize))
-            .collect()
+        out
+    }
+}
+
+/// `|re| + |im|`, between `|z|` and `sqrt(2) |z|`.
+fn l1(z: Complex64) -> f64 {
+    z.re.abs() + z.im.abs()
+}
+
+/// The corners of the bounding box of `a -> b`, widened by `pad`.
+fn corners(a: Complex64, b: Complex64, pad: f64) -> (Complex64, Complex64) {
+    (
+        Complex64::new(a.re.min(b.re) - pad, a.im.min(b.im) - pad),
+        Complex64::new(a.re.max(b.re) + pad, a.im.max(b.im) + pad),
+    )
+}
+
+/// The larger side of the bounding box of `a -> b`, if both ends are finite.
+fn extent(a: Complex64, b: Complex64) -> Option<f64> {
+    let d = b - a;
+    (a.is_finite() && b.is_finite()).then(|| d.re.abs().max(d.im.abs()))
+}
+
+/// False only if segments `a -> b` and `p -> q` are more than `pad` apart
+/// in a way that one separating test shows: their boxes, or one lying
+/// wholly on one side of the other's line.
+fn near(a: Complex64, b: Complex64, p: Complex64, q: Complex64, pad: f64) -> bool {
+    if a.re.min(b.re) > p.re.max(q.re) + pad
+        || p.re.min(q.re) > a.re.max(b.re) + pad
+        || a.im.min(b.im) > p.im.max(q.im) + pad
+        || p.im.min(q.im) > a.im.max(b.im) + pad
+    {
+        return false;
+    }
+    // cross(d, x - o) is |d| times the signed distance of x from the line.
+    let apart = |o: Complex64, d: Complex64, x: Complex64, y: Complex64| {
+        let tol = pad * l1(d);
+        let (sx, sy) = ((d.conj() * (x - o)).im, (d.conj() * (y - o)).im);
+        (sx > tol && sy > tol) || (sx < -tol && sy < -tol)
+    };
+    !(apart(a, b - a, p, q) || apart(p, q - p, a, b))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::walls::{EndReason, Origin, WallPoint, WallType};
+
+    fn wall(points: &[Complex64]) -> Wall {
+        Wall {
+            kind: WallType::new(0, 1),
+            origin: Origin::BranchPoint { index: 0, n: 0 },
+            generation: 0,
+            multiplicity: 1,
+            points: points
+                .iter()
+                .enumerate()
+                .map(|(k, &z)| WallPoint { z, mass: k as f64 })
+                .collect(),
+            relabels: Vec::new(),
+            end: EndReason::Reach,
+            rhs_evals: 0,
+            steps: 0,
+        }
+    }
+
+    /// A small pseudo-random generator, so the test needs no crate.
+    struct Lcg(u64);
+    impl Lcg {
+        fn next(&mut self) -> f64 {
+            self.0 = self
+                .0
+                .wrapping_mul(6_364_136_223_846_793_005)
+                .wrapping_add(1_442_695_040_888_963_407);
+            (self.0 >> 11) as f64 / (1u64 << 53) as f64
+        }
+    }
+
+    /// Every segment that crosses a query segment (by the same test the
+    /// crossing search and the path products use) is a candidate, and each
+    /// is reported once, on walls whose segment lengths span ten decades and
+    /// for queries of every size, including the walls' own segments.
+    #[test]
+    fn candidates_include_every_crossing_once() {
+        use crate::network::jump::segment_intersection;
+        let mut rng = Lcg(7);
+        let mut walls = Vec::new();
+        for _ in 0..40 {
+            let mut z = Complex64::new(rng.next() * 20.0 - 10.0, rng.next() * 20.0 - 10.0);
+            let mut pts = vec![z];
+            for _ in 0..30 {
+                let len = 10f64.powf(rng.next() * 10.0 - 7.0);
+                z += Complex64::from_polar(len, rng.next() * 6.3);
+                pts.push(z);
+            }
+            walls.push(wall(&pts));
+        }
+        let grid = SegmentGrid::build(&walls);
+        let mut queries: Vec<(Complex64, Complex64)> = (0..400)
+            .map(|q| {
+                let a = Complex64::new(rng.next() * 24.0 - 12.0, rng.next() * 24.0 - 12.0);
+                let len = 10f64.powf(rng.next() * 9.0 - 6.0);
+                (a, a + Complex64::from_polar(len, f64::from(q)))
+            })
+            .collect();
+        for w in &walls {
+            queries.extend(w.points.windows(2).map(|s| (s[0].z, s[1].z)));
+        }
+        let mut crossings = 0;
+        for (a, b) in queries {
+            let mut got = Vec::new();
+            grid.candidates_into(a, b, &mut got);
+            let n = got.len();
+            got.sort_unstable();
+            got.dedup();
+            assert_eq!(got.len(), n, "a segment was reported twice");
+            for (wi, w) in walls.iter().enumerate() {
+                for k in 0..w.points.len() - 1 {
+                    let (p, q) = (w.points[k].z, w.points[k + 1].z);
+                    if segment_intersection(a, b, p, q).is_some()
+                        || segment_intersection(p, q, a, b).is_some()
+                    {
+                        crossings += 1;
+                        assert!(got.binary_search(&(wi, k)).is_ok(), "missed ({wi}, {k})");
+                    }
+                }
+            }
+        }
+        assert!(crossings > 100, "only {crossings} crossings were checked");
     }
 }

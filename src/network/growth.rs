@@ -45,16 +45,27 @@ fn is_birth_point(
     }
 }
 
+/// Segment pairs looked at between two polls of the cancel token (a poll
+/// comes after the first query that reaches this many), so that a cancel
+/// stops even the largest search promptly.
+pub const PAIRS_PER_POLL: u64 = 4096;
+
 /// Grows generations of child walls until none appear or a bound is hit.
+/// `pair_tests` counts the segment pairs looked at in the search (grid
+/// entries, most rejected by their bounding boxes; reported in the
+/// network's stats).
 pub fn grow_descendants(
     ctx: &GrowContext,
     walls: &mut Vec<Wall>,
     joints: &mut Vec<Joint>,
+    pair_tests: &mut u64,
 ) -> GrowthLimit {
     let settings = ctx.settings;
     let rot = Complex64::from_polar(1.0, ctx.theta);
     let mut new_from = 0usize;
     let mut seen: HashSet<(usize, usize, usize, usize)> = HashSet::new();
+    let mut candidates: Vec<(usize, usize)> = Vec::new();
+    let mut next_poll = *pair_tests + PAIRS_PER_POLL;
     for generation in 1..=settings.max_generations {
         if ctx.cancel.is_cancelled() {
             return GrowthLimit::Cancelled;
@@ -65,7 +76,14 @@ pub fn grow_descendants(
             let a = &walls[wa];
             for sa in 0..a.points.len().saturating_sub(1) {
                 let (p0, p1) = (a.points[sa].z, a.points[sa + 1].z);
-                for (wb, sb) in grid.candidates(p0, p1) {
+                *pair_tests += grid.candidates_into(p0, p1, &mut candidates) as u64;
+                if *pair_tests >= next_poll {
+                    next_poll = *pair_tests + PAIRS_PER_POLL;
+                    if ctx.cancel.is_cancelled() {
+                        return GrowthLimit::Cancelled;
+                    }
+                }
+                for &(wb, sb) in &candidates {
                     // Pairs of two new walls are visited from the lower index only.
                     if wb == wa || (wb >= new_from && wb < wa) {
                         continue;

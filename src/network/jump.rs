@@ -29,6 +29,7 @@
 //! A wall's sign changes where it crosses a cut by eps(i) eps(j), which is
 //! what flatness at the crossing of a wall and a cut demands.
 
+use crate::cancel::CancelToken;
 use crate::curve::Curve;
 use crate::walls::{invert, Wall, WallType};
 use nalgebra::DMatrix;
@@ -151,11 +152,27 @@ pub fn path_crossings_in(
     grid: &super::crossings::SegmentGrid,
     path: &[Complex64],
 ) -> Vec<Crossing> {
+    path_crossings_counted(curve, walls, grid, path, &mut 0)
+}
+
+/// [`path_crossings_in`], adding the number of grid entries looked at to `tests`.
+fn path_crossings_counted(
+    curve: &Curve,
+    walls: &[Wall],
+    grid: &super::crossings::SegmentGrid,
+    path: &[Complex64],
+    tests: &mut u64,
+) -> Vec<Crossing> {
     let mut out = Vec::new();
+    let mut candidates = Vec::new();
     for seg in path.windows(2) {
         let (p0, p1) = (seg[0], seg[1]);
         let mut here: Vec<(f64, Crossing)> = Vec::new();
-        for (wall_idx, segment) in grid.candidates(p0, p1) {
+        *tests += grid.candidates_into(p0, p1, &mut candidates) as u64;
+        // In (wall, segment) order, so that crossings at the same point
+        // along the path keep one order.
+        candidates.sort_unstable();
+        for &(wall_idx, segment) in &candidates {
             let w = &walls[wall_idx];
             let (q0, q1) = (w.points[segment].z, w.points[segment + 1].z);
             if let Some((s, _)) = segment_intersection(p0, p1, q0, q1) {
@@ -201,9 +218,20 @@ pub fn path_product_in(
     grid: &super::crossings::SegmentGrid,
     path: &[Complex64],
 ) -> Matrix {
+    path_product_counted(curve, walls, grid, path, &mut 0)
+}
+
+/// [`path_product_in`], adding the number of grid entries looked at to `tests`.
+fn path_product_counted(
+    curve: &Curve,
+    walls: &[Wall],
+    grid: &super::crossings::SegmentGrid,
+    path: &[Complex64],
+    tests: &mut u64,
+) -> Matrix {
     let k = curve.rank;
     let mut m = Matrix::identity(k, k);
-    for c in path_crossings_in(curve, walls, grid, path) {
+    for c in path_crossings_counted(curve, walls, grid, path, tests) {
         let f = match c {
             Crossing::Wall {
                 wall_idx,
@@ -321,26 +349,44 @@ pub fn flatness_of(
     joints: &[super::Joint],
     rel_radius: f64,
 ) -> Flatness {
+    flatness_checked(curve, walls, joints, rel_radius, &CancelToken::new())
+        .map(|(f, _)| f)
+        .unwrap_or_default()
+}
+
+/// [`flatness_of`], polling `cancel` after every loop (`None` once it is
+/// cancelled), with the number of wall segments tested against the loops.
+/// Each loop is a short path, so its cost is that of the segments near
+/// it, and the whole check is linear in the number of loops.
+pub fn flatness_checked(
+    curve: &Curve,
+    walls: &[Wall],
+    joints: &[super::Joint],
+    rel_radius: f64,
+    cancel: &CancelToken,
+) -> Option<(Flatness, u64)> {
     let r = rel_radius * curve.length_scale();
     let grid = super::crossings::SegmentGrid::build(walls);
     let mut out = Flatness::default();
-    for j in joints {
-        let d = deviation_from_identity(&path_product_in(
-            curve,
-            walls,
-            &grid,
-            &loop_around(j.z, r, 24),
-        ));
-        out.joints.push(d);
-    }
-    for b in curve.branch_points.iter().filter(|b| b.simple) {
-        let d = deviation_from_identity(&path_product_in(
-            curve,
-            walls,
-            &grid,
-            &loop_around(b.z, r, 24),
-        ));
-        out.branch_points.push(d);
+    let mut tests = 0u64;
+    let centres = joints.iter().map(|j| (true, j.z)).chain(
+        curve
+            .branch_points
+            .iter()
+            .filter(|b| b.simple)
+            .map(|b| (false, b.z)),
+    );
+    for (is_joint, z) in centres {
+        if cancel.is_cancelled() {
+            return None;
+        }
+        let m = path_product_counted(curve, walls, &grid, &loop_around(z, r, 24), &mut tests);
+        let d = deviation_from_identity(&m);
+        if is_joint {
+            out.joints.push(d);
+        } else {
+            out.branch_points.push(d);
+        }
     }
     out.worst = out
         .joints
@@ -348,5 +394,5 @@ pub fn flatness_of(
         .chain(&out.branch_points)
         .copied()
         .fold(0.0, f64::max);
-    out
+    Some((out, tests))
 }

@@ -33,6 +33,12 @@ pub struct Stats {
     pub rhs_evals: u64,
     pub steps: u64,
     pub n_points: usize,
+    /// Segment pairs looked at while searching for crossings (grid
+    /// entries, most rejected by their bounding boxes): the work of the
+    /// crossing search.
+    pub pair_tests: u64,
+    /// Wall segments looked at for the flatness loops.
+    pub flatness_tests: u64,
 }
 
 /// Which bound, if any, stopped the growth of the network early.
@@ -121,10 +127,10 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
         walls.push(grow_wall(&ctx, seed));
     }
     let mut joints = Vec::new();
-    if curve.rank >= 3 && limit == GrowthLimit::None {
-        limit = growth::grow_descendants(&ctx, &mut walls, &mut joints);
-    }
     let mut stats = Stats::default();
+    if curve.rank >= 3 && limit == GrowthLimit::None {
+        limit = growth::grow_descendants(&ctx, &mut walls, &mut joints, &mut stats.pair_tests);
+    }
     for w in &walls {
         stats.rhs_evals += w.rhs_evals;
         stats.steps += w.steps;
@@ -136,11 +142,21 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
         });
     }
     // A cancelled network is partial and thrown away by its caller.
-    let flatness = if limit == GrowthLimit::Cancelled {
-        jump::Flatness::default()
-    } else {
-        jump::flatness_of(curve, &walls, &joints, FLATNESS_LOOP)
-    };
+    let mut flatness = jump::Flatness::default();
+    if limit != GrowthLimit::Cancelled {
+        match jump::flatness_checked(curve, &walls, &joints, FLATNESS_LOOP, cancel) {
+            Some((f, tests)) => {
+                flatness = f;
+                stats.flatness_tests = tests;
+            }
+            None => limit = GrowthLimit::Cancelled,
+        }
+    }
+    if limit == GrowthLimit::Cancelled {
+        warnings.push(Warning {
+            message: "cancelled: the network is partial".into(),
+        });
+    }
     if flatness.worst > 1e-9 {
         warnings.push(Warning {
             message: format!(
