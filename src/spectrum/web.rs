@@ -370,10 +370,11 @@ impl<'a> WebFinder<'a> {
             .map(|seed| grow_wall(&ctx, seed))
             .collect();
         let mut joints = Vec::new();
+        let mut pair_tests = 0;
         let limit = if self.cancel.is_cancelled() {
             GrowthLimit::Cancelled
         } else {
-            growth::grow_descendants(&ctx, &mut walls, &mut joints)
+            growth::grow_descendants(&ctx, &mut walls, &mut joints, &mut pair_tests)
         };
         Network {
             theta,
@@ -385,7 +386,10 @@ impl<'a> WebFinder<'a> {
             joints,
             warnings: Vec::new(),
             limit,
-            stats: network::Stats::default(),
+            stats: network::Stats {
+                pair_tests,
+                ..network::Stats::default()
+            },
             flatness: network::jump::Flatness::default(),
         }
     }
