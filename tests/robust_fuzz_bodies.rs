@@ -139,7 +139,17 @@ fn drive(target: &str, seeds: &[Vec<u8>], iters: usize, body: fn(&[u8])) {
             }
             input
         };
-        body(&input);
+        // A failing input is kept for tests/robust_regressions/ when
+        // ROBUST_DUMP_DIR names a folder.
+        let outcome = std::panic::catch_unwind(|| body(&input));
+        if let Err(panic) = outcome {
+            if let Some(dir) = std::env::var_os("ROBUST_DUMP_DIR") {
+                let path = PathBuf::from(dir).join(format!("{target}-failing.bin"));
+                let _ = std::fs::write(&path, &input);
+                eprintln!("{target}: failing input written to {}", path.display());
+            }
+            std::panic::resume_unwind(panic);
+        }
     }
     eprintln!("{target}: {iters} random inputs");
 }

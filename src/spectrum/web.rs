@@ -646,6 +646,11 @@ impl<'a> WebFinder<'a> {
         // `+ 0.0` turns a phase of -0.0 into 0.0.
         let theta = phase_mod_pi(net.theta) + 0.0;
         let mut webs: Vec<Web> = vec![confirmed];
+        // Another web closes "at the same phase" when its own phase is
+        // within a few refinement tolerances of this one; a web that only
+        // passes near its branch point at a nearby phase is a state of its
+        // own, found from its own candidate.
+        let same_phase = (10.0 * self.settings.phase_tolerance).max(1e-8);
         for p in passes {
             if p.distance > HIT_FRACTION * self.radii[p.to] {
                 continue;
@@ -653,6 +658,9 @@ impl<'a> WebFinder<'a> {
             let Some(web) = self.web_of(net, p) else {
                 continue;
             };
+            if phase_gap(phase_mod_pi(web.z.arg()), theta) > same_phase {
+                continue;
+            }
             // The same web seen from its other ends (the walls running back
             // along its streets) has the same charge and branch points.
             if !webs
@@ -690,17 +698,23 @@ impl<'a> WebFinder<'a> {
         webs.into_iter()
             .map(|web| {
                 // Particle and antiparticle are one state: Z along e^(i theta).
-                let z = if (web.z / rot).re >= 0.0 {
+                let mut z = if (web.z / rot).re >= 0.0 {
                     web.z
                 } else {
                     -web.z
                 };
+                // The state's phase is its own Z's (within the tolerance of
+                // the network's); kept in [0, pi) with Z along it.
+                let phase = phase_mod_pi(z.arg()) + 0.0;
+                if (z / Complex64::from_polar(1.0, phase)).re < 0.0 {
+                    z = -z;
+                }
                 let z_error = (web.z - web.z_wall).norm().min((web.z + web.z_wall).norm());
                 let simple = web.problems.is_empty();
                 let state = BpsState {
                     z,
                     abs: z.norm(),
-                    phase: theta,
+                    phase,
                     kind: if simple { Kind::Hyper } else { Kind::Other },
                     omega: simple.then_some(1),
                     endpoints: web.endpoints,
