@@ -164,7 +164,19 @@ fn web_charge(curve: &Curve, state: &BpsState) -> Complex64 {
         assert!(line.len() >= 2, "a web polyline has at least two points");
         let starts_at_bp = is_branch_point(curve, line[0]);
         let first = usize::from(starts_at_bp);
-        let (p0, p1) = (line[first], line[first + 1]);
+        let p0 = line[first];
+        // The wall's direction at p0 from the first point really apart from
+        // it: a polyline repeats a point (to rounding) where a joint sits on
+        // it, and where several walls cross at one point (a symmetric curve
+        // at a critical phase) that can be its very first segment, whose
+        // direction is then rounding noise. A wall born at such a point and
+        // used only up to a joint at the same point has no length and adds
+        // nothing.
+        let apart = 1e-12 * curve.length_scale();
+        let Some(&p1) = line[first + 1..].iter().find(|p| (*p - p0).norm() > apart) else {
+            assert!(!starts_at_bp, "a wall from a branch point has a length");
+            continue;
+        };
         let mut pair = pair_by_direction(curve, p0, p1 - p0, state.phase);
         let n_last = line.len() - 1;
         let ends_at_bp = is_branch_point(curve, line[n_last]);
