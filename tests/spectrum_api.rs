@@ -71,3 +71,37 @@ fn cancelled_before_start_returns_partial_and_says_so() {
     assert!(spec.cancelled);
     assert!(spec.warnings.iter().any(|w| w.contains("cancelled")));
 }
+
+/// Ring domains are only sought around pairs of odd points: a curve with
+/// six odd points (where classes around four of them exist) says so, one
+/// with four does not need to. Counting: a polynomial q of degree n has n
+/// simple zeros and a pole of order n + 4 at infinity, odd when n is odd.
+#[test]
+fn ring_domain_classes_not_sought_are_announced() {
+    let settings = SpectrumSettings {
+        reach: 3.0,
+        ..SpectrumSettings::default()
+    };
+    let run = |text: &str| find(&curve(text), &settings, &CancelToken::new(), &mut |_| {});
+    let six = run("y^2 = (z^2 - 1)(z^2 - 4)(z^2 - 9)");
+    assert!(
+        six.warnings.iter().any(|w| w.contains("with 6 odd points")),
+        "{:?}",
+        six.warnings
+    );
+    // Degree 5: five zeros and an odd pole at infinity, six in all.
+    let five = run("y^2 = z^5 - 3 z + 1");
+    assert!(
+        five.warnings
+            .iter()
+            .any(|w| w.contains("with 6 odd points")),
+        "{:?}",
+        five.warnings
+    );
+    let four = run("y^2 = z^4 - 3 z + 1");
+    assert!(
+        !four.warnings.iter().any(|w| w.contains("odd points")),
+        "{:?}",
+        four.warnings
+    );
+}

@@ -6,7 +6,8 @@
 //! * saddle connections (a wall from a simple zero of q that ends on
 //!   another) are hypermultiplets, index 1, found by [`saddle`];
 //! * ring domains (families of closed trajectories) are vector multiplets,
-//!   index -2, found by [`ring`].
+//!   index -2, found by [`ring`] around pairs of odd points (a warning says
+//!   when the curve has enough odd points for other classes to exist).
 //!
 //! The finder combines a scan with a small charge lattice:
 //!
@@ -187,6 +188,22 @@ pub fn find(
         warnings.push(
             "q has a simple pole: trajectories ending on it are not counted as states".into(),
         );
+    }
+    // A closed trajectory splits the odd points (where sqrt q changes sign,
+    // infinity included) into two even groups. With four or fewer, one side
+    // is a pair, and the finder tries each pair's simplest loop (an
+    // ellipse); from six on, loops with four or more points on each side
+    // exist, and those are not tried at all: say so.
+    let n_odd = curve
+        .branch_points
+        .iter()
+        .filter(|b| b.order % 2 == 1)
+        .count()
+        + curve.punctures.iter().filter(|p| p.order % 2 == 1).count();
+    if n_odd >= 6 {
+        warnings.push(format!(
+            "ring domains are sought around pairs of odd points only; with {n_odd} odd points (simple zeros and odd poles of q), vector multiplets whose closed trajectories enclose four or more of them would be missing"
+        ));
     }
     let mut finder = Finder::new(curve, Quadratic::new(q), settings, cancel);
     finder.run(progress);
