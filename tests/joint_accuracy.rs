@@ -138,3 +138,42 @@ fn joints_lie_on_both_parents_and_masses_add() {
         eprintln!("{text}: {on_wall} of {total} parent checks within 5e-8");
     }
 }
+
+/// Joints the refinement could not place on the walls' arcs are counted,
+/// and the network says so in a warning exactly when there are any. At
+/// theta = pi/2 this rank-4 curve has walls crossing at shared points (seen
+/// while building the check), where the refinement gives up.
+#[test]
+fn joints_left_on_chords_are_announced() {
+    let mut flagged = 0;
+    for (text, theta) in [
+        ("y^3 - 3*z*y + z^3 - 1 = 0", 0.3),
+        ("y^3 - 2 z^2 y + z^4 - 1 = 0", 1.0),
+        (
+            "y^4 + z y^2 + z^2 y + z^3 - 1 = 0",
+            std::f64::consts::FRAC_PI_2,
+        ),
+    ] {
+        let c = Curve::from_poly_in_y(
+            &parse_equation(text)
+                .unwrap()
+                .evaluate(&BTreeMap::new())
+                .unwrap(),
+        )
+        .unwrap();
+        let settings = Settings {
+            reach: 12.0,
+            ..Settings::default()
+        };
+        let net = compute(&c, theta, &settings, &CancelToken::new());
+        let n = net.stats.joints_on_chord;
+        assert!(n <= net.joints.len());
+        let warned = net
+            .warnings
+            .iter()
+            .any(|w| w.message.contains("could not be refined onto the walls"));
+        assert_eq!(warned, n > 0, "{text}: {n} on chords, warned: {warned}");
+        flagged += n;
+    }
+    assert!(flagged > 0, "the rank-4 case at pi/2 should have some");
+}

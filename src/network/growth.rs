@@ -51,15 +51,16 @@ fn is_birth_point(
 pub const PAIRS_PER_POLL: u64 = 4096;
 
 /// Grows generations of child walls until none appear or a bound is hit.
-/// `pair_tests` counts the segment pairs looked at in the search (grid
-/// entries, most rejected by their bounding boxes; reported in the
-/// network's stats).
+/// `stats` counts the segment pairs looked at in the search (grid
+/// entries, most rejected by their bounding boxes) and the joints that
+/// could not be refined onto the walls' arcs.
 pub fn grow_descendants(
     ctx: &GrowContext,
     walls: &mut Vec<Wall>,
     joints: &mut Vec<Joint>,
-    pair_tests: &mut u64,
+    stats: &mut super::Stats,
 ) -> GrowthLimit {
+    let pair_tests = &mut stats.pair_tests;
     let settings = ctx.settings;
     let rot = Complex64::from_polar(1.0, ctx.theta);
     let mut new_from = 0usize;
@@ -168,14 +169,20 @@ pub fn grow_descendants(
             );
             let (z_joint, mass_a, mass_b, roots, seg_a, seg_b) = match refined {
                 Some(r) => r,
-                None => (
-                    f.z,
-                    mass_at(&walls[wa], sa, fa),
-                    mass_at(&walls[wb], sb, fb),
-                    chord_roots,
-                    sa,
-                    sb,
-                ),
+                None => {
+                    // Walls crossing at a shared point (or nearly tangent)
+                    // defeat the refinement: keep the chords' crossing and
+                    // count it, so the network can say so.
+                    stats.joints_on_chord += 1;
+                    (
+                        f.z,
+                        mass_at(&walls[wa], sa, fa),
+                        mass_at(&walls[wb], sb, fb),
+                        chord_roots,
+                        sa,
+                        sb,
+                    )
+                }
             };
             let mass = mass_a + mass_b;
             let v_a = rot / (roots[i] - roots[j]);

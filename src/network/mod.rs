@@ -39,6 +39,10 @@ pub struct Stats {
     pub pair_tests: u64,
     /// Wall segments looked at for the flatness loops.
     pub flatness_tests: u64,
+    /// Joints left at the crossing of the segments' chords because the
+    /// refinement onto the walls' arcs failed (their position is off by
+    /// up to the chords' distance from the arcs).
+    pub joints_on_chord: usize,
 }
 
 /// Which bound, if any, stopped the growth of the network early.
@@ -129,12 +133,21 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
     let mut joints = Vec::new();
     let mut stats = Stats::default();
     if curve.rank >= 3 && limit == GrowthLimit::None {
-        limit = growth::grow_descendants(&ctx, &mut walls, &mut joints, &mut stats.pair_tests);
+        limit = growth::grow_descendants(&ctx, &mut walls, &mut joints, &mut stats);
     }
     for w in &walls {
         stats.rhs_evals += w.rhs_evals;
         stats.steps += w.steps;
         stats.n_points += w.points.len();
+    }
+    if stats.joints_on_chord > 0 {
+        warnings.push(Warning {
+            message: format!(
+                "{} of {} joints could not be refined onto the walls (walls crossing at a shared point): they sit where the straight chords between wall points cross, less accurately than refined joints",
+                stats.joints_on_chord,
+                joints.len()
+            ),
+        });
     }
     if limit == GrowthLimit::MaxWalls {
         warnings.push(Warning {

@@ -370,11 +370,11 @@ impl<'a> WebFinder<'a> {
             .map(|seed| grow_wall(&ctx, seed))
             .collect();
         let mut joints = Vec::new();
-        let mut pair_tests = 0;
+        let mut stats = network::Stats::default();
         let limit = if self.cancel.is_cancelled() {
             GrowthLimit::Cancelled
         } else {
-            growth::grow_descendants(&ctx, &mut walls, &mut joints, &mut pair_tests)
+            growth::grow_descendants(&ctx, &mut walls, &mut joints, &mut stats)
         };
         Network {
             theta,
@@ -386,10 +386,7 @@ impl<'a> WebFinder<'a> {
             joints,
             warnings: Vec::new(),
             limit,
-            stats: network::Stats {
-                pair_tests,
-                ..network::Stats::default()
-            },
+            stats,
             flatness: network::jump::Flatness::default(),
         }
     }
