@@ -302,3 +302,38 @@ proptest! {
         prop_assert!(deviation_from_identity(&closed) < 1e-12);
     }
 }
+
+/// The network's flatness figures, which grid only the segments near the
+/// loops, equal the products of the same loops through `path_product`,
+/// which grids every segment: the filter never drops a crossing.
+#[test]
+fn flatness_from_nearby_segments_equals_the_full_path_products() {
+    use wallflower::network::FLATNESS_LOOP;
+    for (text, theta) in [
+        ("y^2 = z^5 - 3 z + 1", 0.7),
+        ("y^3 - 3*z*y + z^3 - 1 = 0", 0.3),
+        ("y^4 + z y^2 + z^2 y + z^3 - 1 = 0", 1.2),
+    ] {
+        let c = curve(text);
+        let net = compute(&c, theta, &Settings::default(), &CancelToken::new());
+        let r = FLATNESS_LOOP * c.length_scale();
+        let joints: Vec<Complex64> = net.joints.iter().map(|j| j.z).collect();
+        let branch: Vec<Complex64> = c
+            .branch_points
+            .iter()
+            .filter(|b| b.simple)
+            .map(|b| b.z)
+            .collect();
+        for (centres, figures) in [
+            (&joints, &net.flatness.joints),
+            (&branch, &net.flatness.branch_points),
+        ] {
+            assert_eq!(centres.len(), figures.len(), "{text}");
+            for (z, d) in centres.iter().zip(figures.iter()) {
+                let m = path_product(&c, &net.walls, &loop_around(*z, r, 24));
+                let full = deviation_from_identity(&m);
+                assert_eq!(full, *d, "{text}: loop at {z}");
+            }
+        }
+    }
+}

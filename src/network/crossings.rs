@@ -86,15 +86,25 @@ type CellRange = (i64, i64, i64, i64);
 
 impl SegmentGrid {
     pub fn build(walls: &[Wall]) -> Self {
+        Self::build_where(walls, |_, _| true)
+    }
+
+    /// The grid of only the segments `(a, b)` for which `keep(a, b)` holds
+    /// (indices stay those of `walls`): a query near few points need not
+    /// pay for hashing every segment of the network.
+    pub fn build_where(walls: &[Wall], keep: impl Fn(Complex64, Complex64) -> bool) -> Self {
         let mut lo = Complex64::new(f64::INFINITY, f64::INFINITY);
         let mut shortest = f64::INFINITY;
         for w in walls {
-            for p in &w.points {
-                if p.z.is_finite() {
-                    lo = Complex64::new(lo.re.min(p.z.re), lo.im.min(p.z.im));
-                }
-            }
             for s in w.points.windows(2) {
+                if !keep(s[0].z, s[1].z) {
+                    continue;
+                }
+                for z in [s[0].z, s[1].z] {
+                    if z.is_finite() {
+                        lo = Complex64::new(lo.re.min(z.re), lo.im.min(z.im));
+                    }
+                }
                 if let Some(e) = extent(s[0].z, s[1].z).filter(|&e| e > 0.0) {
                     shortest = shortest.min(e);
                 }
@@ -116,7 +126,10 @@ impl SegmentGrid {
         };
         for (wi, w) in walls.iter().enumerate() {
             for k in 0..w.points.len().saturating_sub(1) {
-                grid.insert(wi as u32, k as u32, w.points[k].z, w.points[k + 1].z);
+                let (a, b) = (w.points[k].z, w.points[k + 1].z);
+                if keep(a, b) {
+                    grid.insert(wi as u32, k as u32, a, b);
+                }
             }
         }
         grid.occupied = (0..LEVELS)

@@ -354,6 +354,10 @@ pub fn flatness_of(
         .unwrap_or_default()
 }
 
+/// Up to this many loops, [`flatness_checked`] grids only the segments
+/// whose bounding boxes meet a loop's.
+const LOOPS_FOR_BOX_FILTER: usize = 32;
+
 /// [`flatness_of`], polling `cancel` after every loop (`None` once it is
 /// cancelled), with the number of wall segments tested against the loops.
 /// Each loop is a short path, so its cost is that of the segments near
@@ -366,7 +370,33 @@ pub fn flatness_checked(
     cancel: &CancelToken,
 ) -> Option<(Flatness, u64)> {
     let r = rel_radius * curve.length_scale();
-    let grid = super::crossings::SegmentGrid::build(walls);
+    let centres_all: Vec<Complex64> = joints
+        .iter()
+        .map(|j| j.z)
+        .chain(curve.branch_points.iter().filter(|b| b.simple).map(|b| b.z))
+        .collect();
+    // Only segments near a loop can cross it. With few loops a plain box
+    // test per segment and loop is far cheaper than hashing every segment
+    // of the network into the grid; with many the full grid is built.
+    let grid = if centres_all.len() <= LOOPS_FOR_BOX_FILTER {
+        let reach = 1.01 * r;
+        super::crossings::SegmentGrid::build_where(walls, |a, b| {
+            let (lo_x, hi_x) = (a.re.min(b.re), a.re.max(b.re));
+            let (lo_y, hi_y) = (a.im.min(b.im), a.im.max(b.im));
+            // NaN coordinates fail every comparison: keep such segments
+            // so that the grid decides about them as before.
+            let all_finite = a.is_finite() && b.is_finite();
+            !all_finite
+                || centres_all.iter().any(|c| {
+                    lo_x <= c.re + reach
+                        && hi_x >= c.re - reach
+                        && lo_y <= c.im + reach
+                        && hi_y >= c.im - reach
+                })
+        })
+    } else {
+        super::crossings::SegmentGrid::build(walls)
+    };
     let mut out = Flatness::default();
     let mut tests = 0u64;
     let centres = joints.iter().map(|j| (true, j.z)).chain(
