@@ -117,6 +117,35 @@ impl Spectrum {
         }
     }
 
+    /// A finder's result: states sorted by `|Z|`, with the warnings of
+    /// a candidate budget hit or a cancel added to `warnings`.
+    fn finished(
+        settings: &SpectrumSettings,
+        mut states: Vec<BpsState>,
+        mut warnings: Vec<String>,
+        budget_hit: bool,
+        cancelled: bool,
+        stats: SpectrumStats,
+    ) -> Self {
+        if budget_hit {
+            warnings.push(format!(
+                "stopped after max_candidates = {} candidates: the spectrum may be incomplete",
+                settings.max_candidates
+            ));
+        }
+        if cancelled {
+            warnings.push("cancelled: the spectrum is partial".into());
+        }
+        states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
+        Self {
+            reach: settings.reach,
+            states,
+            warnings,
+            cancelled,
+            stats,
+        }
+    }
+
     /// Number of states of the given kind.
     pub fn count(&self, kind: Kind) -> usize {
         self.states.iter().filter(|s| s.kind == kind).count()
@@ -513,24 +542,14 @@ impl<'a> Finder<'a> {
         None
     }
 
-    fn into_spectrum(self, mut warnings: Vec<String>) -> Spectrum {
-        if self.budget_hit {
-            warnings.push(format!(
-                "stopped after max_candidates = {} candidates: the spectrum may be incomplete",
-                self.settings.max_candidates
-            ));
-        }
-        if self.cancelled {
-            warnings.push("cancelled: the spectrum is partial".into());
-        }
-        let mut states = self.states;
-        states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
-        Spectrum {
-            reach: self.settings.reach,
-            states,
+    fn into_spectrum(self, warnings: Vec<String>) -> Spectrum {
+        Spectrum::finished(
+            self.settings,
+            self.states,
             warnings,
-            cancelled: self.cancelled,
-            stats: self.stats,
-        }
+            self.budget_hit,
+            self.cancelled,
+            self.stats,
+        )
     }
 }

@@ -71,7 +71,7 @@ pub fn capture_radii(curve: &Curve) -> Vec<f64> {
 
 /// `(y_i - y_j)` at point k of a wall, estimated from the wall's own finite
 /// difference `e^(i theta) dt/dz`: only used to pick the sign of `2 sqrt q`.
-fn direction_hint(wall: &Wall, k: usize, theta: f64) -> Option<Complex64> {
+pub(super) fn direction_hint(wall: &Wall, k: usize, theta: f64) -> Option<Complex64> {
     let pts = &wall.points;
     let (a, b) = if k + 1 < pts.len() {
         (k, k + 1)

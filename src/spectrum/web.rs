@@ -70,7 +70,7 @@
 //! (warned).
 
 use super::pair::{Pair, PairQuadrature};
-use super::saddle::capture_radii;
+use super::saddle::{capture_radii, direction_hint};
 use super::{
     phase_gap, phase_mod_pi, same_up_to_sign, BpsState, Kind, Spectrum, SpectrumSettings,
     SpectrumStats, CANDIDATE_MATCH, MAX_REFINE,
@@ -231,22 +231,6 @@ struct WebFinder<'a> {
     /// Per-web warnings: index unknown, and charges that disagree.
     unknown_notes: Vec<String>,
     error_notes: Vec<String>,
-}
-
-/// `y_i - y_j` near point k of a wall from its own finite difference
-/// `e^(i theta) dt/dz`: only used to check the labelled pair's sign.
-fn direction_hint(wall: &Wall, k: usize, theta: f64) -> Option<Complex64> {
-    let pts = &wall.points;
-    let (a, b) = if k + 1 < pts.len() {
-        (k, k + 1)
-    } else if k >= 1 {
-        (k - 1, k)
-    } else {
-        return None;
-    };
-    let dz = pts[b].z - pts[a].z;
-    let dt = pts[b].mass - pts[a].mass;
-    (dz.norm() > 0.0 && dt > 0.0).then(|| Complex64::from_polar(dt, theta) / dz)
 }
 
 /// The ordered pair of roots whose difference is `hint` (the wall's own
@@ -845,29 +829,19 @@ impl<'a> WebFinder<'a> {
                 "some networks stopped growing at a bound (max_walls or {MAX_GENERATIONS} generations): webs deeper than that may be missing"
             ));
         }
-        if self.budget_hit {
-            warnings.push(format!(
-                "stopped after max_candidates = {} candidates: the spectrum may be incomplete",
-                self.settings.max_candidates
-            ));
-        }
         if self.networks_hit {
             warnings.push(format!(
                 "stopped after max_networks = {} networks: the spectrum may be incomplete",
                 self.settings.max_networks
             ));
         }
-        if self.cancelled {
-            warnings.push("cancelled: the spectrum is partial".into());
-        }
-        let mut states = self.states;
-        states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
-        Spectrum {
-            reach: self.settings.reach,
-            states,
+        Spectrum::finished(
+            self.settings,
+            self.states,
             warnings,
-            cancelled: self.cancelled,
-            stats: self.stats,
-        }
+            self.budget_hit,
+            self.cancelled,
+            self.stats,
+        )
     }
 }
