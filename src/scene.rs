@@ -46,6 +46,8 @@ pub mod layer_names {
     pub const BACKGROUND: &str = "background";
     pub const GRID: &str = "grid";
     pub const CUTS: &str = "branch cuts";
+    /// A BPS state's web, drawn wide under the walls.
+    pub const WEB: &str = "highlighted web";
     pub const WALLS: &str = "walls";
     pub const WALL_LABELS: &str = "wall labels";
     pub const JOINTS: &str = "joints";
@@ -53,10 +55,11 @@ pub mod layer_names {
     pub const BRANCH_POINTS: &str = "branch points";
     pub const LEGEND: &str = "legend";
     pub const TITLE: &str = "title";
-    pub const ALL: [&str; 10] = [
+    pub const ALL: [&str; 11] = [
         BACKGROUND,
         GRID,
         CUTS,
+        WEB,
         WALLS,
         WALL_LABELS,
         JOINTS,

@@ -23,8 +23,19 @@ pub fn export_scene(app: &WallflowerApp) -> anyhow::Result<crate::scene::Scene> 
         width: w as f32,
         height: h as f32,
     };
+    // A selected BPS state's web goes into the figure as on the canvas.
+    let web = match app.selection {
+        Some(super::command::Selection::State(i)) => app
+            .spectrum
+            .as_ref()
+            .and_then(|s| s.states.get(i))
+            .map(|st| st.web.clone())
+            .unwrap_or_default(),
+        _ => Vec::new(),
+    };
     let opts = SceneOptions {
         wall_labels: app.show_labels,
+        web,
         ..SceneOptions::new(transform, app.export_theme)
     };
     Ok(scene::build(

@@ -5,10 +5,12 @@ use super::bad_input;
 use super::output::write_atomic;
 use super::source::{load, Loaded, SourceArgs};
 use clap::{Args, ValueEnum};
+use num_complex::Complex64;
 use std::path::PathBuf;
 use std::process::ExitCode;
 use wallflower::scenario::Theme;
 use wallflower::scene::{self, SceneOptions, Transform};
+use wallflower::spectrum::{self, SpectrumSettings};
 use wallflower::{compute, export, CancelToken};
 
 /// Largest side of a figure, in pixels (the PNG writer's own limit).
@@ -29,6 +31,10 @@ pub struct DrawArgs {
     /// The output file: .svg or .png.
     #[arg(short = 'o', long = "output", value_name = "FILE")]
     pub output: PathBuf,
+    /// Draw at the critical phase of BPS state N (numbered as by
+    /// `wallflower spectrum`, up to the reach) with its web highlighted.
+    #[arg(long, value_name = "N", conflicts_with = "phase")]
+    pub state: Option<usize>,
     #[command(flatten)]
     pub figure: FigureArgs,
 }
@@ -100,12 +106,40 @@ pub fn run(args: &DrawArgs) -> anyhow::Result<ExitCode> {
     let size = parse_size("--size", &args.figure.size)?;
     let loaded = load(&args.source)?;
     loaded.print_warnings();
-    let (bytes, warnings) = figure_at(&loaded, loaded.theta, &args.figure, size, &format, None)?;
+    let (theta, web) = match args.state {
+        Some(n) => state_web(&loaded, n)?,
+        None => (loaded.theta, Vec::new()),
+    };
+    let (bytes, warnings) = figure_at(&loaded, theta, &args.figure, size, &format, None, web)?;
     for w in warnings {
         eprintln!("warning: {w}");
     }
     write_atomic(&args.output, &bytes)?;
     Ok(ExitCode::SUCCESS)
+}
+
+/// The critical phase and web of BPS state `n` (1-based, as listed by
+/// `wallflower spectrum`) of the loaded curve.
+fn state_web(loaded: &Loaded, n: usize) -> anyhow::Result<(f64, Vec<Vec<Complex64>>)> {
+    let settings = SpectrumSettings {
+        reach: loaded.settings.reach,
+        ..SpectrumSettings::default()
+    };
+    if let Err(errors) = settings.validate() {
+        bad_input!("{}", errors.join("; "));
+    }
+    let found = spectrum::find(&loaded.curve, &settings, &CancelToken::new(), &mut |_| {});
+    for w in &found.warnings {
+        eprintln!("warning: {}", super::one_line(w));
+    }
+    match n.checked_sub(1).and_then(|i| found.states.get(i)) {
+        Some(st) => Ok((st.phase, st.web.clone())),
+        None => bad_input!(
+            "--state {n}: the spectrum has {} state(s) with |Z| < {} (numbered from 1)",
+            found.states.len(),
+            found.reach
+        ),
+    }
 }
 
 /// The figure of the network at `theta`, encoded, with the network's
@@ -118,6 +152,7 @@ pub fn figure_at(
     (width, height): (u32, u32),
     format: &Format,
     subtitle: Option<&str>,
+    web: Vec<Vec<Complex64>>,
 ) -> anyhow::Result<(Vec<u8>, Vec<String>)> {
     let net = compute(&loaded.curve, theta, &loaded.settings, &CancelToken::new());
     let warnings: Vec<String> = net
@@ -145,6 +180,7 @@ pub fn figure_at(
         (None, s) => s.map(str::to_string),
     };
     opts.wall_labels = figure.wall_labels;
+    opts.web = web;
     opts.grid = !figure.no_grid;
     opts.legend = !figure.no_legend;
     let picture = scene::build(&loaded.curve, &net, &opts);

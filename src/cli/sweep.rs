@@ -191,6 +191,7 @@ pub fn run(args: &SweepArgs) -> anyhow::Result<ExitCode> {
             size,
             &format,
             Some(&label),
+            Vec::new(),
         )?;
         for w in warnings {
             // The same caveat in many frames is said once.

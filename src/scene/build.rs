@@ -1,6 +1,7 @@
 //! The scene builder: a network (and its curve) at one phase turned into
 //! layers of plain shapes in pixels, bottom to top: background, grid, branch
-//! cuts, walls, wall labels, joints, punctures, branch points, legend, title.
+//! cuts, highlighted web, walls, wall labels, joints, punctures, branch
+//! points, legend, title.
 //!
 //! Everything is deterministic: the same input gives the same scene, shape
 //! for shape, so exported files diff cleanly.
@@ -34,6 +35,9 @@ pub struct SceneOptions {
     pub title: Option<String>,
     /// A wall (index into `Network::walls`) drawn wider and on top.
     pub highlight: Option<usize>,
+    /// Polylines in the plane drawn wide and translucent under the walls:
+    /// the web of a BPS state at its critical phase.
+    pub web: Vec<Vec<Complex64>>,
     /// Multiplies line widths, marker and text sizes. `None` picks it from
     /// the picture: 1 at 800 px on the short side, proportional otherwise,
     /// within [0.75, 3].
@@ -53,6 +57,7 @@ impl SceneOptions {
             legend: true,
             title: None,
             highlight: None,
+            web: Vec::new(),
             scale: None,
         }
     }
@@ -82,6 +87,7 @@ impl SceneOptions {
 mod size {
     pub const WALL: f32 = 1.8;
     pub const WALL_HIGHLIGHT: f32 = 4.0;
+    pub const WEB: f32 = 8.0;
     pub const CUT: f32 = 1.0;
     pub const GRID: f32 = 1.0;
     pub const AXIS: f32 = 1.2;
@@ -186,6 +192,7 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
             Vec::new()
         },
     );
+    push(layer_names::WEB, web(opts, &clip, s));
     let runs = wall_runs(curve, net, opts, &clip, s);
     let mut wall_shapes: Vec<Shape> = Vec::new();
     let mut highlighted: Vec<Shape> = Vec::new();
@@ -337,6 +344,36 @@ struct Run {
     dashed: bool,
     width: f32,
     pieces: Vec<Vec<[f64; 2]>>,
+}
+
+/// The highlighted web: wide translucent orange (the window's selection
+/// colour) under the walls, so that the walls along it stay readable.
+fn web(opts: &SceneOptions, clip: &ClipRect, s: f32) -> Vec<Shape> {
+    let t = &opts.transform;
+    let mut shapes = Vec::new();
+    for line in &opts.web {
+        let screen: Vec<[f64; 2]> = line
+            .iter()
+            .filter(|z| z.is_finite())
+            .map(|z| {
+                let q = t.to_screen(*z);
+                [f64::from(q[0]), f64::from(q[1])]
+            })
+            .collect();
+        for piece in clip_polyline(&screen, clip) {
+            let piece = thin(&piece, size::THIN_STEP);
+            if piece.len() >= 2 {
+                shapes.push(Shape::Polyline {
+                    points: piece.iter().map(|p| [p[0] as f32, p[1] as f32]).collect(),
+                    width: size::WEB * s,
+                    color: Rgba([0xE6, 0x9F, 0x00, 150]),
+                    dashed: false,
+                    item: Item::Decoration,
+                });
+            }
+        }
+    }
+    shapes
 }
 
 /// Splits every wall where its type changes (at a cut; the cut point is
