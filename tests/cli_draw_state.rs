@@ -66,6 +66,9 @@ fn the_state_web_is_drawn_at_its_critical_phase() {
     let web = layer(&a, "highlighted web");
     assert!(web.matches("<polyline").count() >= 1, "{web}");
     assert_eq!(layer(&b, "highlighted web").matches("<polyline").count(), 0);
+    // The legend names it, only when it is drawn.
+    assert!(layer(&a, "legend").contains(">BPS web<"));
+    assert!(!layer(&b, "legend").contains("BPS web"));
 
     let (code, _, err) = run(&[
         "draw", "--curve", curve, "--reach", "5", "--state", "3", "-o", "x.svg",

@@ -346,6 +346,9 @@ struct Run {
     pieces: Vec<Vec<[f64; 2]>>,
 }
 
+/// Okabe-Ito orange at 60% opacity, the window's selection colour.
+const WEB_COLOR: Rgba = Rgba([0xE6, 0x9F, 0x00, 150]);
+
 /// The highlighted web: wide translucent orange (the window's selection
 /// colour) under the walls, so that the walls along it stay readable.
 fn web(opts: &SceneOptions, clip: &ClipRect, s: f32) -> Vec<Shape> {
@@ -366,7 +369,7 @@ fn web(opts: &SceneOptions, clip: &ClipRect, s: f32) -> Vec<Shape> {
                 shapes.push(Shape::Polyline {
                     points: piece.iter().map(|p| [p[0] as f32, p[1] as f32]).collect(),
                     width: size::WEB * s,
-                    color: Rgba([0xE6, 0x9F, 0x00, 150]),
+                    color: WEB_COLOR,
                     dashed: false,
                     item: Item::Decoration,
                 });
@@ -697,9 +700,13 @@ fn legend(
     }
     enum Row {
         Wall(WallType),
+        Web,
         Marker(Shape, &'static str),
     }
     let mut rows: Vec<Row> = kinds.values().map(|k| Row::Wall(*k)).collect();
+    if opts.web.iter().any(|line| line.len() >= 2) {
+        rows.push(Row::Web);
+    }
     let text_size = size::LEGEND_TEXT * s;
     let row_h = 1.45 * text_size;
     let pad = 0.7 * text_size;
@@ -760,6 +767,7 @@ fn legend(
     }
     let label = |row: &Row| match row {
         Row::Wall(k) => k.to_string(),
+        Row::Web => "BPS web".to_string(),
         Row::Marker(_, text) => (*text).to_string(),
     };
     let max_em = rows
@@ -787,6 +795,13 @@ fn legend(
                 width: size::WALL * s * 1.4 * opts.line_factor(),
                 color: palette::wall_color(*kind, rank, opts.theme),
                 dashed: palette::wall_dashed(*kind, rank),
+                item: Item::Decoration,
+            }),
+            Row::Web => shapes.push(Shape::Polyline {
+                points: vec![[x0, mid_y], [x0 + sample, mid_y]],
+                width: size::WEB * s,
+                color: WEB_COLOR,
+                dashed: false,
                 item: Item::Decoration,
             }),
             Row::Marker(shape, _) => {
