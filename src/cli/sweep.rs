@@ -156,10 +156,14 @@ pub fn run(args: &SweepArgs) -> anyhow::Result<ExitCode> {
         bar.set_style(style.progress_chars("=> "));
     }
     let mut seen = std::collections::HashSet::new();
+    let (phases, values) = match &motion {
+        Motion::Phase { from, to } => (frame_phases(*from, *to, args.frames), Vec::new()),
+        Motion::Param { from, to, .. } => (Vec::new(), param_values(*from, *to, args.frames)),
+    };
     for k in 0..args.frames {
         let (frame, label) = match &motion {
-            Motion::Phase { from, to } => {
-                let theta = frame_phases(*from, *to, args.frames)[k];
+            Motion::Phase { .. } => {
+                let theta = phases[k];
                 let label = format!("\u{3b8} = {theta:.4} rad");
                 let frame = Loaded {
                     theta,
@@ -167,8 +171,8 @@ pub fn run(args: &SweepArgs) -> anyhow::Result<ExitCode> {
                 };
                 (frame, label)
             }
-            Motion::Param { name, from, to } => {
-                let v = param_values(*from, *to, args.frames)[k];
+            Motion::Param { name, .. } => {
+                let v = values[k];
                 let label = format!("{name} = {:.4}{:+.4}i", v.re, v.im);
                 let mut scenario = loaded.scenario.clone();
                 scenario.params.insert(name.clone(), [v.re, v.im]);

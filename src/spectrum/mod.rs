@@ -174,6 +174,19 @@ fn phase_gap(a: f64, b: f64) -> f64 {
     d.min(PI - d)
 }
 
+/// The box the finders' walls stop at: the default network box about the
+/// same centre, `bounds_factor` times as wide, so that saddles and webs
+/// that swing wide are still followed.
+fn finder_bounds(curve: &Curve, settings: &SpectrumSettings) -> Bounds {
+    let base = default_bounds(curve);
+    let (cx, cy) = (
+        0.5 * (base.min[0] + base.max[0]),
+        0.5 * (base.min[1] + base.max[1]),
+    );
+    let half = 0.5 * (base.max[0] - base.min[0]) * settings.bounds_factor;
+    Bounds::square(cx, cy, half)
+}
+
 /// Relative agreement at which two candidate charges count as the same
 /// (candidates carry the scan integrator's error).
 const CANDIDATE_MATCH: f64 = 1e-5;
@@ -270,18 +283,12 @@ impl<'a> Finder<'a> {
         settings: &'a SpectrumSettings,
         cancel: &'a CancelToken,
     ) -> Self {
-        let base = default_bounds(curve);
-        let (cx, cy) = (
-            0.5 * (base.min[0] + base.max[0]),
-            0.5 * (base.min[1] + base.max[1]),
-        );
-        let half = 0.5 * (base.max[0] - base.min[0]) * settings.bounds_factor;
         Self {
             curve,
             quad,
             settings,
             cancel,
-            bounds: Bounds::square(cx, cy, half),
+            bounds: finder_bounds(curve, settings),
             radii: saddle::capture_radii(curve),
             states: Vec::new(),
             tried: Vec::new(),

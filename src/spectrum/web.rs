@@ -72,12 +72,12 @@
 use super::pair::{Pair, PairQuadrature};
 use super::saddle::{capture_radii, direction_hint};
 use super::{
-    phase_gap, phase_mod_pi, same_up_to_sign, BpsState, Kind, Spectrum, SpectrumSettings,
-    SpectrumStats, CANDIDATE_MATCH, MAX_REFINE,
+    finder_bounds, phase_gap, phase_mod_pi, same_up_to_sign, BpsState, Kind, Spectrum,
+    SpectrumSettings, SpectrumStats, CANDIDATE_MATCH, MAX_REFINE,
 };
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
-use crate::network::{self, default_bounds, growth, GrowthLimit, Network};
+use crate::network::{self, growth, GrowthLimit, Network};
 use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Origin, Settings, Wall};
 use num_complex::Complex64;
 use std::f64::consts::PI;
@@ -273,18 +273,12 @@ fn nearest_segment(points: &[Complex64], z: Complex64) -> usize {
 
 impl<'a> WebFinder<'a> {
     fn new(curve: &'a Curve, settings: &'a SpectrumSettings, cancel: &'a CancelToken) -> Self {
-        let base = default_bounds(curve);
-        let (cx, cy) = (
-            0.5 * (base.min[0] + base.max[0]),
-            0.5 * (base.min[1] + base.max[1]),
-        );
-        let half = 0.5 * (base.max[0] - base.min[0]) * settings.bounds_factor;
         Self {
             curve,
             settings,
             cancel,
             quad: PairQuadrature::new(curve),
-            bounds: Bounds::square(cx, cy, half),
+            bounds: finder_bounds(curve, settings),
             radii: capture_radii(curve),
             states: Vec::new(),
             tried: Vec::new(),
