@@ -11,27 +11,15 @@ use std::time::{Duration, Instant};
 use wallflower::app::{AppOptions, WallflowerApp};
 use wallflower::scenario::{Quadratic, Scenario};
 
-fn harness(scenario: Scenario) -> Harness<'static, WallflowerApp> {
-    let app = WallflowerApp::with_scenario(scenario, None, &AppOptions::default());
-    Harness::builder()
-        .with_size([1400.0, 880.0])
-        .build_ui_state(|ui, app: &mut WallflowerApp| app.ui(ui), app)
-}
+mod gui_common;
+use gui_common::{click_plane, harness_with, primary, wait_for_worker};
 
-/// Steps frames until the worker has answered the newest scenario (at
-/// most 30 s), then a few more so the panels show the result.
-fn wait_for_worker(h: &mut Harness<'_, WallflowerApp>) {
-    let start = Instant::now();
-    h.step();
-    while h.state().is_computing() {
-        assert!(
-            start.elapsed() < Duration::from_secs(30),
-            "the worker did not answer within 30 s"
-        );
-        std::thread::sleep(Duration::from_millis(5));
-        h.step();
-    }
-    h.run_steps(3);
+fn harness(scenario: Scenario) -> Harness<'static, WallflowerApp> {
+    harness_with(WallflowerApp::with_scenario(
+        scenario,
+        None,
+        &AppOptions::default(),
+    ))
 }
 
 fn n_walls(h: &Harness<'_, WallflowerApp>) -> usize {
@@ -39,28 +27,6 @@ fn n_walls(h: &Harness<'_, WallflowerApp>) -> usize {
         .shown
         .as_ref()
         .map_or(0, |s| s.computed.network.walls.len())
-}
-
-/// The primary button pressed or released at `pos`.
-fn primary(h: &mut Harness<'_, WallflowerApp>, pos: egui::Pos2, pressed: bool) {
-    h.event(egui::Event::PointerButton {
-        pos,
-        button: egui::PointerButton::Primary,
-        pressed,
-        modifiers: egui::Modifiers::NONE,
-    });
-}
-
-/// A primary click at a point of the z-plane.
-fn click_plane(h: &mut Harness<'_, WallflowerApp>, z: Complex64) {
-    let tf = h.state().transform.expect("the canvas was drawn");
-    let pos = tf.to_screen(z);
-    h.hover_at(pos);
-    h.step();
-    primary(h, pos, true);
-    h.step();
-    primary(h, pos, false);
-    h.step();
 }
 
 fn two_zeros() -> Scenario {

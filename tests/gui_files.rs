@@ -8,35 +8,18 @@ use egui_kittest::kittest::Queryable;
 use egui_kittest::Harness;
 use num_complex::Complex64;
 use std::path::PathBuf;
-use std::time::{Duration, Instant};
+use std::time::Duration;
 use wallflower::app::{AppOptions, WallflowerApp};
 use wallflower::scenario::{Quadratic, Scenario};
+
+mod gui_common;
+use gui_common::{click_plane, harness_with, wait_for_worker};
 
 fn temp_dir(name: &str) -> PathBuf {
     let d = std::env::temp_dir().join(format!("wallflower-{name}-{}", std::process::id()));
     let _ = std::fs::remove_dir_all(&d);
     std::fs::create_dir_all(&d).unwrap();
     d
-}
-
-fn harness_with(app: WallflowerApp) -> Harness<'static, WallflowerApp> {
-    Harness::builder()
-        .with_size([1400.0, 880.0])
-        .build_ui_state(|ui, app: &mut WallflowerApp| app.ui(ui), app)
-}
-
-fn wait_for_worker(h: &mut Harness<'_, WallflowerApp>) {
-    let start = Instant::now();
-    h.step();
-    while h.state().is_computing() {
-        assert!(
-            start.elapsed() < Duration::from_secs(30),
-            "worker timed out"
-        );
-        std::thread::sleep(Duration::from_millis(5));
-        h.step();
-    }
-    h.run_steps(3);
 }
 
 fn two_zeros() -> Scenario {
@@ -50,21 +33,6 @@ fn two_zeros() -> Scenario {
         phase: 0.3,
         reach: 3.0,
         ..Scenario::default()
-    }
-}
-
-fn click_at(h: &mut Harness<'_, WallflowerApp>, z: Complex64) {
-    let pos = h.state().transform.unwrap().to_screen(z);
-    h.hover_at(pos);
-    h.step();
-    for pressed in [true, false] {
-        h.event(egui::Event::PointerButton {
-            pos,
-            button: egui::PointerButton::Primary,
-            pressed,
-            modifiers: egui::Modifiers::NONE,
-        });
-        h.step();
     }
 }
 
@@ -90,7 +58,7 @@ fn save_then_open_round_trips_and_marks_unsaved_edits() {
 
     h.get_by_label("Add branch point").click();
     h.step();
-    click_at(&mut h, Complex64::new(0.0, 1.0));
+    click_plane(&mut h, Complex64::new(0.0, 1.0));
     h.run_steps(2);
     assert!(h.state().is_dirty());
     assert!(
@@ -122,7 +90,7 @@ fn unsaved_edits_are_offered_back_at_the_next_start() {
         assert!(h.state().recovery_offer.is_none());
         h.get_by_label("Add branch point").click();
         h.step();
-        click_at(&mut h, Complex64::new(0.3, -0.8));
+        click_plane(&mut h, Complex64::new(0.3, -0.8));
         h.run_steps(3);
         assert!(dir.join("recovery.ron").exists(), "the edit was autosaved");
         h.state().scenario.quadratic.clone()
@@ -155,7 +123,7 @@ fn delete_key_removes_the_selected_branch_point() {
         &AppOptions::default(),
     ));
     wait_for_worker(&mut h);
-    click_at(&mut h, Complex64::new(1.0, 0.0));
+    click_plane(&mut h, Complex64::new(1.0, 0.0));
     assert!(
         h.state().selection.is_some(),
         "clicking the point selects it"
@@ -277,7 +245,7 @@ fn failing_save_keeps_the_edits(
     wait_for_worker(&mut h);
     h.get_by_label("Add branch point").click();
     h.step();
-    click_at(&mut h, Complex64::new(0.4, 0.9));
+    click_plane(&mut h, Complex64::new(0.4, 0.9));
     wait_for_worker(&mut h);
     assert!(h.state().is_dirty());
     let edited = h.state().scenario.clone();
