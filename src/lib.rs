@@ -4,6 +4,7 @@
 //! ARCHITECTURE.md for the layers.
 
 pub mod algebra;
+pub mod angle;
 pub mod cancel;
 pub mod curve;
 pub mod export;

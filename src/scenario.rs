@@ -64,7 +64,8 @@ impl Default for Quadratic {
 #[serde(default)]
 pub struct View {
     pub center: [f64; 2],
-    /// Half the width of the shown region, in z units.
+    /// Half the shown region's shorter side, in z units: the square
+    /// `center +- half_width` is visible in any window or figure.
     pub half_width: f64,
 }
 

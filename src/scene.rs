@@ -77,8 +77,11 @@ pub fn dash_pattern(width: f32) -> [f32; 2] {
 }
 
 /// Maps the z-plane to pixels: `center` in the middle of a `width x height`
-/// picture, `half_width` z-units from the middle to the left/right edge,
-/// y axis pointing up in the plane and down on screen.
+/// picture, `half_width` z-units from the middle to the nearer edges (those
+/// of the picture's shorter side), y axis pointing up in the plane and down
+/// on screen. So a view shows the square `center +- half_width` whatever
+/// the picture's shape: a wide figure shows more to the left and right, a
+/// tall one more above and below, and neither cuts the square off.
 #[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Transform {
     pub center: [f64; 2],
@@ -111,7 +114,16 @@ impl Transform {
     }
 
     pub fn pixels_per_unit(&self) -> f64 {
-        f64::from(self.width) / (2.0 * self.half_width)
+        f64::from(self.width.min(self.height)) / (2.0 * self.half_width)
+    }
+
+    /// Half the shown region's width and height, in z units.
+    pub fn half_extents(&self) -> [f64; 2] {
+        let s = self.pixels_per_unit();
+        [
+            f64::from(self.width) / (2.0 * s),
+            f64::from(self.height) / (2.0 * s),
+        ]
     }
 
     pub fn to_screen(&self, z: Complex64) -> [f32; 2] {

@@ -206,10 +206,14 @@ impl WallflowerApp {
             .map_or(1.0, |s| s.computed.curve.length_scale());
         let extent = (hi.re - lo.re).max(hi.im - lo.im).max(scale).max(1e-3);
         let pad = 0.45 * extent;
-        let aspect = self.transform.map_or(1.4, |t| {
-            f64::from(t.rect.width() / t.rect.height().max(1.0))
+        let [w, h] = self.transform.map_or([1.4, 1.0], |t| {
+            [f64::from(t.rect.width()), f64::from(t.rect.height())]
         });
-        let half_w = ((hi.re - lo.re) / 2.0 + pad).max(((hi.im - lo.im) / 2.0 + pad) * aspect);
+        // The view's half width is on the canvas's shorter side; the longer
+        // side shows more in proportion.
+        let short = w.min(h).max(1.0);
+        let half_w = (((hi.re - lo.re) / 2.0 + pad) * short / w.max(1.0))
+            .max(((hi.im - lo.im) / 2.0 + pad) * short / h.max(1.0));
         self.view = View {
             center: [(lo.re + hi.re) / 2.0, (lo.im + hi.im) / 2.0],
             half_width: half_w,

@@ -81,8 +81,28 @@ pub fn run(scenario: Option<PathBuf>) -> anyhow::Result<()> {
     })
 }
 
+/// The window cannot open: there is no display to open it on. The command
+/// line reports this as bad input (exit status 2), in one sentence.
+#[derive(Debug, thiserror::Error)]
+#[error("no display to open the window on ({0}); use a headless command such as `wallflower draw`, or run the window under xvfb-run")]
+pub struct NoDisplay(pub String);
+
+/// Why there is no display, when the environment names none (X11 or
+/// Wayland; elsewhere the platform decides).
+fn missing_display() -> Option<NoDisplay> {
+    if !cfg!(all(unix, not(target_os = "macos"))) {
+        return None;
+    }
+    let set = |name: &str| std::env::var_os(name).is_some_and(|v| !v.is_empty());
+    (!set("DISPLAY") && !set("WAYLAND_DISPLAY") && !set("WAYLAND_SOCKET"))
+        .then(|| NoDisplay("DISPLAY and WAYLAND_DISPLAY are not set".into()))
+}
+
 /// Opens the window with explicit options.
 pub fn run_with(opts: AppOptions) -> anyhow::Result<()> {
+    if let Some(e) = missing_display() {
+        return Err(e.into());
+    }
     let app = WallflowerApp::new(&opts)?;
     let [w, h] = opts.size.unwrap_or([1500.0, 920.0]);
     let native = eframe::NativeOptions {
@@ -98,7 +118,18 @@ pub fn run_with(opts: AppOptions) -> anyhow::Result<()> {
         native,
         Box::new(move |_cc| Ok(Box::new(Shell(app)))),
     )
-    .map_err(|e| anyhow::anyhow!("could not open the window: {e}"))
+    .map_err(|e| match e {
+        // The event loop or the first window could not be made: the display
+        // named in the environment is not there (the library's own message
+        // carries a source path, not for users).
+        eframe::Error::Winit(_) | eframe::Error::WinitEventLoop(_) => {
+            let named = std::env::var("DISPLAY")
+                .or_else(|_| std::env::var("WAYLAND_DISPLAY"))
+                .unwrap_or_default();
+            NoDisplay(format!("cannot connect to the display '{named}'")).into()
+        }
+        other => anyhow::anyhow!("could not open the window: {other}"),
+    })
 }
 
 /// The eframe side: the app itself knows nothing of eframe.

@@ -4,6 +4,7 @@
 
 use super::command::{Command, PointRef, Selection};
 use super::explorer::{Tool, WallflowerApp};
+use crate::angle::parse_angle;
 use crate::scenario::Theme;
 use eframe::egui::{self, Color32, RichText};
 use num_complex::Complex64;
@@ -147,15 +148,12 @@ impl WallflowerApp {
                     .range(0.0..=TAU)
                     .speed(0.002)
                     .custom_formatter(|v, _| format!("{v:.4} rad = {:.2}\u{b0}", v.to_degrees()))
-                    .custom_parser(|s| {
-                        let s = s.trim();
-                        s.strip_suffix('\u{b0}')
-                            .and_then(|d| d.trim().parse::<f64>().ok())
-                            .map(f64::to_radians)
-                            .or_else(|| s.trim_end_matches("rad").trim().parse().ok())
-                    }),
+                    // The one angle parser: 0.4, pi/2, 3pi/4, 30deg, 30\u{b0}.
+                    .custom_parser(|s| parse_angle(s).ok()),
             )
-            .on_hover_text("phase; type a value in radians, or in degrees ending in \u{b0}");
+            .on_hover_text(
+                "phase; type radians (0.4), a multiple of pi (pi/2, 3pi/4) or degrees (30deg)",
+            );
         if v.changed() {
             self.commands.push(Command::SetPhase(typed));
         }

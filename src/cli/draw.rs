@@ -128,7 +128,12 @@ fn state_web(loaded: &Loaded, n: usize) -> anyhow::Result<(f64, Vec<Vec<Complex6
     if let Err(errors) = settings.validate() {
         bad_input!("{}", errors.join("; "));
     }
-    let found = spectrum::find(&loaded.curve, &settings, &CancelToken::new(), &mut |_| {});
+    // The spectrum can take seconds at a large reach: show how far it is.
+    let bar = super::spectrum::progress_bar("spectrum");
+    let found = spectrum::find(&loaded.curve, &settings, &CancelToken::new(), &mut |f| {
+        bar.set_position((f.clamp(0.0, 1.0) * 1000.0) as u64);
+    });
+    bar.finish_and_clear();
     for w in &found.warnings {
         eprintln!("warning: {}", super::one_line(w));
     }

@@ -19,8 +19,22 @@ pub struct InspectArgs {
     #[arg(long, value_name = "X,Y", allow_hyphen_values = true)]
     pub at: Option<String>,
     /// Print one JSON object instead of tables.
-    #[arg(long)]
+    #[arg(long, conflicts_with = "csv")]
     pub json: bool,
+    /// List the scenario's parameters and their values only (with --json
+    /// or --csv in that form); works before every parameter has a value.
+    #[arg(long, conflicts_with = "at")]
+    pub params: bool,
+    /// With --params: print CSV.
+    #[arg(long, requires = "params")]
+    pub csv: bool,
+}
+
+#[derive(Serialize)]
+struct ParamJson {
+    name: String,
+    /// `[re, im]`, or `null` when the scenario gives no value.
+    value: Option<[f64; 2]>,
 }
 
 #[derive(Serialize)]
@@ -70,7 +84,50 @@ fn fmt_z(z: Complex64) -> String {
     format!("{:.6}{:+.6}i", z.re, z.im)
 }
 
+/// `inspect --params`: the parameters of the scenario's equation, in the
+/// order they are named, with the values the scenario (and --set) gives.
+fn list_params(args: &InspectArgs) -> anyhow::Result<ExitCode> {
+    let given = super::source::load_given(&args.source)?;
+    let params: Vec<ParamJson> = given
+        .scenario
+        .parameter_names()
+        .into_iter()
+        .map(|name| ParamJson {
+            value: given.scenario.params.get(&name).copied(),
+            name,
+        })
+        .collect();
+    let mut out = String::new();
+    if args.json {
+        out = serde_json::to_string(&serde_json::json!({ "params": params }))? + "\n";
+    } else if args.csv {
+        say!(out, "name,re,im");
+        for p in &params {
+            let [re, im] = p
+                .value
+                .map_or([String::new(), String::new()], |v| v.map(|x| x.to_string()));
+            say!(out, "{},{re},{im}", p.name);
+        }
+    } else if params.is_empty() {
+        say!(out, "{}: the curve has no parameters", given.label);
+    } else {
+        say!(out, "{:>12}  value", "parameter");
+        for p in &params {
+            let value = p.value.map_or_else(
+                || "no value (give it with --set NAME=VALUE)".to_string(),
+                |v| fmt_z(Complex64::new(v[0], v[1])),
+            );
+            say!(out, "{:>12}  {value}", p.name);
+        }
+    }
+    emit(&out)?;
+    Ok(ExitCode::SUCCESS)
+}
+
 pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
+    if args.params {
+        return list_params(args);
+    }
     let mut out = String::new();
     let at = args.at.as_deref().map(parse_point).transpose()?;
     let loaded = load(&args.source)?;

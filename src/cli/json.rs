@@ -1,7 +1,9 @@
 //! The JSON shapes the command line prints (the contract shown in
-//! README.md, extended). Sheets and wall types are 1-based, as printed
-//! everywhere else; indices into lists (`parents`, `child`, `end_at`,
-//! `origin.index`) are 0-based positions in the lists of the same object.
+//! README.md, extended). Every number that names something counts from 1,
+//! as in every table and in the window: sheets, wall types, and the
+//! positions in lists of the same object (`parents`, `child`, `end_at`,
+//! `origin.index`, a relabel's `from`), so `parents: [1, 2]` are the first
+//! two entries of `walls`.
 
 use num_complex::Complex64;
 use serde::Serialize;
@@ -63,7 +65,8 @@ pub struct OriginJson {
 
 #[derive(Serialize)]
 pub struct RelabelJson {
-    /// Index into the wall's `points` from which `type` holds.
+    /// The point of the wall's `points` (counted from 1) from which `type`
+    /// holds.
     pub from: usize,
     #[serde(rename = "type")]
     pub kind: [u8; 2],
@@ -95,21 +98,21 @@ pub struct WallJson {
 impl From<&Wall> for WallJson {
     fn from(w: &Wall) -> Self {
         let end_at = match w.end {
-            EndReason::Puncture(i) | EndReason::BranchPoint(i) => Some(i),
+            EndReason::Puncture(i) | EndReason::BranchPoint(i) => Some(i + 1),
             _ => None,
         };
         let origin = match w.origin {
             Origin::BranchPoint { index, .. } => OriginJson {
                 kind: "branch_point",
-                index,
+                index: index + 1,
             },
             Origin::Puncture { index, .. } => OriginJson {
                 kind: "puncture",
-                index,
+                index: index + 1,
             },
             Origin::Joint { index } => OriginJson {
                 kind: "joint",
-                index,
+                index: index + 1,
             },
         };
         Self {
@@ -125,7 +128,7 @@ impl From<&Wall> for WallJson {
                 .relabels
                 .iter()
                 .map(|r| RelabelJson {
-                    from: r.from,
+                    from: r.from + 1,
                     kind: one_based(r.kind),
                     multiplicity: r.multiplicity,
                 })
@@ -196,8 +199,8 @@ impl NetworkJson {
                 .iter()
                 .map(|j| JointJson {
                     z: xy(j.z),
-                    parents: j.parents,
-                    child: j.child,
+                    parents: j.parents.map(|w| w + 1),
+                    child: j.child + 1,
                 })
                 .collect(),
             warnings,

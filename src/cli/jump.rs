@@ -35,7 +35,7 @@ pub struct JumpArgs {
 struct CrossingJson {
     /// "wall" or "cut".
     kind: &'static str,
-    /// Wall index (into the network's walls) or cut index.
+    /// The wall (as numbered by `network`) or the cut, counted from 1.
     index: usize,
     /// Wall type at the crossing, 1-based (walls only).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -111,7 +111,7 @@ pub fn run(args: &JumpArgs) -> anyhow::Result<ExitCode> {
                     let w = &net.walls[wall_idx];
                     CrossingJson {
                         kind: "wall",
-                        index: wall_idx,
+                        index: wall_idx + 1,
                         r#type: Some(w.kind_at(segment).one_based()),
                         multiplicity: Some(w.multiplicity_at(segment)),
                         positive,
@@ -122,7 +122,7 @@ pub fn run(args: &JumpArgs) -> anyhow::Result<ExitCode> {
                     west_to_east,
                 } => CrossingJson {
                     kind: "cut",
-                    index: cut_idx,
+                    index: cut_idx + 1,
                     r#type: None,
                     multiplicity: None,
                     positive: west_to_east,

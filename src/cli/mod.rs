@@ -66,6 +66,16 @@ pub fn emit(text: &str) -> anyhow::Result<()> {
     }
 }
 
+/// clap's reader of an angle (`--phase`, `--from`, `--to`): the library's
+/// one parser of angles, so `pi/2`, `3pi/4` and `30deg` work everywhere.
+pub fn angle_arg(text: &str) -> Result<f64, String> {
+    wallflower::angle::parse_angle(text).map_err(|e| e.to_string())
+}
+
+/// A number in short form for messages (`1e300`, not its 301 digits): the
+/// library's, so the command line and the engine's messages agree.
+pub use wallflower::walls::show_f64 as short;
+
 /// Joins the lines of `text` into one, collapsing runs of whitespace.
 pub fn one_line(text: &str) -> String {
     text.split_whitespace().collect::<Vec<_>>().join(" ")
@@ -79,9 +89,9 @@ pub fn one_line(text: &str) -> String {
 struct Cli {
     #[command(subcommand)]
     command: Option<Command>,
-    /// Window only: save the window's own frame to this PNG once the
-    /// network is shown, then exit (for tests and README pictures).
-    #[arg(long, value_name = "FILE.png", global = true)]
+    /// Save the window's own frame to this PNG once the network is shown,
+    /// then exit (for tests and README pictures).
+    #[arg(long, value_name = "FILE.png")]
     screenshot: Option<PathBuf>,
 }
 
@@ -91,14 +101,21 @@ enum Command {
     Open {
         /// The scenario file (.ron).
         file: PathBuf,
+        /// Save the window's own frame to this PNG once the network is
+        /// shown, then exit (for tests and README pictures).
+        #[arg(long, value_name = "FILE.png")]
+        screenshot: Option<PathBuf>,
     },
-    /// Compute the network at one phase and print it (a table, or JSON).
+    /// Compute the network at one phase and print it (a table, JSON or CSV).
     Network {
         #[command(flatten)]
         source: SourceArgs,
         /// Print one JSON object instead of a table.
-        #[arg(long)]
+        #[arg(long, conflicts_with = "csv")]
         json: bool,
+        /// Print CSV: one row per wall, then one per joint (column `list`).
+        #[arg(long)]
+        csv: bool,
     },
     /// Draw the network to an SVG or PNG file.
     Draw(draw::DrawArgs),
@@ -116,6 +133,9 @@ enum Command {
     Check {
         #[command(flatten)]
         source: SourceArgs,
+        /// Print one JSON object instead of a line.
+        #[arg(long)]
+        json: bool,
     },
     /// Write the scenario (with --curve, --set, --phase, --reach applied) to a file.
     Save {
@@ -161,26 +181,33 @@ pub fn run() -> anyhow::Result<ExitCode> {
                     .collect();
                 first = format!("{first} {}", listed.join(", "));
             }
-            bad_input!("{first} (see wallflower --help)");
+            // Keep clap's suggestion for a mistyped name ("tip: a similar
+            // subcommand exists: 'draw'"): it is the useful part.
+            let tip = rendered
+                .lines()
+                .map(str::trim)
+                .find(|l| l.starts_with("tip:") && l.contains("similar"))
+                .map(|l| format!("; {}", l.trim_start_matches("tip:").trim()))
+                .unwrap_or_default();
+            bad_input!("{first}{tip} (see wallflower --help)");
         }
     };
-    let screenshot = cli.screenshot.clone();
     match cli.command {
-        None => open_window(None, screenshot),
-        Some(Command::Open { file }) => {
+        None => open_window(None, cli.screenshot),
+        Some(Command::Open { file, screenshot }) => {
             // Check the file here so that a bad one gets the same one-line
             // message and exit status as in every other command.
             source::load_file(&file)?;
-            open_window(Some(file), screenshot)
+            open_window(Some(file), screenshot.or(cli.screenshot))
         }
-        Some(Command::Network { source, json }) => network::run(&source, json),
+        Some(Command::Network { source, json, csv }) => network::run(&source, json, csv),
         Some(Command::Draw(args)) => draw::run(&args),
         Some(Command::Sweep(args)) => sweep::run(&args),
         Some(Command::Inspect(args)) => inspect::run(&args),
         Some(Command::Jump(args)) => jump::run(&args),
         Some(Command::Spectrum(args)) => spectrum::run(&args),
         Some(Command::Crossing(args)) => spectrum::run_crossing(&args),
-        Some(Command::Check { source }) => check(&source),
+        Some(Command::Check { source, json }) => check(&source, json),
         Some(Command::Save { source, output }) => {
             let loaded = source::load(&source)?;
             loaded.print_warnings();
@@ -192,16 +219,21 @@ pub fn run() -> anyhow::Result<ExitCode> {
 
 #[cfg(feature = "gui")]
 fn open_window(file: Option<PathBuf>, screenshot: Option<PathBuf>) -> anyhow::Result<ExitCode> {
-    match screenshot {
+    let opened = match screenshot {
         Some(shot) => wallflower::app::run_with(wallflower::app::AppOptions {
             scenario: file,
             screenshot: Some(shot),
             persist: false,
             ..wallflower::app::AppOptions::default()
-        })?,
-        None => wallflower::app::run(file)?,
+        }),
+        None => wallflower::app::run(file),
+    };
+    match opened {
+        Err(e) if e.downcast_ref::<wallflower::app::NoDisplay>().is_some() => {
+            bad_input!("{e}")
+        }
+        other => other.map(|()| ExitCode::SUCCESS),
     }
-    Ok(ExitCode::SUCCESS)
 }
 
 #[cfg(not(feature = "gui"))]
@@ -211,11 +243,39 @@ fn open_window(_file: Option<PathBuf>, _screenshot: Option<PathBuf>) -> anyhow::
     );
 }
 
-fn check(args: &SourceArgs) -> anyhow::Result<ExitCode> {
+/// What `check --json` prints about a scenario that loads.
+#[derive(serde::Serialize)]
+struct CheckJson<'a> {
+    source: &'a str,
+    title: &'a str,
+    rank: usize,
+    branch_points: usize,
+    punctures: usize,
+    phase: f64,
+    reach: f64,
+    warnings: &'a [String],
+}
+
+fn check(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
     let mut out = String::new();
     let loaded = source::load(args)?;
-    loaded.print_warnings();
     let curve = &loaded.curve;
+    if json {
+        let doc = CheckJson {
+            source: &loaded.label,
+            title: &loaded.scenario.title,
+            rank: curve.rank,
+            branch_points: curve.branch_points.len(),
+            punctures: curve.punctures.len(),
+            phase: loaded.theta,
+            reach: loaded.settings.reach,
+            warnings: &loaded.warnings,
+        };
+        emit(&serde_json::to_string(&doc)?)?;
+        emit("\n")?;
+        return Ok(ExitCode::SUCCESS);
+    }
+    loaded.print_warnings();
     let title = if loaded.scenario.title.is_empty() {
         String::new()
     } else {

@@ -7,7 +7,7 @@ use super::{emit, say};
 use std::process::ExitCode;
 use wallflower::{compute, CancelToken};
 
-pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
+pub fn run(args: &SourceArgs, json: bool, csv: bool) -> anyhow::Result<ExitCode> {
     let mut out = String::new();
     let loaded = load(args)?;
     loaded.print_warnings();
@@ -26,6 +26,10 @@ pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
         );
         emit(&serde_json::to_string(&doc)?)?;
         emit("\n")?;
+        return Ok(ExitCode::SUCCESS);
+    }
+    if csv {
+        emit(&network_csv(&net))?;
         return Ok(ExitCode::SUCCESS);
     }
     say!(
@@ -51,7 +55,7 @@ pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
         say!(
             out,
             "{:>5}  {:>4}  {:>5}  {:>10.6}  {:>7}  {}",
-            idx,
+            idx + 1,
             w.kind.to_string(),
             w.multiplicity,
             w.mass(),
@@ -65,11 +69,11 @@ pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
             say!(
                 out,
                 "{:>5}  {:>24}  {:>3} {:>3}  {:>5}",
-                idx,
+                idx + 1,
                 format!("{:.6}{:+.6}i", j.z.re, j.z.im),
-                j.parents[0],
-                j.parents[1],
-                j.child
+                j.parents[0] + 1,
+                j.parents[1] + 1,
+                j.child + 1
             );
         }
     }
@@ -80,4 +84,37 @@ pub fn run(args: &SourceArgs, json: bool) -> anyhow::Result<ExitCode> {
     }
     emit(&out)?;
     Ok(ExitCode::SUCCESS)
+}
+
+/// The walls and the joints as one CSV table: `list` says which a row is,
+/// cells that do not apply to it are empty, numbers count from 1.
+fn network_csv(net: &wallflower::Network) -> String {
+    let mut out = String::from(
+        "list,number,type,multiplicity,mass,points,end,re_z,im_z,parent_1,parent_2,child\n",
+    );
+    for (idx, w) in net.walls.iter().enumerate() {
+        say!(
+            out,
+            "wall,{},{},{},{},{},{},,,,,",
+            idx + 1,
+            w.kind,
+            w.multiplicity,
+            w.mass(),
+            w.points.len(),
+            w.end.code()
+        );
+    }
+    for (idx, j) in net.joints.iter().enumerate() {
+        say!(
+            out,
+            "joint,{},,,,,,{},{},{},{},{}",
+            idx + 1,
+            j.z.re,
+            j.z.im,
+            j.parents[0] + 1,
+            j.parents[1] + 1,
+            j.child + 1
+        );
+    }
+    out
 }

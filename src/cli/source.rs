@@ -24,8 +24,9 @@ pub struct SourceArgs {
     /// A parameter value, e.g. --set u=0.5-2i (repeatable).
     #[arg(long = "set", value_name = "NAME=VALUE", allow_hyphen_values = true)]
     pub set: Vec<String>,
-    /// The phase theta in radians (default: the scenario's).
-    #[arg(long, value_name = "THETA", allow_negative_numbers = true)]
+    /// The phase theta: radians (0.4), a multiple of pi (pi/2, 3pi/4) or
+    /// degrees (30deg); default: the scenario's.
+    #[arg(long, value_name = "THETA", allow_hyphen_values = true, value_parser = super::angle_arg)]
     pub phase: Option<f64>,
     /// The mass cutoff (default: the scenario's).
     #[arg(long, value_name = "R", allow_negative_numbers = true)]
@@ -77,9 +78,20 @@ fn located(label: &str, e: &ScenarioError) -> BadInput {
     })
 }
 
-/// Loads the source and applies the overrides.
-pub fn load(args: &SourceArgs) -> anyhow::Result<Loaded> {
-    let (mut scenario, mut warnings, text, mut label) = match &args.file {
+/// The scenario as given (file, `--curve` or the default, with `--set`
+/// applied), before its curve is built: enough to list its parameters even
+/// when one has no value yet.
+pub struct Given {
+    pub scenario: Scenario,
+    pub warnings: Vec<String>,
+    /// The file's text, for locating keys in messages.
+    pub text: Option<String>,
+    pub label: String,
+}
+
+/// Reads the source and applies `--curve` and `--set`.
+pub fn load_given(args: &SourceArgs) -> anyhow::Result<Given> {
+    let (mut scenario, warnings, text, mut label) = match &args.file {
         Some(path) => {
             let (s, w, text) = load_file(path)?;
             (s, w, Some(text), path.display().to_string())
@@ -100,7 +112,6 @@ pub fn load(args: &SourceArgs) -> anyhow::Result<Loaded> {
             "default scenario".to_string(),
         ),
     };
-    let inline = args.curve.is_some();
     if let Some(eq) = &args.curve {
         if let Err(e) = parse_equation(eq) {
             bad_input!("--curve, column {}: {}", e.column, e.message);
@@ -112,15 +123,35 @@ pub fn load(args: &SourceArgs) -> anyhow::Result<Loaded> {
         }
     }
     apply_sets(&mut scenario, &args.set)?;
+    Ok(Given {
+        scenario,
+        warnings,
+        text,
+        label,
+    })
+}
+
+/// Loads the source and applies the overrides.
+pub fn load(args: &SourceArgs) -> anyhow::Result<Loaded> {
+    let Given {
+        mut scenario,
+        mut warnings,
+        text,
+        label,
+    } = load_given(args)?;
+    let inline = args.curve.is_some();
     if let Some(theta) = args.phase {
         if !theta.is_finite() || theta.abs() > 1e6 {
-            bad_input!("--phase must be a finite angle in radians, got {theta}");
+            bad_input!(
+                "--phase must be an angle of at most 1e6 radians, got {}",
+                super::short(theta)
+            );
         }
         scenario.phase = theta;
     }
     if let Some(r) = args.reach {
         if !(r.is_finite() && r > 0.0 && r <= 1e6) {
-            bad_input!("--reach must be in (0, 1e6], got {r}");
+            bad_input!("--reach must be in (0, 1e6], got {}", super::short(r));
         }
         scenario.reach = r;
     }
@@ -168,7 +199,9 @@ pub fn load(args: &SourceArgs) -> anyhow::Result<Loaded> {
                 (50.0 * (b.min[1] + b.max[1])).round() / 100.0,
             ],
             // Two decimals are plenty for a frame and read better when saved.
-            half_width: (50.0 * (b.max[0] - b.min[0])).ceil() / 100.0,
+            // The half width is on the figure's shorter side: the larger of
+            // the two extents fits any shape.
+            half_width: (50.0 * (b.max[0] - b.min[0]).max(b.max[1] - b.min[1])).ceil() / 100.0,
         };
     }
     let settings = match scenario.settings() {

@@ -121,7 +121,7 @@ fn settings_for(loaded: &Loaded) -> anyhow::Result<SpectrumSettings> {
 }
 
 /// A progress bar on stderr; invisible when stderr is not a terminal.
-fn progress_bar(what: &str) -> ProgressBar {
+pub fn progress_bar(what: &str) -> ProgressBar {
     let bar = ProgressBar::new(1000);
     if let Ok(style) = ProgressStyle::with_template("{msg} [{bar:40}] {percent}% {elapsed}") {
         bar.set_style(style.progress_chars("=> "));

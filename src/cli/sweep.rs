@@ -37,12 +37,12 @@ pub struct SweepArgs {
     /// Number of frames.
     #[arg(long, value_name = "N", default_value_t = 72)]
     pub frames: usize,
-    /// First phase in radians (default: the scenario's phase).
-    #[arg(long, value_name = "THETA", allow_negative_numbers = true)]
+    /// First phase, as --phase takes it (default: the scenario's phase).
+    #[arg(long, value_name = "THETA", allow_hyphen_values = true, value_parser = super::angle_arg)]
     pub from: Option<f64>,
     /// Phase where the sweep ends, itself left out (default: one full turn
     /// after --from).
-    #[arg(long, value_name = "THETA", allow_negative_numbers = true)]
+    #[arg(long, value_name = "THETA", allow_hyphen_values = true, value_parser = super::angle_arg)]
     pub to: Option<f64>,
     /// Move this parameter instead of the phase, from this value (e.g.
     /// --param-from u=0.5) ...

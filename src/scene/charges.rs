@@ -82,11 +82,9 @@ pub fn charge_transform(spectrum: &Spectrum, width: f32, height: f32) -> Transfo
     } else {
         1.0
     };
-    let aspect = f64::from(width / height.max(1.0));
-    // half_width is horizontal: a tall picture needs no more, a wide one
-    // needs its extra width.
-    let half_width = extent / 0.85 * aspect.max(1.0);
-    Transform::new([0.0, 0.0], half_width, width, height)
+    // The transform's half width is on the picture's shorter side, so the
+    // disc |Z| <= extent fits whatever the shape.
+    Transform::new([0.0, 0.0], extent / 0.85, width, height)
 }
 
 /// Marker of a state: shape by kind, filled at Z, hollow at -Z.
@@ -161,7 +159,8 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
     );
     let mut phase_line = Vec::new();
     if let (true, Some(theta)) = (valid, opts.phase.filter(|p| p.is_finite())) {
-        let far = Complex64::from_polar(3.0 * t.half_width, theta);
+        let [hx, hy] = t.half_extents();
+        let far = Complex64::from_polar(2.0 * hx.hypot(hy), theta);
         phase_line.push(Shape::Polyline {
             points: vec![t.to_screen(-far), t.to_screen(far)],
             width: 1.2 * s,

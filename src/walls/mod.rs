@@ -7,8 +7,7 @@ mod settings;
 mod start;
 
 pub use grow::{crossed_cuts, grow_wall, hermite, invert, GrowContext, WallSeed};
-pub(crate) use settings::show_f64;
-pub use settings::{Bounds, Settings};
+pub use settings::{show_f64, Bounds, Settings};
 pub use start::{period_from_branch_point, period_from_point, primary_seeds, special_seeds};
 
 use num_complex::Complex64;

@@ -79,7 +79,7 @@ impl Default for Settings {
 }
 
 /// A number for a message: `1e308`, not its 309 digits.
-pub(crate) fn show_f64(x: f64) -> String {
+pub fn show_f64(x: f64) -> String {
     if x != 0.0 && x.is_finite() && !(1e-4..1e7).contains(&x.abs()) {
         format!("{x:e}")
     } else {

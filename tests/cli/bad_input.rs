@@ -150,7 +150,7 @@ fn other_bad_input_is_status_2_in_one_line() {
         ),
         (
             "phase not a number",
-            &["network", good, "--phase", "pi"],
+            &["network", good, "--phase", "pie"],
             "--phase",
         ),
         (

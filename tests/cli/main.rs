@@ -7,7 +7,9 @@ mod support;
 
 mod bad_input;
 mod commands;
+mod conventions;
 mod draw_state;
 mod jump;
+mod readme;
 mod spectrum;
 mod sweep;

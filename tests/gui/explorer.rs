@@ -554,3 +554,35 @@ fn the_central_charges_export_beside_the_network_figure() {
         .is_some_and(|m| m.contains("fig-charges.svg")));
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// The window numbers joints' walls as the command line does: the parents
+/// of every joint of `network --json` (counted from 1) appear in the
+/// inspector's joints table.
+#[test]
+fn the_window_numbers_joints_like_the_command_line() {
+    let file = crate::support::scenario("rank-three.ron");
+    let json: serde_json::Value =
+        serde_json::from_str(&crate::support::ok(&["network", &file, "--json"])).unwrap();
+    let joints = json["joints"].as_array().unwrap();
+    assert!(!joints.is_empty());
+    let text = std::fs::read_to_string(&file).unwrap();
+    let mut h = harness(Scenario::from_ron(&text).unwrap());
+    wait_for_worker(&mut h);
+    for (k, j) in joints.iter().enumerate() {
+        let parents = format!("{}, {}", j["parents"][0], j["parents"][1]);
+        assert!(
+            h.query_all_by_label(&parents).next().is_some(),
+            "joint {}: no row with parents {parents}",
+            k + 1
+        );
+    }
+    // ... and the same rows as the engine's joints counted from 1 (a
+    // 0-based window would show other pairs).
+    let shown = h.state().shown.as_ref().unwrap();
+    for j in &shown.computed.network.joints {
+        let parents = format!("{}, {}", j.parents[0] + 1, j.parents[1] + 1);
+        assert!(joints
+            .iter()
+            .any(|cli| { format!("{}, {}", cli["parents"][0], cli["parents"][1]) == parents }));
+    }
+}
