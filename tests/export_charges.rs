@@ -136,6 +136,7 @@ fn an_empty_or_degenerate_spectrum_still_draws() {
     let empty = Spectrum {
         reach: 5.0,
         states: Vec::new(),
+        massless: Vec::new(),
         warnings: Vec::new(),
         cancelled: false,
         stats: Default::default(),

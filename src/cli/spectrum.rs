@@ -106,6 +106,8 @@ fn state_json(s: &BpsState, reach: f64) -> StateJson {
 struct SpectrumJson {
     reach: f64,
     states: Vec<StateJson>,
+    /// States that are massless at a singular point of the curve (Z = 0).
+    massless: Vec<StateJson>,
     warnings: Vec<String>,
 }
 
@@ -176,6 +178,11 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 .iter()
                 .map(|s| state_json(s, found.reach))
                 .collect(),
+            massless: found
+                .massless
+                .iter()
+                .map(|s| state_json(s, found.reach))
+                .collect(),
             warnings: found.warnings.clone(),
         };
         emit(&serde_json::to_string(&doc)?)?;
@@ -217,6 +224,15 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 s.abs,
                 s.phase,
                 s.z_error
+            ));
+        }
+        for s in &found.massless {
+            out.push_str(&format!(
+                "  0  {:>6}  {:>5}  {:>34}  massless at the singular point (|Z| = {:.1e} on the resolution)\n",
+                kind_name(s.kind),
+                s.omega.map_or_else(|| "?".to_string(), |o| o.to_string()),
+                "0",
+                s.abs
             ));
         }
         emit(&out)?;

@@ -131,6 +131,18 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
     };
     let mut walls = Vec::new();
     let mut limit = GrowthLimit::None;
+    for r in &curve.resolutions {
+        warnings.push(Warning {
+            message: format!(
+                "the curve is singular at {:.6}{:+.6}i (a cycle vanishes there: a massless state); drawn from a resolution that splits it into points {} from it (the last coefficient's numerator shifted by {:.3e}{:+.3e}i; settings resolution and resolution_phase); other directions of approach can give other networks",
+                r.z.re,
+                r.z.im,
+                crate::walls::show_f64(r.distance),
+                r.shift.re,
+                r.shift.im
+            ),
+        });
+    }
     let (special, notes) = special_seeds(curve, theta);
     warnings.extend(notes.into_iter().map(|message| Warning { message }));
     let seeds = primary_seeds(curve, theta).into_iter().chain(special);
