@@ -1,7 +1,7 @@
 //! The BPS spectrum: critical phases where the network degenerates, and the
 //! states they stand for, with central charges, kinds and indices.
 //!
-//! Rank 2 (`y^2 = q`), following mathematics.md section 5:
+//! Rank 2 (`y^2 = q`), following docs/mathematics.md section 5:
 //!
 //! * saddle connections (a wall from a simple zero of q that ends on
 //!   another) are hypermultiplets, index 1, found by [`saddle`];
