@@ -3,3 +3,4 @@
 
 pub mod intmat;
 pub mod ks;
+pub mod lattice;
