@@ -225,6 +225,57 @@ pub fn symplectic(g: &Mat) -> Result<(Unimodular, Vec<i64>, Mat), IntError> {
     Ok((t, ds, a))
 }
 
+/// Rank (over Q) of the span of `vectors` in `Z^dim`, and its index in
+/// `Z^dim` when the rank is full (0 otherwise, or on overflow).
+pub fn span(vectors: &[Vec<i64>], dim: usize) -> (usize, u64) {
+    if dim == 0 {
+        return (0, 1);
+    }
+    // Columns are the vectors; column reduction leaves an echelon form whose
+    // pivots multiply to the index when there are `dim` of them.
+    let mut a: Mat = (0..dim)
+        .map(|r| vectors.iter().map(|v| v[r]).collect())
+        .collect();
+    let n = vectors.len();
+    let mut t = Unimodular::identity(n);
+    let mut rank = 0;
+    let mut pivots = Vec::new();
+    for row in 0..dim {
+        loop {
+            let nz: Vec<usize> = (rank..n).filter(|&c| a[row][c] != 0).collect();
+            if nz.len() <= 1 {
+                if let Some(&c) = nz.first() {
+                    swap_cols(&mut a, &mut t, rank, c);
+                    pivots.push(a[row][rank].unsigned_abs());
+                    rank += 1;
+                }
+                break;
+            }
+            let piv = *nz
+                .iter()
+                .min_by_key(|&&c| a[row][c].unsigned_abs())
+                .unwrap();
+            for &c in &nz {
+                if c != piv {
+                    let q = a[row][c] / a[row][piv];
+                    if add_cols(&mut a, &mut t, c, piv, -q).is_err() {
+                        return (rank, 0);
+                    }
+                }
+            }
+        }
+    }
+    let index = if rank == dim {
+        pivots
+            .iter()
+            .try_fold(1_u64, |acc, &p| acc.checked_mul(p))
+            .unwrap_or(0)
+    } else {
+        0
+    };
+    (rank, index)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -238,6 +289,14 @@ mod tests {
                     .collect()
             })
             .collect()
+    }
+
+    #[test]
+    fn span_rank_and_index() {
+        assert_eq!(span(&[vec![1, 0], vec![1, 2]], 2), (2, 2));
+        assert_eq!(span(&[vec![1, 0], vec![1, 1], vec![3, 5]], 2), (2, 1));
+        assert_eq!(span(&[vec![2, 4], vec![1, 2]], 2), (1, 0));
+        assert_eq!(span(&[], 0), (0, 1));
     }
 
     #[test]

@@ -847,14 +847,20 @@ mod tests {
     use crate::algebra::parse_equation;
 
     fn curve(eq: &str) -> Curve {
-        let p = parse_equation(eq).unwrap().evaluate(&Default::default()).unwrap();
+        let p = parse_equation(eq)
+            .unwrap()
+            .evaluate(&Default::default())
+            .unwrap();
         Curve::from_poly_in_y(&p).unwrap()
     }
 
     #[test]
     fn genus_one_cubic_is_unimodular() {
         let lat = Lattice::new(&curve("y^2 = z^3 - z + 0.3")).unwrap();
-        eprintln!("{:?} {:?} {:?}", lat.pairing, lat.elementary_divisors, lat.basis);
+        eprintln!(
+            "{:?} {:?} {:?}",
+            lat.pairing, lat.elementary_divisors, lat.basis
+        );
         assert_eq!(lat.rank(), 2);
         assert_eq!(lat.elementary_divisors, vec![1]);
         assert_eq!(lat.flavour_rank, 0);

@@ -12,6 +12,7 @@ use num_complex::Complex64;
 use serde::Serialize;
 use std::path::PathBuf;
 use std::process::ExitCode;
+use wallflower::charges::LatticeSummary;
 use wallflower::export;
 use wallflower::scenario::Theme;
 use wallflower::scene::charges::{build_charges, ChargeOptions};
@@ -45,6 +46,13 @@ pub struct SpectrumArgs {
     /// the --plot picture.
     #[arg(long)]
     pub plot_phase: bool,
+    /// Also print the pairing <gamma_i, gamma_j> of the states' charges.
+    #[arg(long)]
+    pub pairing: bool,
+    /// Exit with status 1 when the self-check fails (charges missing, not
+    /// spanning the gauge lattice, or Z not the sum of basis periods).
+    #[arg(long)]
+    pub strict: bool,
 }
 
 #[derive(Debug, Args)]
@@ -79,6 +87,8 @@ pub struct StateJson {
     z_error: f64,
     /// Branch points (1-based) the state's saddle joins, if any.
     endpoints: Vec<usize>,
+    /// Coordinates in the lattice basis (`null` when not lifted).
+    charge: Option<Vec<i64>>,
 }
 
 fn kind_name(k: Kind) -> &'static str {
@@ -99,7 +109,82 @@ fn state_json(s: &BpsState, reach: f64) -> StateJson {
         reach,
         z_error: s.z_error,
         endpoints: s.endpoints.iter().map(|e| e + 1).collect(),
+        charge: s.charge.clone(),
     }
+}
+
+#[derive(Serialize)]
+struct BasisJson {
+    z: [f64; 2],
+}
+
+#[derive(Serialize)]
+struct LatticeJson {
+    basis: Vec<BasisJson>,
+    pairing: Vec<Vec<i64>>,
+    flavour_rank: usize,
+    gauge_rank: usize,
+    /// The charges found generate the gauge lattice.
+    spans_gauge: bool,
+    /// Largest |Z(state) - sum of basis periods|.
+    worst_z_error: f64,
+}
+
+fn lattice_json(l: &LatticeSummary) -> LatticeJson {
+    LatticeJson {
+        basis: l
+            .basis
+            .iter()
+            .map(|z| BasisJson { z: [z.re, z.im] })
+            .collect(),
+        pairing: l.pairing.clone(),
+        flavour_rank: l.flavour_rank,
+        gauge_rank: l.gauge_rank,
+        spans_gauge: l.spans_gauge(),
+        worst_z_error: l.worst_z_error,
+    }
+}
+
+/// `<gamma_i, gamma_j>` for every pair of states (`None` where a charge is
+/// missing).
+fn state_pairings(found: &spectrum::Spectrum) -> Vec<Vec<Option<i64>>> {
+    let pairing = found.lattice.as_ref().map(|l| &l.pairing);
+    found
+        .states
+        .iter()
+        .map(|a| {
+            found
+                .states
+                .iter()
+                .map(|b| match (pairing, &a.charge, &b.charge) {
+                    (Some(p), Some(x), Some(y)) => pair(p, x, y),
+                    _ => None,
+                })
+                .collect()
+        })
+        .collect()
+}
+
+fn pair(p: &[Vec<i64>], x: &[i64], y: &[i64]) -> Option<i64> {
+    let mut total: i64 = 0;
+    for (a, row) in p.iter().enumerate() {
+        for (b, &v) in row.iter().enumerate() {
+            total = total.checked_add(x.get(a)?.checked_mul(v)?.checked_mul(*y.get(b)?)?)?;
+        }
+    }
+    Some(total)
+}
+
+/// Whether the spectrum passed its self-check.
+fn self_check_passed(found: &spectrum::Spectrum) -> bool {
+    found.lattice.as_ref().is_some_and(|l| {
+        l.spans_gauge()
+            && l.uncharged == 0
+            && found.states.iter().all(|s| s.charge.is_some())
+            && l.worst_z_error
+                <= wallflower::charges::Z_CHECK
+                    * (1.0 + found.states.iter().map(|s| s.abs).fold(0.0, f64::max))
+    })
 }
 
 #[derive(Serialize)]
@@ -107,6 +192,9 @@ struct SpectrumJson {
     reach: f64,
     states: Vec<StateJson>,
     warnings: Vec<String>,
+    lattice: Option<LatticeJson>,
+    /// `pairings[i][j] = <charge_i, charge_j>`.
+    pairings: Vec<Vec<Option<i64>>>,
 }
 
 fn settings_for(loaded: &Loaded) -> anyhow::Result<SpectrumSettings> {
@@ -177,6 +265,8 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 .map(|s| state_json(s, found.reach))
                 .collect(),
             warnings: found.warnings.clone(),
+            lattice: found.lattice.as_ref().map(lattice_json),
+            pairings: state_pairings(&found),
         };
         emit(&serde_json::to_string(&doc)?)?;
         emit("\n")?;
@@ -204,20 +294,44 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
             found.reach
         );
         out.push_str(&format!(
-            "{:>3}  {:>6}  {:>5}  {:>34}  {:>14}  {:>13}  {:>8}\n",
-            "#", "kind", "omega", "Z", "|Z|", "phase", "error"
+            "{:>3}  {:>6}  {:>5}  {:>34}  {:>14}  {:>13}  {:>8}  {}\n",
+            "#", "kind", "omega", "Z", "|Z|", "phase", "error", "charge"
         ));
         for (k, s) in found.states.iter().enumerate() {
             out.push_str(&format!(
-                "{:>3}  {:>6}  {:>5}  {:>34}  {:>14.10}  {:>13.10}  {:>8.1e}\n",
+                "{:>3}  {:>6}  {:>5}  {:>34}  {:>14.10}  {:>13.10}  {:>8.1e}  {}\n",
                 k + 1,
                 kind_name(s.kind),
                 s.omega.map_or_else(|| "?".to_string(), |o| o.to_string()),
                 fmt_z(s.z),
                 s.abs,
                 s.phase,
-                s.z_error
+                s.z_error,
+                s.charge
+                    .as_ref()
+                    .map_or_else(|| "?".to_string(), |c| format!("{c:?}"))
             ));
+        }
+        if let Some(l) = &found.lattice {
+            out.push_str(&format!(
+                "lattice: rank {} (gauge {}, flavour {}), basis periods {}; Z = sum of periods to {:.1e}\n",
+                l.basis.len(),
+                l.gauge_rank,
+                l.flavour_rank,
+                l.basis.iter().map(|z| fmt_z(*z)).collect::<Vec<_>>().join(", "),
+                l.worst_z_error
+            ));
+        }
+        if args.pairing {
+            out.push_str("pairing <i, j>:\n");
+            for row in state_pairings(&found) {
+                let cells: Vec<String> = row
+                    .iter()
+                    .map(|v| v.map_or_else(|| "?".to_string(), |x| x.to_string()))
+                    .map(|c| format!("{c:>4}"))
+                    .collect();
+                out.push_str(&format!("  {}\n", cells.join("")));
+            }
         }
         emit(&out)?;
     }
@@ -236,6 +350,10 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
             Format::Png => export::png::to_png(&picture)?,
         };
         write_atomic(path, &bytes)?;
+    }
+    if args.strict && !self_check_passed(&found) {
+        eprintln!("error: the spectrum failed its self-check (see the warnings)");
+        return Ok(ExitCode::from(1));
     }
     Ok(ExitCode::SUCCESS)
 }

@@ -81,6 +81,10 @@ pub struct BpsState {
     /// `|Z(quadrature) - Z(integrator)|`: the difference between the
     /// independent quadrature and the wall integrator's value.
     pub z_error: f64,
+    /// The state's charge in the basis of `Spectrum::lattice`, from its own
+    /// cycle (`None` when it could not be lifted; a warning says why).
+    #[serde(default)]
+    pub charge: Option<Vec<i64>>,
 }
 
 /// Counters of the work done.
@@ -104,6 +108,9 @@ pub struct Spectrum {
     /// The computation was cancelled: `states` is partial.
     pub cancelled: bool,
     pub stats: SpectrumStats,
+    /// The charge lattice the states' charges refer to, with its checks.
+    #[serde(default)]
+    pub lattice: Option<crate::charges::LatticeSummary>,
 }
 
 impl Spectrum {
@@ -114,6 +121,7 @@ impl Spectrum {
             warnings,
             cancelled: false,
             stats: SpectrumStats::default(),
+            lattice: None,
         }
     }
 
@@ -143,6 +151,7 @@ impl Spectrum {
             warnings,
             cancelled,
             stats,
+            lattice: None,
         }
     }
 
@@ -196,9 +205,23 @@ const HIT_FRACTION: f64 = 1e-3;
 /// Refinement iterations of one candidate.
 const MAX_REFINE: usize = 6;
 
-/// Finds the BPS states with `|Z| < settings.reach`. Progress goes to
-/// `progress` as a fraction in [0, 1].
+/// Finds the BPS states with `|Z| < settings.reach`, each with its charge
+/// in the curve's charge lattice (see [`crate::charges::assign`]). Progress
+/// goes to `progress` as a fraction in [0, 1].
 pub fn find(
+    curve: &Curve,
+    settings: &SpectrumSettings,
+    cancel: &CancelToken,
+    progress: &mut dyn FnMut(f64),
+) -> Spectrum {
+    let mut spectrum = find_states(curve, settings, cancel, progress);
+    if settings.validate().is_ok() {
+        crate::charges::assign(curve, &mut spectrum);
+    }
+    spectrum
+}
+
+fn find_states(
     curve: &Curve,
     settings: &SpectrumSettings,
     cancel: &CancelToken,
@@ -490,6 +513,7 @@ impl<'a> Finder<'a> {
             endpoints: Vec::new(),
             web: vec![loop_points],
             z_error,
+            charge: None,
         };
         self.add_lattice_candidates(&state);
         self.states.push(state);
@@ -541,6 +565,7 @@ impl<'a> Finder<'a> {
                     z_error: (z_quad - pass.z_wall)
                         .norm()
                         .min((z_quad + pass.z_wall).norm()),
+                    charge: None,
                 });
             }
             theta = theta_new;
