@@ -28,9 +28,15 @@
 //! these definitions and `<g1, g2> = 1` the pentagon reads
 //! `K_g2 K_g1 = K_g1 K_(g1+g2) K_g2`: the identities as usually printed,
 //! `K_g1 K_g2 = K_g2 K_(g1+g2) K_g1`, hold here read from right to left (or,
-//! equivalently, with the opposite sign of the pairing). So
+//! equivalently, with the opposite sign of the pairing).
+//!
 //! [`phase_ordered_product`] writes the factors from left to right in
-//! *decreasing* `arg Z`, the mirror of the printed "increasing arg Z".
+//! *increasing* `arg Z`. That choice is not algebra but physics (it fixes on
+//! which side of a wall the bound state lives, together with the orientation
+//! of the intersection form in [`super::lattice`]); it was pinned end to end
+//! by the pentagon wall of `y^2 = z^3 - 3 z + u`, where the engine's two
+//! chambers (2 and 3 states) agree under it and disagree under the reverse
+//! order (tests/charges_crossing.rs).
 
 use thiserror::Error;
 
@@ -202,14 +208,14 @@ pub struct PhasedFactor {
 }
 
 /// The product of `K_g^Omega(g)` over the given states, written from left to
-/// right in decreasing `arg Z` (the module's ordering convention).
+/// right in increasing `arg Z` (the module's ordering convention).
 pub fn phase_ordered_product(
     states: &[PhasedFactor],
     pairing: i64,
     order: usize,
 ) -> Result<KsProduct, KsError> {
     let mut sorted: Vec<PhasedFactor> = states.to_vec();
-    sorted.sort_by(|a, b| b.arg_z.total_cmp(&a.arg_z));
+    sorted.sort_by(|a, b| a.arg_z.total_cmp(&b.arg_z));
     let factors: Vec<KsFactor> = sorted.iter().map(|s| s.factor).collect();
     product(&factors, pairing, order)
 }
@@ -309,10 +315,12 @@ mod tests {
         assert!(biggest > 1000, "largest coefficient {biggest}");
     }
 
-    /// The phase-ordered product (decreasing arg Z from left to right) gives
-    /// the pentagon's two sides from the two chambers' spectra.
+    /// The phase-ordered product (increasing arg Z from left to right) gives
+    /// the pentagon's two sides from the two chambers' spectra; with these
+    /// phases the printed pentagon `K_g1 K_g2 = K_g2 K_(g1+g2) K_g1` holds
+    /// for `<g1, g2> = -1`.
     #[test]
-    fn phase_ordering_is_decreasing_arg() {
+    fn phase_ordering_is_increasing_arg() {
         let side_a = [
             PhasedFactor {
                 factor: k(0, 1, 1),
@@ -338,6 +346,10 @@ mod tests {
             },
         ];
         assert_eq!(
+            phase_ordered_product(&side_a, -1, ORDER).unwrap(),
+            phase_ordered_product(&side_b, -1, ORDER).unwrap()
+        );
+        assert_ne!(
             phase_ordered_product(&side_a, 1, ORDER).unwrap(),
             phase_ordered_product(&side_b, 1, ORDER).unwrap()
         );

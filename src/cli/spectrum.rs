@@ -124,10 +124,12 @@ struct LatticeJson {
     pairing: Vec<Vec<i64>>,
     flavour_rank: usize,
     gauge_rank: usize,
-    /// The charges found generate the gauge lattice.
-    spans_gauge: bool,
-    /// Largest |Z(state) - sum of basis periods|.
-    worst_z_error: f64,
+    /// The charges found generate the gauge lattice (spectrum only).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    spans_gauge: Option<bool>,
+    /// Largest |Z(state) - sum of basis periods| (spectrum only).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    worst_z_error: Option<f64>,
 }
 
 fn lattice_json(l: &LatticeSummary) -> LatticeJson {
@@ -140,8 +142,8 @@ fn lattice_json(l: &LatticeSummary) -> LatticeJson {
         pairing: l.pairing.clone(),
         flavour_rank: l.flavour_rank,
         gauge_rank: l.gauge_rank,
-        spans_gauge: l.spans_gauge(),
-        worst_z_error: l.worst_z_error,
+        spans_gauge: Some(l.spans_gauge()),
+        worst_z_error: Some(l.worst_z_error),
     }
 }
 
@@ -377,7 +379,28 @@ struct CrossingJson {
     /// Each change: where along the path (0 = from, 1 = to), the parameter
     /// value there, and the states on either side.
     crossings: Vec<ChangeJson>,
+    /// Changes that are not crossings (states through the reach, or
+    /// differences no alignment or singular point explains).
+    other_changes: Vec<ChangeJson>,
+    /// The lattice at the start of the path (charges refer to it).
+    lattice: Option<LatticeJson>,
     warnings: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct KsJson {
+    order: usize,
+    holds: bool,
+}
+
+fn cause_name(c: &spectrum::crossing::Cause) -> &'static str {
+    use spectrum::crossing::Cause;
+    match c {
+        Cause::MarginalStability => "marginal-stability",
+        Cause::SingularPoint { .. } => "singular-point",
+        Cause::Reach => "reach",
+        Cause::Unexplained => "unexplained",
+    }
 }
 
 #[derive(Serialize)]
@@ -387,6 +410,14 @@ struct ChangeJson {
     value: [f64; 2],
     before: Vec<StateJson>,
     after: Vec<StateJson>,
+    cause: &'static str,
+    /// Indices (0-based) into `before` of the two states whose Z align.
+    aligned: Option<[usize; 2]>,
+    /// Where their arg Z agree, to 1e-8 in s.
+    aligned_at: Option<f64>,
+    ks: Option<KsJson>,
+    /// At a singular point: the charge that becomes massless.
+    massless: Option<Vec<i64>>,
 }
 
 pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
@@ -446,25 +477,52 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
         eprintln!("warning: {}", super::one_line(w));
     }
     let reach = settings.reach;
+    let start_lattice = build(0.0)
+        .ok()
+        .and_then(|c| wallflower::charges::Lattice::new(&c).ok())
+        .map(|l| LatticeSummary {
+            basis: l.basis.iter().map(|b| b.z).collect(),
+            pairing: l.pairing.clone(),
+            flavour_rank: l.flavour_rank,
+            gauge_rank: l.gauge_rank(),
+            span_rank: 0,
+            span_index: 0,
+            worst_z_error: 0.0,
+            uncharged: 0,
+        });
+    let change_json = |c: &spectrum::Crossing| {
+        let v = value_at(c.parameter);
+        ChangeJson {
+            s: c.parameter,
+            interval: c.interval,
+            value: [v.re, v.im],
+            before: c.before.iter().map(|s| state_json(s, reach)).collect(),
+            after: c.after.iter().map(|s| state_json(s, reach)).collect(),
+            cause: cause_name(&c.cause),
+            aligned: c.aligned,
+            aligned_at: c.aligned_at,
+            ks: c.ks.as_ref().map(|k| KsJson {
+                order: k.order,
+                holds: k.holds,
+            }),
+            massless: match &c.cause {
+                spectrum::crossing::Cause::SingularPoint { massless } => massless.clone(),
+                _ => None,
+            },
+        }
+    };
     if args.json {
         let doc = CrossingJson {
             parameter: name.clone(),
             from: [v1.re, v1.im],
             to: [v2.re, v2.im],
-            crossings: report
-                .crossings
-                .iter()
-                .map(|c| {
-                    let v = value_at(c.parameter);
-                    ChangeJson {
-                        s: c.parameter,
-                        interval: c.interval,
-                        value: [v.re, v.im],
-                        before: c.before.iter().map(|s| state_json(s, reach)).collect(),
-                        after: c.after.iter().map(|s| state_json(s, reach)).collect(),
-                    }
-                })
-                .collect(),
+            crossings: report.crossings.iter().map(&change_json).collect(),
+            other_changes: report.other_changes.iter().map(&change_json).collect(),
+            lattice: start_lattice.as_ref().map(|l| LatticeJson {
+                spans_gauge: None,
+                worst_z_error: None,
+                ..lattice_json(l)
+            }),
             warnings: report.warnings.clone(),
         };
         emit(&serde_json::to_string(&doc)?)?;
@@ -479,8 +537,22 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
         );
         for c in &report.crossings {
             let v = value_at(c.parameter);
+            let why = match (&c.cause, &c.ks) {
+                (spectrum::crossing::Cause::MarginalStability, Some(ks)) => format!(
+                    "wall of marginal stability, KS check to order {}: {}",
+                    ks.order,
+                    if ks.holds { "holds" } else { "FAILS" }
+                ),
+                (spectrum::crossing::Cause::SingularPoint { massless }, _) => format!(
+                    "singular point, massless charge {}",
+                    massless
+                        .as_ref()
+                        .map_or_else(|| "?".to_string(), |m| format!("{m:?}"))
+                ),
+                (cause, _) => cause_name(cause).to_string(),
+            };
             out.push_str(&format!(
-                "at {name} = {} (s = {:.9}): {} state(s) before, {} after\n",
+                "at {name} = {} (s = {:.9}): {} state(s) before, {} after ({why})\n",
                 fmt_z(v),
                 c.parameter,
                 c.before.len(),
@@ -489,13 +561,28 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
             for (label, states) in [("before", &c.before), ("after", &c.after)] {
                 for s in states.iter() {
                     out.push_str(&format!(
-                        "  {label:>6}  {:>6}  Z = {}  |Z| = {:.10}\n",
+                        "  {label:>6}  {:>6}  Z = {}  |Z| = {:.10}  charge {}\n",
                         kind_name(s.kind),
                         fmt_z(s.z),
-                        s.abs
+                        s.abs,
+                        s.charge
+                            .as_ref()
+                            .map_or_else(|| "?".to_string(), |c| format!("{c:?}"))
                     ));
                 }
             }
+        }
+        if !report.other_changes.is_empty() {
+            out.push_str(&format!(
+                "{} other change(s), not crossings: {}\n",
+                report.other_changes.len(),
+                report
+                    .other_changes
+                    .iter()
+                    .map(|c| format!("{} at s = {:.6}", cause_name(&c.cause), c.parameter))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ));
         }
         emit(&out)?;
     }
