@@ -92,7 +92,16 @@ fn state_charge(curve: &Curve, lat: &Lattice, s: &BpsState) -> Result<Charge, St
 /// charge, runs the checks and records them (warnings and
 /// `spectrum.lattice`).
 pub fn assign(curve: &Curve, spectrum: &mut Spectrum) {
-    let lat = match Lattice::new(curve) {
+    assign_with(&Lattice::new(curve), curve, spectrum);
+}
+
+/// [`assign`] with the lattice (or the reason there is none) already built.
+pub fn assign_with(
+    lattice: &Result<Lattice, LatticeError>,
+    curve: &Curve,
+    spectrum: &mut Spectrum,
+) {
+    let lat = match lattice {
         Ok(l) => l,
         Err(e) => {
             spectrum
@@ -105,7 +114,7 @@ pub fn assign(curve: &Curve, spectrum: &mut Spectrum) {
     let mut uncharged = Vec::new();
     let mut mismatched = Vec::new();
     for (idx, s) in spectrum.states.iter_mut().enumerate() {
-        match state_charge(curve, &lat, s) {
+        match state_charge(curve, lat, s) {
             Ok(c) => {
                 let err = (lat.central_charge(&c) - s.z).norm();
                 worst = worst.max(err);

@@ -204,6 +204,19 @@ const CANDIDATE_MATCH: f64 = 1e-5;
 const HIT_FRACTION: f64 = 1e-3;
 /// Refinement iterations of one candidate.
 const MAX_REFINE: usize = 6;
+/// Lattice candidates have gauge coordinates in `-LATTICE_BOX..=LATTICE_BOX`.
+const LATTICE_BOX: i64 = 6;
+
+fn gcd_all(v: &[i64]) -> i64 {
+    fn gcd(a: i64, b: i64) -> i64 {
+        if b == 0 {
+            a.abs()
+        } else {
+            gcd(b, a % b)
+        }
+    }
+    v.iter().fold(0, |g, &x| gcd(g, x))
+}
 
 /// Finds the BPS states with `|Z| < settings.reach`, each with its charge
 /// in the curve's charge lattice (see [`crate::charges::assign`]). Progress
@@ -214,9 +227,10 @@ pub fn find(
     cancel: &CancelToken,
     progress: &mut dyn FnMut(f64),
 ) -> Spectrum {
-    let mut spectrum = find_states(curve, settings, cancel, progress);
+    let lattice = crate::charges::Lattice::new(curve);
+    let mut spectrum = find_states(curve, settings, cancel, progress, lattice.as_ref().ok());
     if settings.validate().is_ok() {
-        crate::charges::assign(curve, &mut spectrum);
+        crate::charges::assign_with(&lattice, curve, &mut spectrum);
     }
     spectrum
 }
@@ -226,6 +240,7 @@ fn find_states(
     settings: &SpectrumSettings,
     cancel: &CancelToken,
     progress: &mut dyn FnMut(f64),
+    lattice: Option<&crate::charges::Lattice>,
 ) -> Spectrum {
     if let Err(errors) = settings.validate() {
         return Spectrum::empty(settings.reach, errors);
@@ -272,6 +287,9 @@ fn find_states(
     }
     let mut finder = Finder::new(curve, Quadratic::new(q), settings, cancel);
     finder.run(progress);
+    if let Some(lat) = lattice {
+        finder.lattice_candidates(lat);
+    }
     finder.into_spectrum(warnings)
 }
 
@@ -399,6 +417,50 @@ impl<'a> Finder<'a> {
         }
         self.drain_queue();
         progress(1.0);
+    }
+
+    /// Candidates from the charge lattice: every primitive charge with
+    /// small gauge coordinates and `|Z|` below the reach, lightest first,
+    /// each confirmed or excluded by a network at its own phase. This
+    /// resolves states whose phases crowd together (dyon towers next to a
+    /// wall of marginal stability), which no scan separates.
+    fn lattice_candidates(&mut self, lat: &crate::charges::Lattice) {
+        let gauge = lat.gauge_rank();
+        if gauge == 0 || gauge > 4 || self.stop() {
+            return;
+        }
+        let reach = self.settings.reach;
+        let n = lat.rank();
+        let mut found: Vec<(f64, Complex64)> = Vec::new();
+        let mut c = vec![-LATTICE_BOX; gauge];
+        loop {
+            let first = c.iter().find(|&&x| x != 0).copied().unwrap_or(0);
+            if first > 0 && gcd_all(&c) == 1 {
+                let mut full = c.clone();
+                full.resize(n, 0);
+                let z = lat.central_charge(&full);
+                if z.norm() < reach && z.norm() > 0.0 {
+                    found.push((z.norm(), z));
+                }
+            }
+            let mut k = 0;
+            while k < gauge && c[k] == LATTICE_BOX {
+                c[k] = -LATTICE_BOX;
+                k += 1;
+            }
+            if k == gauge {
+                break;
+            }
+            c[k] += 1;
+        }
+        // Heaviest pushed first: the queue pops the lightest first.
+        found.sort_by(|a, b| b.0.total_cmp(&a.0));
+        for (_, z) in found {
+            if !self.known(z) {
+                self.queue.push(Candidate { z, from: None });
+            }
+        }
+        self.drain_queue();
     }
 
     fn stop(&mut self) -> bool {
