@@ -5,6 +5,7 @@
 
 pub mod algebra;
 pub mod cancel;
+pub mod charges;
 pub mod curve;
 pub mod export;
 pub mod network;

@@ -116,7 +116,10 @@ fn compute_at(
         if bp.simple {
             continue;
         }
-        let model = curve.special.iter().find(|s| s.site == Site::BranchPoint(idx));
+        let model = curve
+            .special
+            .iter()
+            .find(|s| s.site == Site::BranchPoint(idx));
         let message = match model {
             Some(sp) if !sp.is_singular() => continue,
             Some(_) => format!(

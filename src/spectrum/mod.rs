@@ -81,6 +81,10 @@ pub struct BpsState {
     /// `|Z(quadrature) - Z(integrator)|`: the difference between the
     /// independent quadrature and the wall integrator's value.
     pub z_error: f64,
+    /// The state's charge in the basis of `Spectrum::lattice`, from its own
+    /// cycle (`None` when it could not be lifted; a warning says why).
+    #[serde(default)]
+    pub charge: Option<Vec<i64>>,
 }
 
 /// Counters of the work done.
@@ -110,6 +114,9 @@ pub struct Spectrum {
     /// The computation was cancelled: `states` is partial.
     pub cancelled: bool,
     pub stats: SpectrumStats,
+    /// The charge lattice the states' charges refer to, with its checks.
+    #[serde(default)]
+    pub lattice: Option<crate::charges::LatticeSummary>,
 }
 
 impl Spectrum {
@@ -121,6 +128,7 @@ impl Spectrum {
             warnings,
             cancelled: false,
             stats: SpectrumStats::default(),
+            lattice: None,
         }
     }
 
@@ -151,6 +159,7 @@ impl Spectrum {
             warnings,
             cancelled,
             stats,
+            lattice: None,
         }
     }
 
@@ -203,18 +212,36 @@ const CANDIDATE_MATCH: f64 = 1e-5;
 const HIT_FRACTION: f64 = 1e-3;
 /// Refinement iterations of one candidate.
 const MAX_REFINE: usize = 6;
+/// Lattice candidates have gauge coordinates in `-LATTICE_BOX..=LATTICE_BOX`.
+const LATTICE_BOX: i64 = 6;
 
-/// Finds the BPS states with `|Z| < settings.reach`. Progress goes to
-/// `progress` as a fraction in [0, 1]. On the resolution of a singular
-/// curve ([`Curve::resolutions`] non-empty) the states that become massless
-/// at the singular points are moved to [`Spectrum::massless`].
+fn gcd_all(v: &[i64]) -> i64 {
+    fn gcd(a: i64, b: i64) -> i64 {
+        if b == 0 {
+            a.abs()
+        } else {
+            gcd(b, a % b)
+        }
+    }
+    v.iter().fold(0, |g, &x| gcd(g, x))
+}
+
+/// Finds the BPS states with `|Z| < settings.reach`, each with its charge
+/// in the curve's charge lattice (see [`crate::charges::assign`]). Progress
+/// goes to `progress` as a fraction in [0, 1]. On the resolution of a
+/// singular curve ([`Curve::resolutions`] non-empty) the states that become
+/// massless at the singular points are moved to [`Spectrum::massless`].
 pub fn find(
     curve: &Curve,
     settings: &SpectrumSettings,
     cancel: &CancelToken,
     progress: &mut dyn FnMut(f64),
 ) -> Spectrum {
-    let mut spectrum = find_on_curve(curve, settings, cancel, progress);
+    let lattice = crate::charges::Lattice::new(curve);
+    let mut spectrum = find_states(curve, settings, cancel, progress, lattice.as_ref().ok());
+    if settings.validate().is_ok() {
+        crate::charges::assign_with(&lattice, curve, &mut spectrum);
+    }
     split_massless(curve, &mut spectrum);
     spectrum
 }
@@ -265,11 +292,12 @@ fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
     ));
 }
 
-fn find_on_curve(
+fn find_states(
     curve: &Curve,
     settings: &SpectrumSettings,
     cancel: &CancelToken,
     progress: &mut dyn FnMut(f64),
+    lattice: Option<&crate::charges::Lattice>,
 ) -> Spectrum {
     if let Err(errors) = settings.validate() {
         return Spectrum::empty(settings.reach, errors);
@@ -316,6 +344,9 @@ fn find_on_curve(
     }
     let mut finder = Finder::new(curve, Quadratic::new(q), settings, cancel);
     finder.run(progress);
+    if let Some(lat) = lattice {
+        finder.lattice_candidates(lat);
+    }
     finder.into_spectrum(warnings)
 }
 
@@ -445,6 +476,50 @@ impl<'a> Finder<'a> {
         progress(1.0);
     }
 
+    /// Candidates from the charge lattice: every primitive charge with
+    /// small gauge coordinates and `|Z|` below the reach, lightest first,
+    /// each confirmed or excluded by a network at its own phase. This
+    /// resolves states whose phases crowd together (dyon towers next to a
+    /// wall of marginal stability), which no scan separates.
+    fn lattice_candidates(&mut self, lat: &crate::charges::Lattice) {
+        let gauge = lat.gauge_rank();
+        if gauge == 0 || gauge > 4 || self.stop() {
+            return;
+        }
+        let reach = self.settings.reach;
+        let n = lat.rank();
+        let mut found: Vec<(f64, Complex64)> = Vec::new();
+        let mut c = vec![-LATTICE_BOX; gauge];
+        loop {
+            let first = c.iter().find(|&&x| x != 0).copied().unwrap_or(0);
+            if first > 0 && gcd_all(&c) == 1 {
+                let mut full = c.clone();
+                full.resize(n, 0);
+                let z = lat.central_charge(&full);
+                if z.norm() < reach && z.norm() > 0.0 {
+                    found.push((z.norm(), z));
+                }
+            }
+            let mut k = 0;
+            while k < gauge && c[k] == LATTICE_BOX {
+                c[k] = -LATTICE_BOX;
+                k += 1;
+            }
+            if k == gauge {
+                break;
+            }
+            c[k] += 1;
+        }
+        // Heaviest pushed first: the queue pops the lightest first.
+        found.sort_by(|a, b| b.0.total_cmp(&a.0));
+        for (_, z) in found {
+            if !self.known(z) {
+                self.queue.push(Candidate { z, from: None });
+            }
+        }
+        self.drain_queue();
+    }
+
     fn stop(&mut self) -> bool {
         if self.cancel.is_cancelled() {
             self.cancelled = true;
@@ -557,6 +632,7 @@ impl<'a> Finder<'a> {
             endpoints: Vec::new(),
             web: vec![loop_points],
             z_error,
+            charge: None,
         };
         self.add_lattice_candidates(&state);
         self.states.push(state);
@@ -608,6 +684,7 @@ impl<'a> Finder<'a> {
                     z_error: (z_quad - pass.z_wall)
                         .norm()
                         .min((z_quad + pass.z_wall).norm()),
+                    charge: None,
                 });
             }
             theta = theta_new;

@@ -139,6 +139,7 @@ fn an_empty_or_degenerate_spectrum_still_draws() {
         warnings: Vec::new(),
         cancelled: false,
         stats: Default::default(),
+        lattice: None,
     };
     let scene = build_charges(&empty, &ChargeOptions::new(300.0, 200.0, Theme::Paper));
     assert!(marker_centres(&scene).is_empty());
