@@ -6,6 +6,7 @@
 pub mod algebra;
 pub mod angle;
 pub mod cancel;
+pub mod charges;
 pub mod curve;
 pub mod export;
 pub mod network;

@@ -135,9 +135,11 @@ fn an_empty_or_degenerate_spectrum_still_draws() {
     let empty = Spectrum {
         reach: 5.0,
         states: Vec::new(),
+        massless: Vec::new(),
         warnings: Vec::new(),
         cancelled: false,
         stats: Default::default(),
+        lattice: None,
     };
     let scene = build_charges(&empty, &ChargeOptions::new(300.0, 200.0, Theme::Paper));
     assert!(marker_centres(&scene).is_empty());

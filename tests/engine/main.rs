@@ -30,5 +30,6 @@ mod spectrum_cubic;
 mod spectrum_oscillator;
 mod spectrum_rank3;
 mod spectrum_su2;
+mod special_points;
 mod spectrum_symmetry;
 mod symmetry_laws;
