@@ -5,6 +5,7 @@
 
 pub mod algebra;
 pub mod angle;
+pub mod atomic;
 pub mod cancel;
 pub mod charges;
 pub mod curve;

@@ -59,34 +59,8 @@ impl Default for Quadratic {
     }
 }
 
-/// What part of the z-plane is shown.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-#[serde(default)]
-pub struct View {
-    pub center: [f64; 2],
-    /// Half the shown region's shorter side, in z units: the square
-    /// `center +- half_width` is visible in any window or figure.
-    pub half_width: f64,
-}
-
-impl Default for View {
-    fn default() -> Self {
-        Self {
-            center: [0.0, 0.0],
-            half_width: 3.0,
-        }
-    }
-}
-
-/// Colour theme of the canvas and of exported figures.
-#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize, Deserialize)]
-pub enum Theme {
-    /// Light background, for papers.
-    #[default]
-    Paper,
-    /// Dark background, for talks.
-    Projector,
-}
+// The view and the theme are the scene's types; a scenario saves them.
+pub use crate::scene::{Theme, View};
 
 /// A saved setup.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -515,13 +489,25 @@ impl Scenario {
         curve
             .map(|c| c.with_singular_points_resolved(self.resolution, self.resolution_phase))
             .map_err(|e: CurveError| {
-            ScenarioError::Invalid(format!("the curve cannot be used: {e}"))
-        })
+                ScenarioError::Invalid(format!("the curve cannot be used: {e}"))
+            })
     }
 
     /// The numerical settings of the scenario, checked.
     pub fn settings(&self) -> Result<Settings, ScenarioError> {
         let s = self.settings_unchecked();
+        s.validate()
+            .map_err(|m| ScenarioError::Invalid(m.join("; ")))?;
+        Ok(s)
+    }
+
+    /// The spectrum finder's settings for this scenario: its reach, the
+    /// finder's documented defaults otherwise; checked.
+    pub fn spectrum_settings(&self) -> Result<crate::spectrum::SpectrumSettings, ScenarioError> {
+        let s = crate::spectrum::SpectrumSettings {
+            reach: self.reach,
+            ..crate::spectrum::SpectrumSettings::default()
+        };
         s.validate()
             .map_err(|m| ScenarioError::Invalid(m.join("; ")))?;
         Ok(s)

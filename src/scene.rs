@@ -76,6 +76,35 @@ pub fn dash_pattern(width: f32) -> [f32; 2] {
     [4.0 * w, 3.0 * w]
 }
 
+/// What part of the z-plane is shown.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct View {
+    pub center: [f64; 2],
+    /// Half the shown region's shorter side, in z units: the square
+    /// `center +- half_width` is visible in any window or figure.
+    pub half_width: f64,
+}
+
+impl Default for View {
+    fn default() -> Self {
+        Self {
+            center: [0.0, 0.0],
+            half_width: 3.0,
+        }
+    }
+}
+
+/// Colour theme of the canvas and of exported figures.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize, Deserialize)]
+pub enum Theme {
+    /// Light background, for papers.
+    #[default]
+    Paper,
+    /// Dark background, for talks.
+    Projector,
+}
+
 /// Maps the z-plane to pixels: `center` in the middle of a `width x height`
 /// picture, `half_width` z-units from the middle to the nearer edges (those
 /// of the picture's shorter side), y axis pointing up in the plane and down
@@ -91,6 +120,11 @@ pub struct Transform {
 }
 
 impl Transform {
+    /// The transform that shows `view` in a `width x height` picture.
+    pub fn of_view(view: &View, width: f32, height: f32) -> Self {
+        Self::new(view.center, view.half_width, width, height)
+    }
+
     pub fn new(center: [f64; 2], half_width: f64, width: f32, height: f32) -> Self {
         Self {
             center,

@@ -28,12 +28,7 @@ impl ScreenTransform {
     pub fn new(rect: Rect, view: &View) -> Self {
         Self {
             rect,
-            scene: Transform {
-                center: view.center,
-                half_width: view.half_width,
-                width: rect.width(),
-                height: rect.height(),
-            },
+            scene: Transform::of_view(view, rect.width(), rect.height()),
         }
     }
 

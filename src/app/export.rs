@@ -17,12 +17,7 @@ pub fn export_scene(app: &WallflowerApp) -> anyhow::Result<crate::scene::Scene> 
         .as_ref()
         .context("nothing to export yet: the network is still computing")?;
     let [w, h] = app.export_size;
-    let transform = Transform {
-        center: app.view.center,
-        half_width: app.view.half_width,
-        width: w as f32,
-        height: h as f32,
-    };
+    let transform = Transform::of_view(&app.view, w as f32, h as f32);
     // A selected BPS state's web goes into the figure as on the canvas.
     let web = match app.selection {
         Some(super::command::Selection::State(i)) => app
@@ -74,19 +69,5 @@ pub fn export_charges(app: &WallflowerApp, path: &Path) -> anyhow::Result<()> {
 }
 
 fn write_scene(scene: &crate::scene::Scene, path: &Path) -> anyhow::Result<()> {
-    let ext = path
-        .extension()
-        .map(|e| e.to_string_lossy().to_ascii_lowercase())
-        .unwrap_or_default();
-    match ext.as_str() {
-        "svg" => super::files::atomic_write(path, &crate::export::to_svg(scene)),
-        "png" => {
-            let bytes = crate::export::to_png(scene)?;
-            super::files::atomic_write_bytes(path, &bytes)
-        }
-        _ => anyhow::bail!(
-            "export needs a file name ending in .svg or .png, got {}",
-            path.display()
-        ),
-    }
+    Ok(crate::export::write(scene, path)?)
 }

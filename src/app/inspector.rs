@@ -206,11 +206,7 @@ impl WallflowerApp {
                     .auto_shrink([false, true])
                     .show(ui, |ui| {
                     for (i, st) in spectrum.states.iter().enumerate() {
-                        let kind = match st.kind {
-                            crate::spectrum::Kind::Hyper => "hyper",
-                            crate::spectrum::Kind::Vector => "vector",
-                            crate::spectrum::Kind::Other => "other",
-                        };
+                        let kind = st.kind.name();
                         let text = format!(
                             "{:<3} {:<6} \u{3a9}={:<3} |Z|={:>8.4}  \u{3b8}={:>7.2}\u{b0}",
                             i + 1,

@@ -225,7 +225,7 @@ impl WallflowerApp {
                         "critical phase {:.4} rad = {:.2}\u{b0}\n{} state {}, \u{3a9} = {}\nZ = {:.4}{:+.4}i, |Z| = {:.4}\nclick to jump here; [ and ] step between them",
                         t,
                         t.to_degrees(),
-                        kind_name(st.kind),
+                        st.kind.long_name(),
                         idx + 1,
                         st.omega.map_or("?".to_string(), |o| o.to_string()),
                         st.z.re,
@@ -595,14 +595,6 @@ pub fn charges_path(export_path: &str) -> PathBuf {
         .extension()
         .map_or_else(|| "svg".to_string(), |e| e.to_string_lossy().into_owned());
     p.with_file_name(format!("{stem}-charges.{ext}"))
-}
-
-pub fn kind_name(kind: crate::spectrum::Kind) -> &'static str {
-    match kind {
-        crate::spectrum::Kind::Hyper => "hypermultiplet",
-        crate::spectrum::Kind::Vector => "vector multiplet",
-        crate::spectrum::Kind::Other => "other",
-    }
 }
 
 /// Up to `width` characters of `text` around the 1-based `column` (as a

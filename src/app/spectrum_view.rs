@@ -20,13 +20,6 @@ use std::f64::consts::PI;
 /// A click selects the state whose marker is within this many points.
 const PICK_RADIUS_PT: f32 = 12.0;
 
-/// The kinds in legend order, with the names their markers go by.
-const KINDS: [(Kind, &str); 3] = [
-    (Kind::Hyper, "hyper"),
-    (Kind::Vector, "vector"),
-    (Kind::Other, "other"),
-];
-
 /// The marker of a kind: shape carries the kind for readers without
 /// colour, colour repeats it.
 fn marker(kind: Kind) -> MarkerShape {
@@ -69,7 +62,7 @@ fn details(i: usize, st: &BpsState) -> String {
     format!(
         "state {}: {} (\u{3a9} = {})\nZ = {:.6}{:+.6}i\n|Z| = {:.6}, critical phase {:.4} rad = {:.2}\u{b0}\nquadrature check: |\u{394}Z| = {:.1e}\nclick: go to its critical phase",
         i + 1,
-        super::panels::kind_name(st.kind),
+        st.kind.long_name(),
         st.omega.map_or("unknown".into(), |o| o.to_string()),
         st.z.re,
         st.z.im,
@@ -232,7 +225,8 @@ impl WallflowerApp {
                 }
                 // One filled marker series per kind at Z, and hollow ones
                 // at -Z (the antiparticles, critical half a turn later).
-                for (kind, name) in KINDS {
+                for kind in Kind::ALL {
+                    let name = kind.name();
                     let of_kind = || states.iter().filter(move |s| s.kind == kind);
                     let color = kind_color(kind, theme).gamma_multiply(fade);
                     let pts: Vec<[f64; 2]> = of_kind().map(|s| [s.z.re, s.z.im]).collect();

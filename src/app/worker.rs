@@ -11,7 +11,7 @@ use crate::cancel::CancelToken;
 use crate::curve::Curve;
 use crate::network::Network;
 use crate::scenario::Scenario;
-use crate::spectrum::{Spectrum, SpectrumSettings};
+use crate::spectrum::Spectrum;
 use eframe::egui;
 use std::sync::mpsc::{self, Receiver, Sender};
 use std::sync::{Arc, Mutex};
@@ -195,10 +195,7 @@ pub fn compute_spectrum(
     cancel: &CancelToken,
 ) -> Result<Arc<Spectrum>, String> {
     let curve = scenario.build_curve().map_err(|e| e.to_string())?;
-    let settings = SpectrumSettings {
-        reach: scenario.reach,
-        ..SpectrumSettings::default()
-    };
+    let settings = scenario.spectrum_settings().map_err(|e| e.to_string())?;
     let spectrum = crate::spectrum::find(&curve, &settings, cancel, &mut |_| {});
     Ok(Arc::new(spectrum))
 }

@@ -10,7 +10,7 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 use wallflower::scenario::Theme;
 use wallflower::scene::{self, SceneOptions, Transform};
-use wallflower::spectrum::{self, SpectrumSettings};
+use wallflower::spectrum;
 use wallflower::{compute, export, CancelToken};
 
 /// Largest side of a figure, in pixels (the PNG writer's own limit).
@@ -62,10 +62,7 @@ pub struct FigureArgs {
     pub no_legend: bool,
 }
 
-pub enum Format {
-    Svg,
-    Png,
-}
+pub use wallflower::export::Format;
 
 /// Parses WIDTHxHEIGHT given with option `flag` (named in the messages).
 pub fn parse_size(flag: &str, text: &str) -> anyhow::Result<(u32, u32)> {
@@ -78,21 +75,6 @@ pub fn parse_size(flag: &str, text: &str) -> anyhow::Result<(u32, u32)> {
         }
         Some(_) => bad_input!("{flag} {text}: each side must be 16 to {MAX_SIDE_PX} pixels"),
         None => bad_input!("{flag} {text}: expected WIDTHxHEIGHT in pixels, e.g. 1200x800"),
-    }
-}
-
-impl Format {
-    /// The format a file name asks for, by its extension.
-    pub fn of(path: &std::path::Path) -> Option<Self> {
-        let ext = path
-            .extension()
-            .and_then(|e| e.to_str())
-            .map(str::to_ascii_lowercase);
-        match ext.as_deref() {
-            Some("svg") => Some(Self::Svg),
-            Some("png") => Some(Self::Png),
-            _ => None,
-        }
     }
 }
 
@@ -121,13 +103,7 @@ pub fn run(args: &DrawArgs) -> anyhow::Result<ExitCode> {
 /// The critical phase and web of BPS state `n` (1-based, as listed by
 /// `wallflower spectrum`) of the loaded curve.
 fn state_web(loaded: &Loaded, n: usize) -> anyhow::Result<(f64, Vec<Vec<Complex64>>)> {
-    let settings = SpectrumSettings {
-        reach: loaded.settings.reach,
-        ..SpectrumSettings::default()
-    };
-    if let Err(errors) = settings.validate() {
-        bad_input!("{}", errors.join("; "));
-    }
+    let settings = super::spectrum::settings_for(loaded)?;
     // The spectrum can take seconds at a large reach: show how far it is.
     let bar = super::spectrum::progress_bar("spectrum");
     let found = spectrum::find(&loaded.curve, &settings, &CancelToken::new(), &mut |f| {
@@ -167,12 +143,7 @@ pub fn figure_at(
         .map(|w| super::one_line(&w.message))
         .collect();
     let view = &loaded.scenario.view;
-    let transform = Transform {
-        center: view.center,
-        half_width: view.half_width,
-        width: width as f32,
-        height: height as f32,
-    };
+    let transform = Transform::of_view(view, width as f32, height as f32);
     let theme = match figure.theme {
         Some(ThemeArg::Paper) => Theme::Paper,
         Some(ThemeArg::Projector) => Theme::Projector,
@@ -189,9 +160,5 @@ pub fn figure_at(
     opts.grid = !figure.no_grid;
     opts.legend = !figure.no_legend;
     let picture = scene::build(&loaded.curve, &net, &opts);
-    let bytes = match format {
-        Format::Svg => export::svg::to_svg(&picture).into_bytes(),
-        Format::Png => export::png::to_png(&picture)?,
-    };
-    Ok((bytes, warnings))
+    Ok((export::encode(&picture, *format)?, warnings))
 }

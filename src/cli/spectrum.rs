@@ -16,7 +16,7 @@ use wallflower::charges::LatticeSummary;
 use wallflower::export;
 use wallflower::scenario::Theme;
 use wallflower::scene::charges::{build_charges, ChargeOptions};
-use wallflower::spectrum::{self, BpsState, Kind, SpectrumSettings};
+use wallflower::spectrum::{self, BpsState, SpectrumSettings};
 use wallflower::CancelToken;
 
 #[derive(Debug, Args)]
@@ -91,20 +91,12 @@ pub struct StateJson {
     charge: Option<Vec<i64>>,
 }
 
-fn kind_name(k: Kind) -> &'static str {
-    match k {
-        Kind::Hyper => "hyper",
-        Kind::Vector => "vector",
-        Kind::Other => "other",
-    }
-}
-
 fn state_json(s: &BpsState, reach: f64) -> StateJson {
     StateJson {
         z: [s.z.re, s.z.im],
         abs: s.abs,
         phase: s.phase,
-        kind: kind_name(s.kind),
+        kind: s.kind.name(),
         omega: s.omega,
         reach,
         z_error: s.z_error,
@@ -201,15 +193,12 @@ struct SpectrumJson {
     pairings: Vec<Vec<Option<i64>>>,
 }
 
-fn settings_for(loaded: &Loaded) -> anyhow::Result<SpectrumSettings> {
-    let s = SpectrumSettings {
-        reach: loaded.settings.reach,
-        ..SpectrumSettings::default()
-    };
-    if let Err(errors) = s.validate() {
-        bad_input!("{}", errors.join("; "));
+/// The finder's settings of the loaded scenario (its reach after --reach).
+pub fn settings_for(loaded: &Loaded) -> anyhow::Result<SpectrumSettings> {
+    match loaded.scenario.spectrum_settings() {
+        Ok(s) => Ok(s),
+        Err(e) => bad_input!("{e}"),
     }
-    Ok(s)
 }
 
 /// A progress bar on stderr; invisible when stderr is not a terminal.
@@ -288,7 +277,7 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 num(s.z.im),
                 num(s.abs),
                 num(s.phase),
-                kind_name(s.kind),
+                s.kind.name(),
                 s.omega
                     .map_or_else(|| "unknown".to_string(), |o| o.to_string()),
                 num(s.z_error)
@@ -310,7 +299,7 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
             out.push_str(&format!(
                 "{:>3}  {:>6}  {:>5}  {:>34}  {:>14.10}  {:>13.10}  {:>8.1e}  {}\n",
                 k + 1,
-                kind_name(s.kind),
+                s.kind.name(),
                 s.omega.map_or_else(|| "?".to_string(), |o| o.to_string()),
                 fmt_z(s.z),
                 s.abs,
@@ -324,7 +313,7 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
         for s in &found.massless {
             out.push_str(&format!(
                 "  0  {:>6}  {:>5}  {:>34}  massless at the singular point (|Z| = {:.1e} on the resolution)  {}\n",
-                kind_name(s.kind),
+                s.kind.name(),
                 s.omega.map_or_else(|| "?".to_string(), |o| o.to_string()),
                 "0",
                 s.abs,
@@ -366,11 +355,7 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
         opts.title = args.plot_title.clone();
         opts.phase = args.plot_phase.then_some(loaded.theta);
         let picture = build_charges(&found, &opts);
-        let bytes = match format {
-            Format::Svg => export::svg::to_svg(&picture).into_bytes(),
-            Format::Png => export::png::to_png(&picture)?,
-        };
-        write_atomic(path, &bytes)?;
+        write_atomic(path, &export::encode(&picture, format)?)?;
     }
     if args.strict && !self_check_passed(&found) {
         eprintln!("error: the spectrum failed its self-check (see the warnings)");
@@ -581,7 +566,7 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
                 for s in states.iter() {
                     out.push_str(&format!(
                         "  {label:>6}  {:>6}  Z = {}  |Z| = {:.10}  charge {}\n",
-                        kind_name(s.kind),
+                        s.kind.name(),
                         fmt_z(s.z),
                         s.abs,
                         s.charge

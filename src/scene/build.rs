@@ -11,7 +11,7 @@ use super::palette::{self, theme_colors, ThemeColors};
 use super::{layer_names, Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
 use crate::curve::Curve;
 use crate::network::Network;
-use crate::scenario::Theme;
+use crate::scene::Theme;
 use crate::walls::WallType;
 use num_complex::Complex64;
 use std::collections::BTreeMap;

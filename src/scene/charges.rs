@@ -12,7 +12,7 @@
 use super::build::{background_layer, grid_named, text_width_em};
 use super::palette::{state_color, theme_colors};
 use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
-use crate::scenario::Theme;
+use crate::scene::Theme;
 use crate::spectrum::{BpsState, Kind, Spectrum};
 use num_complex::Complex64;
 

@@ -21,7 +21,7 @@
 //! Yellow is left out of the wall colours: it does not read on white paper.
 
 use super::Rgba;
-use crate::scenario::Theme;
+use crate::scene::Theme;
 use crate::spectrum::Kind;
 use crate::walls::WallType;
 

@@ -61,6 +61,32 @@ pub enum Kind {
     Other,
 }
 
+impl Kind {
+    /// Every kind, in the order legends list them.
+    pub const ALL: [Self; 3] = [Self::Hyper, Self::Vector, Self::Other];
+
+    /// The name every output uses: `"hyper"`, `"vector"` or `"other"`
+    /// (JSON, CSV, tables, the window's lists).
+    #[must_use]
+    pub fn name(self) -> &'static str {
+        match self {
+            Self::Hyper => "hyper",
+            Self::Vector => "vector",
+            Self::Other => "other",
+        }
+    }
+
+    /// The name written out, for sentences and tooltips.
+    #[must_use]
+    pub fn long_name(self) -> &'static str {
+        match self {
+            Self::Hyper => "hypermultiplet",
+            Self::Vector => "vector multiplet",
+            Self::Other => "other",
+        }
+    }
+}
+
 /// One BPS state (a particle and its antiparticle).
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct BpsState {
@@ -258,15 +284,19 @@ fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
         .resolutions
         .iter()
         .flat_map(|r| {
-            r.model.orbits.iter().filter(|o| o.n_walls > 0).map(move |o| {
-                let c = r
-                    .model
-                    .coeffs
-                    .iter()
-                    .map(|(_, c)| c.norm())
-                    .fold(0.0, f64::max);
-                c * r.distance.powf(o.exponent.value() + 1.0)
-            })
+            r.model
+                .orbits
+                .iter()
+                .filter(|o| o.n_walls > 0)
+                .map(move |o| {
+                    let c = r
+                        .model
+                        .coeffs
+                        .iter()
+                        .map(|(_, c)| c.norm())
+                        .fold(0.0, f64::max);
+                    c * r.distance.powf(o.exponent.value() + 1.0)
+                })
         })
         .fold(0.0, f64::max)
         * MASSLESS_MARGIN;

@@ -69,7 +69,12 @@ fn zeros_of_order_n_and_a_simple_pole_give_their_local_wall_counts_at_exact_angl
         assert_eq!(seeds.len(), 1, "1/z");
         assert!(matches!(seeds[0].origin, Origin::Puncture { .. }));
         // w_12 = 4 z^(1/2): one ray, at 2 theta (or 2 theta + 2 pi).
-        assert_angles(&[angle_of(&seeds[0], Complex64::new(0.0, 0.0))], &[2.0 * theta], 1e-12, "1/z");
+        assert_angles(
+            &[angle_of(&seeds[0], Complex64::new(0.0, 0.0))],
+            &[2.0 * theta],
+            1e-12,
+            "1/z",
+        );
     }
 }
 
@@ -91,7 +96,11 @@ fn three_sheets_meeting_like_a_cube_root_give_eight_walls_that_close_up() {
             assert_eq!(w.multiplicity.abs(), 1);
         }
         // The loop around the point crosses all eight walls and the cut.
-        let m = jump::path_product(&c, &net.walls, &jump::loop_around(Complex64::new(0.0, 0.0), 0.3, 48));
+        let m = jump::path_product(
+            &c,
+            &net.walls,
+            &jump::loop_around(Complex64::new(0.0, 0.0), 0.3, 48),
+        );
         let d = jump::deviation_from_identity(&m);
         assert!(d < 1e-12, "theta {theta}: |M - 1| = {d}");
         assert!(net.flatness.worst < 1e-12);
@@ -158,21 +167,36 @@ fn a_simple_pole_of_q_emits_one_wall_and_the_user_means_a_reduced_curve() {
 
 #[test]
 fn singular_points_are_drawn_from_a_stated_resolution() {
-    let mut s = wallflower::scenario::Scenario::default();
-    s.curve = Some("y^2 = z^3".into());
+    let s = wallflower::scenario::Scenario {
+        curve: Some("y^2 = z^3".into()),
+        ..Default::default()
+    };
     let c = s.build_curve().unwrap();
     assert_eq!(c.resolutions.len(), 1);
-    assert_eq!(c.branch_points.len(), 3, "z^3 splits into three simple zeros");
+    assert_eq!(
+        c.branch_points.len(),
+        3,
+        "z^3 splits into three simple zeros"
+    );
     for bp in &c.branch_points {
         assert!(bp.simple);
-        assert!((bp.z.norm() - s.resolution * 1.0).abs() < 1e-9 * 1.0 + 1e-6, "{:?}", bp.z);
+        assert!(
+            (bp.z.norm() - s.resolution * 1.0).abs() < 1e-9 * 1.0 + 1e-6,
+            "{:?}",
+            bp.z
+        );
     }
     let net = compute(&c, 0.3, &s.settings().unwrap(), &CancelToken::new());
-    assert!(net.warnings.iter().any(|w| w.message.contains("resolution")));
+    assert!(net
+        .warnings
+        .iter()
+        .any(|w| w.message.contains("resolution")));
     assert!(net.flatness.worst < 1e-9, "{:?}", net.flatness);
     // Far out the walls follow the 5 directions of the local model of
     // z^3: 2 (theta + k pi)/5 (several walls may share a direction).
-    let dirs: Vec<f64> = (0..5).map(|k| 2.0 * (0.3 + PI * f64::from(k)) / 5.0).collect();
+    let dirs: Vec<f64> = (0..5)
+        .map(|k| 2.0 * (0.3 + PI * f64::from(k)) / 5.0)
+        .collect();
     for w in &net.walls {
         let last = w.points.last().unwrap().z;
         if last.norm() > 0.5 {
@@ -188,8 +212,10 @@ fn singular_points_are_drawn_from_a_stated_resolution() {
 #[test]
 fn near_collisions_keep_the_starts_and_flatness() {
     // Two branch points 4e-4 apart (pure SU(3)-type curve near u = v = 0).
-    let mut s = wallflower::scenario::Scenario::default();
-    s.curve = Some("y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0".into());
+    let mut s = wallflower::scenario::Scenario {
+        curve: Some("y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0".into()),
+        ..Default::default()
+    };
     s.params.insert("u".into(), [0.01, 0.0]);
     s.params.insert("v".into(), [0.02, 0.0]);
     let c = s.build_curve().unwrap();
@@ -210,7 +236,10 @@ fn near_collisions_keep_the_starts_and_flatness() {
             .iter()
             .filter(|w| matches!(w.origin, Origin::BranchPoint { .. }))
             .count();
-        assert!(primary >= 3 * simple, "{primary} primary walls for {simple} points");
+        assert!(
+            primary >= 3 * simple,
+            "{primary} primary walls for {simple} points"
+        );
     }
 }
 
@@ -225,7 +254,12 @@ fn special_point_walls_rotate_with_the_curve() {
     let turned = curve(&format!("y^3 = ({} + {}i) z", c.re, c.im));
     for theta in [0.2, 1.4] {
         let n0 = compute(&base, theta, &Settings::default(), &CancelToken::new());
-        let n1 = compute(&turned, theta + a, &Settings::default(), &CancelToken::new());
+        let n1 = compute(
+            &turned,
+            theta + a,
+            &Settings::default(),
+            &CancelToken::new(),
+        );
         let want: Vec<f64> = n0.walls.iter().map(|w| w.points[1].z.arg() + a).collect();
         let got: Vec<f64> = n1.walls.iter().map(|w| w.points[1].z.arg()).collect();
         assert_angles(&got, &want, 1e-10, "rotated y^3 = z");
@@ -261,8 +295,10 @@ fn one_sided(a: &[Vec<Complex64>], b: &[Vec<Complex64>]) -> f64 {
 /// The walls' polylines, whole (`radius` infinite) or only their points
 /// inside `|z| < radius`.
 fn walls_inside(c: &Curve, theta: f64, radius: f64) -> Vec<Vec<Complex64>> {
-    let mut settings = Settings::default();
-    settings.bounds = Some(wallflower::walls::Bounds::square(0.0, 0.0, 3.0));
+    let settings = Settings {
+        bounds: Some(wallflower::walls::Bounds::square(0.0, 0.0, 3.0)),
+        ..Settings::default()
+    };
     let net = compute(c, theta, &settings, &CancelToken::new());
     net.walls
         .iter()
