@@ -9,6 +9,7 @@ pub mod curve;
 pub mod export;
 pub mod network;
 pub mod quad;
+pub mod scan;
 pub mod walls;
 
 pub use cancel::CancelToken;
