@@ -5,7 +5,7 @@
 //! the SVG and the PNG writers draw it alike.
 
 use super::build::{background_layer, grid_named, text_width_em};
-use super::palette::{theme_colors, WALL_COLORS_PAPER, WALL_COLORS_PROJECTOR};
+use super::palette::theme_colors;
 use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
 use crate::scan::summary::MapSummary;
 use crate::scan::Grid;
@@ -84,14 +84,6 @@ pub fn chamber_color(class: usize, theme: Theme) -> Rgba {
         Theme::Projector => 110,
     };
     Rgba([c.0[0], c.0[1], c.0[2], alpha])
-}
-
-/// The colour of walls of marginal stability (vermillion).
-pub fn wall_color(theme: Theme) -> Rgba {
-    match theme {
-        Theme::Paper => WALL_COLORS_PAPER[1],
-        Theme::Projector => WALL_COLORS_PROJECTOR[1],
-    }
 }
 
 /// The view: the grid's rectangle with a margin.
@@ -184,7 +176,7 @@ pub fn build_param_map(grid: &Grid, summary: &MapSummary, opts: &MapOptions) -> 
             Vec::new()
         },
     );
-    let wall_rgba = wall_color(opts.theme);
+    let wall_rgba = colors.foreground;
     let walls = summary
         .walls
         .iter()
@@ -315,7 +307,7 @@ fn legend(summary: &MapSummary, opts: &MapOptions, s: f32) -> Vec<Shape> {
             Row::Wall => shapes.push(Shape::Polyline {
                 points: vec![[x0, y], [x0 + swatch, y]],
                 width: 2.2 * s,
-                color: wall_color(opts.theme),
+                color: colors.foreground,
                 dashed: false,
                 item: Item::Decoration,
             }),
