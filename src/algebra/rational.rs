@@ -5,6 +5,10 @@ use super::poly::Poly;
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
 
+/// Roots of numerator and denominator closer than this (relative to
+/// `1 + |z|`) are one shared factor; see [`Rational::cancelled`].
+pub const CANCEL_REL: f64 = 1e-6;
+
 /// `num(z) / den(z)`. No cancellation of common factors is attempted except
 /// where noted; callers that need reduced forms use [`Rational::reduced`].
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -117,6 +121,48 @@ impl Rational {
     /// Cancels powers of z common to numerator and denominator and makes the
     /// denominator's leading coefficient 1, so equal functions compare equal
     /// more often. Factors other than z are left alone.
+    /// Cancels the factors that numerator and denominator share, so that
+    /// `(z-1)^2/(z-1)` becomes `z - 1`: roots of both that agree to
+    /// [`CANCEL_REL`] (relative to `1 + |z|`) are divided out of both by
+    /// synthetic division, then the result is [`Rational::reduced`].
+    ///
+    /// The tolerance is loose because a root of multiplicity m is found
+    /// only to about `eps^(1/m)`: 1e-6 covers triple roots in double
+    /// precision. A zero and a pole closer than that are one point to us.
+    pub fn cancelled(&self) -> Self {
+        let base = self.reduced();
+        if base.num.is_zero() || base.num.degree() == 0 || base.den.degree() == 0 {
+            return base;
+        }
+        let num_roots = base.num.roots();
+        let mut den_roots = base.den.roots();
+        let (mut num, mut den) = (base.num.clone(), base.den.clone());
+        let mut changed = false;
+        for n in num_roots {
+            if !n.is_finite() {
+                continue;
+            }
+            let hit = den_roots
+                .iter()
+                .enumerate()
+                .filter(|(_, d)| (*d - n).norm() <= CANCEL_REL * (1.0 + n.norm()))
+                .min_by(|a, b| (a.1 - n).norm().total_cmp(&(b.1 - n).norm()));
+            if let Some((idx, &d)) = hit {
+                den_roots.swap_remove(idx);
+                // Divide both by the same factor, at the mean of the two
+                // estimates of the shared root.
+                let p = (n + d) * 0.5;
+                num = num.deflate(p);
+                den = den.deflate(p);
+                changed = true;
+            }
+        }
+        if !changed {
+            return base;
+        }
+        Self { num, den }.reduced()
+    }
+
     pub fn reduced(&self) -> Self {
         let k = self.num.order_at_zero().min(self.den.order_at_zero());
         let num = Poly::new(self.num.coeffs[k.min(self.num.coeffs.len() - 1)..].to_vec());

@@ -103,6 +103,10 @@ impl From<&Wall> for WallJson {
                 kind: "branch_point",
                 index,
             },
+            Origin::Puncture { index, .. } => OriginJson {
+                kind: "puncture",
+                index,
+            },
             Origin::Joint { index } => OriginJson {
                 kind: "joint",
                 index,

@@ -10,7 +10,10 @@
 //! method on the pair `P = dP/dy = 0` in (y, z).
 
 use super::sheets::{closest_pair, roots_of_monic, sort_roots};
-use super::{BranchPoint, Curve, CurveError, CurveNote, Cut, LabelFrame, Puncture, CUT_DIRECTION};
+use super::{
+    BranchPoint, Curve, CurveError, CurveNote, Cut, LabelFrame, Puncture, Site, SpecialPoint,
+    CUT_DIRECTION,
+};
 use crate::algebra::Poly;
 use num_complex::Complex64;
 use std::f64::consts::TAU;
@@ -439,4 +442,35 @@ pub(super) fn cuts(curve: &Curve) -> Vec<Cut> {
         }
     }
     cuts
+}
+
+/// Local models at every non-simple branch point and at every finite
+/// puncture where some pair of sheets emits walls (a simple pole of q).
+pub(super) fn special_points(curve: &Curve) -> Vec<SpecialPoint> {
+    let mut out = Vec::new();
+    for (idx, bp) in curve.branch_points.iter().enumerate() {
+        if bp.simple {
+            continue;
+        }
+        if let Some(model) = super::local::local_model(curve, bp.z, &curve.monodromy_at(bp.z)) {
+            out.push(SpecialPoint {
+                z: bp.z,
+                site: Site::BranchPoint(idx),
+                model,
+            });
+        }
+    }
+    for (idx, p) in curve.punctures.iter().enumerate() {
+        let Some(z) = p.z else { continue };
+        if let Some(model) = super::local::local_model(curve, z, &curve.monodromy_at(z)) {
+            if model.n_walls() > 0 {
+                out.push(SpecialPoint {
+                    z,
+                    site: Site::Puncture(idx),
+                    model,
+                });
+            }
+        }
+    }
+    out
 }

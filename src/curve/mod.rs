@@ -7,9 +7,11 @@
 
 mod branch;
 mod coeffs;
+mod local;
 mod sheets;
 
 pub use coeffs::{csqrt, CoeffEval};
+pub use local::{Exponent, LocalModel, PairOrbit};
 pub use sheets::{closest_pair, roots_of_monic, sort_roots, ContinuationError};
 
 use crate::algebra::{Poly, PolyInY, Rational};
@@ -83,6 +85,34 @@ pub struct Puncture {
     pub order: u32,
 }
 
+/// Where a special point sits.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub enum Site {
+    /// Index into [`Curve::branch_points`].
+    BranchPoint(usize),
+    /// Index into [`Curve::punctures`].
+    Puncture(usize),
+}
+
+/// A point other than a simple branch point where walls start (or would,
+/// after a resolution): a branch point where more than two sheets meet or
+/// the discriminant vanishes to higher order, or a finite puncture where
+/// some pair of sheets has an exponent in (-1, 0) (a simple pole of q).
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct SpecialPoint {
+    pub z: Complex64,
+    pub site: Site,
+    pub model: LocalModel,
+}
+
+impl SpecialPoint {
+    /// A branch point where the cover is singular (a cycle vanishes):
+    /// its network is drawn from a resolution, not from the point.
+    pub fn is_singular(&self) -> bool {
+        matches!(self.site, Site::BranchPoint(_)) && !self.model.smooth
+    }
+}
+
 /// The reference frame for sheet labels: a base point above everything.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct LabelFrame {
@@ -132,6 +162,8 @@ pub struct Curve {
     pub frame: LabelFrame,
     /// One cut per singular point whose sheets are permuted around it.
     pub cuts: Vec<Cut>,
+    /// Non-simple branch points and emitting punctures, with their local models.
+    pub special: Vec<SpecialPoint>,
     pub notes: Vec<CurveNote>,
     /// `u` arranged for fast evaluation (rebuilt from `u`, never stored).
     #[serde(skip)]
@@ -160,7 +192,7 @@ impl Curve {
             let r = if k == 0 {
                 Rational::one()
             } else {
-                ck.div(lead).ok_or(CurveError::ZeroLeading)?.reduced()
+                ck.div(lead).ok_or(CurveError::ZeroLeading)?.cancelled()
             };
             let finite = r
                 .num
@@ -193,7 +225,7 @@ impl Curve {
                 &vec![p; order as usize],
             ));
         }
-        let q = Rational { num, den };
+        let q = Rational { num, den }.cancelled();
         let zero = Rational::zero();
         Self::from_monic(2, vec![Rational::one(), zero, q.neg()])
     }
@@ -212,6 +244,7 @@ impl Curve {
                 base_roots: Vec::new(),
             },
             cuts: Vec::new(),
+            special: Vec::new(),
             notes: Vec::new(),
         };
         let found = branch::find_singularities(&curve)?;
@@ -226,6 +259,7 @@ impl Curve {
         curve.frame = branch::label_frame(&curve)?;
         curve.branch_points = branch::classify(&curve, &found.branch_z, &found.branch_orders);
         curve.cuts = branch::cuts(&curve);
+        curve.special = branch::special_points(&curve);
         Ok(curve)
     }
 
@@ -255,6 +289,25 @@ impl Curve {
             }
         }
         spread.clamp(1e-3, 1e6)
+    }
+
+    /// The monodromy around singular point `z`: its cut's permutation, or
+    /// the identity when no cut starts there.
+    pub fn monodromy_at(&self, z: Complex64) -> Vec<usize> {
+        self.cuts
+            .iter()
+            .find(|c| (c.origin - z).norm() <= 1e-12 * (1.0 + z.norm()))
+            .map_or_else(|| (0..self.rank).collect(), |c| c.perm.clone())
+    }
+
+    /// Distance from `z` to the nearest other singular point, at most the
+    /// length scale: the room the local series around `z` has.
+    pub fn room_around(&self, z: Complex64) -> f64 {
+        self.singular_points
+            .iter()
+            .map(|s| (s - z).norm())
+            .filter(|d| *d > 1e-12 * (1.0 + z.norm()))
+            .fold(self.length_scale(), f64::min)
     }
 
     /// `dP/dz` and `d^2P/dy^2` at `(y, z)`, for the local series at branch points.

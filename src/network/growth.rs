@@ -41,7 +41,7 @@ fn is_birth_point(
             let j = &joints[index];
             j.parents.contains(&other) && (z - j.z).norm() <= 1e-9 * (1.0 + z.norm())
         }
-        Origin::BranchPoint { .. } => false,
+        Origin::BranchPoint { .. } | Origin::Puncture { .. } => false,
     }
 }
 
@@ -100,6 +100,10 @@ pub fn grow_descendants(
                         continue;
                     };
                     let (q0, q1) = (b.points[sb].z, b.points[sb + 1].z);
+                    // Walls that leave one point meet only there.
+                    if sa == 0 && sb == 0 && a.points[0].z == b.points[0].z {
+                        continue;
+                    }
                     let Some((fa, fb)) = segment_intersection(p0, p1, q0, q1) else {
                         continue;
                     };

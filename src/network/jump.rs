@@ -13,7 +13,8 @@
 //! cut crossing      west to east (from smaller to larger Re z), where the
 //!                   sheet labelled x becomes sigma(x):
 //!                   C[x][sigma(x)] = eps(x),  eps(x) = -1 if x is the
-//!                   smallest label of a non-trivial cycle of sigma, else +1;
+//!                   smallest label of a cycle of sigma of even length,
+//!                   else +1 (so det C = 1);
 //!                   east to west: C^{-1} = C^T.
 //! joints            a wall A of type ij (mu = a) crossing B of type jk
 //!                   (mu = b) at p gives a child of type ik with
@@ -49,7 +50,7 @@ pub fn cut_signs(perm: &[usize], west_to_east: bool) -> Vec<i64> {
     }
 }
 
-/// eps(x) = -1 for the smallest label of each non-trivial cycle.
+/// eps(x) = -1 for the smallest label of each cycle of even length.
 fn cycle_signs(perm: &[usize]) -> Vec<i64> {
     let n = perm.len();
     let mut eps = vec![1_i64; n];
@@ -68,7 +69,12 @@ fn cycle_signs(perm: &[usize]) -> Vec<i64> {
             x = perm[x];
             guard += 1;
         }
-        if cycle.len() > 1 {
+        // The signs of a cycle multiply to (-1)^(p-1), the sign the
+        // normalisation (dP/dy)^(-1/2) of local solutions picks up going p
+        // times round a point where p sheets meet like (z - b)^(1/p); it
+        // is also what makes det C = 1, without which no product of
+        // unipotent wall factors could close a loop with C.
+        if cycle.len() % 2 == 0 {
             let min = *cycle.iter().min().expect("non-empty cycle");
             eps[min] = -1;
         }
@@ -370,10 +376,27 @@ pub fn flatness_checked(
     cancel: &CancelToken,
 ) -> Option<(Flatness, u64)> {
     let r = rel_radius * curve.length_scale();
+    // Branch points: the simple ones and those special points whose walls
+    // the network draws from their local model (smooth covers; not
+    // punctures, around which the connection has its own monodromy).
+    // Their loops stay inside the room around them.
+    let drawn_special = curve
+        .special
+        .iter()
+        .filter(|s| matches!(s.site, crate::curve::Site::BranchPoint(_)) && s.model.smooth)
+        .map(|s| s.z);
+    let points: Vec<(Complex64, f64)> = curve
+        .branch_points
+        .iter()
+        .filter(|b| b.simple)
+        .map(|b| b.z)
+        .chain(drawn_special)
+        .map(|z| (z, r.min(0.3 * curve.room_around(z))))
+        .collect();
     let centres_all: Vec<Complex64> = joints
         .iter()
         .map(|j| j.z)
-        .chain(curve.branch_points.iter().filter(|b| b.simple).map(|b| b.z))
+        .chain(points.iter().map(|p| p.0))
         .collect();
     // Only segments near a loop can cross it. With few loops a plain box
     // test per segment and loop is far cheaper than hashing every segment
@@ -399,18 +422,15 @@ pub fn flatness_checked(
     };
     let mut out = Flatness::default();
     let mut tests = 0u64;
-    let centres = joints.iter().map(|j| (true, j.z)).chain(
-        curve
-            .branch_points
-            .iter()
-            .filter(|b| b.simple)
-            .map(|b| (false, b.z)),
-    );
-    for (is_joint, z) in centres {
+    let centres = joints
+        .iter()
+        .map(|j| (true, j.z, r))
+        .chain(points.iter().map(|&(z, radius)| (false, z, radius)));
+    for (is_joint, z, radius) in centres {
         if cancel.is_cancelled() {
             return None;
         }
-        let m = path_product_counted(curve, walls, &grid, &loop_around(z, r, 24), &mut tests);
+        let m = path_product_counted(curve, walls, &grid, &loop_around(z, radius, 24), &mut tests);
         let d = deviation_from_identity(&m);
         if is_joint {
             out.joints.push(d);
@@ -425,4 +445,90 @@ pub fn flatness_checked(
         .copied()
         .fold(0.0, f64::max);
     Some((out, tests))
+}
+
+/// Signs of the walls around a point that close the loop: `mu` in
+/// `{+1, -1}^N` with
+///
+/// ```text
+/// (1 + mu_1 e_(i_1 j_1)) (1 + mu_2 e_(i_2 j_2)) ... (1 + mu_N e_(i_N j_N)) C = 1,
+/// ```
+///
+/// the walls in counterclockwise order from just east of the point's cut
+/// (types as they hold there) and C the cut's matrix west to east. Found by
+/// meeting in the middle over exact integer matrices (2^(N/2) products on
+/// each side), so N is limited to [`MAX_CLOSING_WALLS`].
+#[derive(Clone, Debug, PartialEq)]
+pub enum ClosingSigns {
+    /// Exactly one assignment closes the loop.
+    Unique(Vec<i64>),
+    /// Several do (the first, and how many).
+    Ambiguous(Vec<i64>, usize),
+    /// None does: the walls found do not form a flat local model.
+    None,
+    /// Too many walls to search.
+    TooMany,
+}
+
+/// Largest number of walls [`closing_signs`] searches (2^15 products a side).
+pub const MAX_CLOSING_WALLS: usize = 30;
+
+pub fn closing_signs(k: usize, kinds: &[WallType], perm: &[usize]) -> ClosingSigns {
+    let n = kinds.len();
+    if n > MAX_CLOSING_WALLS {
+        return ClosingSigns::TooMany;
+    }
+    let eps = cycle_signs(perm);
+    // C^(-1) = C^T: row perm[x] has eps(x) in column x.
+    let mut c_inv = vec![0_i64; k * k];
+    for x in 0..k {
+        c_inv[perm[x] * k + x] = eps[x];
+    }
+    let half = n / 2;
+    // Right-multiply `m` by (1 + s e_ij): column j += s * column i.
+    let apply = |m: &mut [i64], kind: WallType, s: i64| {
+        let (i, j) = (kind.i as usize, kind.j as usize);
+        for r in 0..k {
+            m[r * k + j] += s * m[r * k + i];
+        }
+    };
+    let identity: Vec<i64> = (0..k * k)
+        .map(|x| i64::from(x / k == x % k))
+        .collect();
+    // Left halves: L(s) = prod_{a < half} (1 + s_a e_a).
+    let mut left = std::collections::HashMap::<Vec<i64>, Vec<u32>>::new();
+    for bits in 0..(1u32 << half) {
+        let mut m = identity.clone();
+        for a in 0..half {
+            apply(&mut m, kinds[a], if bits >> a & 1 == 1 { -1 } else { 1 });
+        }
+        left.entry(m).or_default().push(bits);
+    }
+    // Right halves: need L = C^(-1) R^(-1) with
+    // R^(-1) = prod over the right walls in reverse of (1 - s e).
+    let mut found: Vec<Vec<i64>> = Vec::new();
+    let mut count = 0usize;
+    for bits in 0..(1u32 << (n - half)) {
+        let mut m = c_inv.clone();
+        for a in (half..n).rev() {
+            let s = if bits >> (a - half) & 1 == 1 { -1 } else { 1 };
+            apply(&mut m, kinds[a], -s);
+        }
+        if let Some(lefts) = left.get(&m) {
+            for &lb in lefts {
+                count += 1;
+                if found.is_empty() {
+                    let sign = |x: u32, a: usize| if x >> a & 1 == 1 { -1 } else { 1 };
+                    let mut mu: Vec<i64> = (0..half).map(|a| sign(lb, a)).collect();
+                    mu.extend((half..n).map(|a| sign(bits, a - half)));
+                    found.push(mu);
+                }
+            }
+        }
+    }
+    match (found.pop(), count) {
+        (None, _) => ClosingSigns::None,
+        (Some(mu), 1) => ClosingSigns::Unique(mu),
+        (Some(mu), c) => ClosingSigns::Ambiguous(mu, c),
+    }
 }

@@ -6,8 +6,8 @@ pub mod growth;
 pub mod jump;
 
 use crate::cancel::CancelToken;
-use crate::curve::{BranchPoint, Curve, Puncture};
-use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Settings, Wall};
+use crate::curve::{BranchPoint, Curve, Puncture, Site};
+use crate::walls::{grow_wall, primary_seeds, special_seeds, Bounds, GrowContext, Settings, Wall};
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
 
@@ -97,18 +97,30 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
         })
         .collect();
     for (idx, bp) in curve.branch_points.iter().enumerate() {
-        if !bp.simple {
-            warnings.push(Warning {
-                message: format!(
-                    "branch point {} at {:.6}{:+.6}i is not simple ({} sheets meet, order {}): no walls drawn from it; the curve is not generic",
-                    idx + 1,
-                    bp.z.re,
-                    bp.z.im,
-                    bp.n_sheets_meeting,
-                    bp.order
-                ),
-            });
+        if bp.simple {
+            continue;
         }
+        let model = curve.special.iter().find(|s| s.site == Site::BranchPoint(idx));
+        let message = match model {
+            Some(sp) if !sp.is_singular() => continue,
+            Some(_) => format!(
+                "branch point {} at {:.6}{:+.6}i is a singular point of the curve ({} sheets meet, discriminant order {}): a cycle vanishes there, so its walls are not determined by the point alone",
+                idx + 1,
+                bp.z.re,
+                bp.z.im,
+                bp.n_sheets_meeting,
+                bp.order
+            ),
+            None => format!(
+                "branch point {} at {:.6}{:+.6}i is not simple ({} sheets meet, order {}) and its local model could not be computed: no walls drawn from it",
+                idx + 1,
+                bp.z.re,
+                bp.z.im,
+                bp.n_sheets_meeting,
+                bp.order
+            ),
+        };
+        warnings.push(Warning { message });
     }
     let ctx = GrowContext {
         curve,
@@ -119,7 +131,10 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
     };
     let mut walls = Vec::new();
     let mut limit = GrowthLimit::None;
-    for seed in primary_seeds(curve, theta) {
+    let (special, notes) = special_seeds(curve, theta);
+    warnings.extend(notes.into_iter().map(|message| Warning { message }));
+    let seeds = primary_seeds(curve, theta).into_iter().chain(special);
+    for seed in seeds {
         if walls.len() >= settings.max_walls {
             limit = GrowthLimit::MaxWalls;
             break;

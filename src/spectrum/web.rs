@@ -133,6 +133,8 @@ fn tree_endpoints(net: &Network, pass: &Pass) -> Option<Vec<usize>> {
         budget = budget.checked_sub(1)?;
         match net.walls.get(w)?.origin {
             Origin::BranchPoint { index, .. } => ends.push(index),
+            // Webs through a puncture's walls are not finite webs.
+            Origin::Puncture { .. } => return None,
             Origin::Joint { index } => stack.extend(net.joints.get(index)?.parents),
         }
     }
@@ -467,7 +469,7 @@ impl<'a> WebFinder<'a> {
         for (w_idx, wall) in net.walls.iter().enumerate() {
             let own = match wall.origin {
                 Origin::BranchPoint { index, .. } => Some(index),
-                Origin::Joint { .. } => None,
+                Origin::Puncture { .. } | Origin::Joint { .. } => None,
             };
             for (to, bp) in self.curve.branch_points.iter().enumerate() {
                 if !bp.simple || own == Some(to) {
@@ -722,6 +724,7 @@ impl<'a> WebFinder<'a> {
             i += 1;
             match net.walls[w].origin {
                 Origin::BranchPoint { index, .. } => endpoints.push(index),
+                Origin::Puncture { .. } => return None,
                 Origin::Joint { index } => {
                     let joint = net.joints.get(index)?;
                     for &parent in &joint.parents {
@@ -771,6 +774,7 @@ impl<'a> WebFinder<'a> {
         let pts: Vec<Complex64> = wall.points.iter().map(|p| p.z).collect();
         let primary = match wall.origin {
             Origin::BranchPoint { index, .. } => Some(self.curve.branch_points.get(index)?.z),
+            Origin::Puncture { .. } => return None,
             Origin::Joint { .. } => None,
         };
         let first = usize::from(primary.is_some());

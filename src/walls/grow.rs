@@ -157,7 +157,24 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     if predict {
         curve.root_slopes(z, &roots, &mut slopes[..k]);
     }
-    let (punct_r2, hit_r2) = (punct_r * punct_r, hit_r * hit_r);
+    // Each point's stop disc stays well inside the room around it, so
+    // that walls leaving a near neighbour do not stop at once, and a wall
+    // that starts at a puncture (a simple pole) is free of that puncture's
+    // disc until it has left it.
+    let punct_r2: Vec<f64> = curve
+        .punctures
+        .iter()
+        .map(|p| p.z.map_or(0.0, |z| punct_r.min(0.25 * curve.room_around(z)).powi(2)))
+        .collect();
+    let hit_r2: Vec<f64> = curve
+        .branch_points
+        .iter()
+        .map(|b| hit_r.min(1e-4 * curve.room_around(b.z)).powi(2))
+        .collect();
+    let mut inside_own = match seed.origin {
+        Origin::Puncture { index, .. } => Some(index),
+        _ => None,
+    };
     let cos_turn = settings.max_turn_rad.cos();
     loop {
         if t >= reach * (1.0 - 1e-14) {
@@ -310,13 +327,18 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         // Stop conditions.
         for (idx, p) in curve.punctures.iter().enumerate() {
             if let Some(pz) = p.z {
-                if (z - pz).norm_sqr() < punct_r2 {
+                let inside = (z - pz).norm_sqr() < punct_r2[idx];
+                if inside_own == Some(idx) {
+                    if !inside {
+                        inside_own = None;
+                    }
+                } else if inside {
                     return EndReason::Puncture(idx);
                 }
             }
         }
         for (idx, b) in curve.branch_points.iter().enumerate() {
-            if (z - b.z).norm_sqr() < hit_r2 {
+            if (z - b.z).norm_sqr() < hit_r2[idx] {
                 return EndReason::BranchPoint(idx);
             }
         }

@@ -9,7 +9,7 @@ mod start;
 pub use grow::{crossed_cuts, grow_wall, hermite, invert, GrowContext, WallSeed};
 pub(crate) use settings::show_f64;
 pub use settings::{Bounds, Settings};
-pub use start::{period_from_branch_point, primary_seeds};
+pub use start::{period_from_branch_point, period_from_point, primary_seeds, special_seeds};
 
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
@@ -61,6 +61,9 @@ pub struct WallPoint {
 pub enum Origin {
     /// The `n`-th (0, 1, 2) of the three walls from branch point `index`.
     BranchPoint { index: usize, n: u8 },
+    /// The `n`-th wall of puncture `index` (a simple pole of q, or any pole
+    /// where some pair of sheets has an exponent in (-1, 0)).
+    Puncture { index: usize, n: u8 },
     /// Born at joint `index` of the network.
     Joint { index: usize },
 }

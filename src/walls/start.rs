@@ -15,7 +15,8 @@
 
 use super::crossed_cuts;
 use super::{Origin, WallPoint, WallSeed, WallType};
-use crate::curve::{csqrt, BranchPoint, Curve, CUT_DIRECTION};
+use crate::curve::{csqrt, BranchPoint, Curve, Site, SpecialPoint, CUT_DIRECTION};
+use crate::network::jump::{closing_signs, ClosingSigns};
 use crate::quad::gauss_legendre_rule;
 use num_complex::Complex64;
 use std::f64::consts::{PI, TAU};
@@ -48,6 +49,207 @@ pub fn primary_seeds(curve: &Curve, theta: f64) -> Vec<WallSeed> {
         }
     }
     seeds
+}
+
+/// Seeds of the walls of every smooth special point (non-simple branch
+/// points with a smooth cover, simple poles of q, ...), one per ray of its
+/// local model. Singular points give none: the network draws them from a
+/// resolution.
+///
+/// Multiplicities: at a branch point the signs are the unique ones for which
+/// the loop product of the point's walls and its cut is the identity
+/// ([`closing_signs`]); the returned messages say where that fails. At a
+/// puncture the connection has its own monodromy, so nothing closes: the
+/// sign follows the primary rule (+1 for i < j).
+pub fn special_seeds(curve: &Curve, theta: f64) -> (Vec<WallSeed>, Vec<String>) {
+    let mut seeds = Vec::new();
+    let mut notes = Vec::new();
+    for sp in &curve.special {
+        if sp.is_singular() {
+            continue;
+        }
+        let r0 = START_FRACTION * sp.model.room;
+        let anchor = sp.z - CUT_DIRECTION * r0;
+        let anchor_roots = curve.sheets_at(anchor).ok();
+        let cycles = cycle_lengths(&sp.model.monodromy);
+        let first = seeds.len();
+        let rays = sp.model.ray_angles(theta);
+        for (n, &(pair, phi)) in rays.iter().enumerate() {
+            let q = lcm(cycles[pair[0] as usize], cycles[pair[1] as usize]);
+            let ray = Ray {
+                n: n.min(255) as u8,
+                pair,
+                phi,
+                r0,
+                q,
+            };
+            if let Some(seed) = seed_from_model(curve, sp, &ray, theta, anchor_roots.as_deref()) {
+                seeds.push(seed);
+            }
+        }
+        let Site::BranchPoint(index) = sp.site else {
+            continue;
+        };
+        let here = &mut seeds[first..];
+        let place = || format!("branch point {} at {:.6}{:+.6}i", index + 1, sp.z.re, sp.z.im);
+        if here.len() != rays.len() {
+            notes.push(format!(
+                "{}: {} of the {} walls of its local model could not be started; their multiplicities are not checked",
+                place(),
+                rays.len() - here.len(),
+                rays.len()
+            ));
+            continue;
+        }
+        let kinds: Vec<WallType> = here.iter().map(|s| s.kind).collect();
+        match closing_signs(curve.rank, &kinds, &sp.model.monodromy) {
+            ClosingSigns::Unique(mu) => {
+                for (seed, m) in here.iter_mut().zip(mu) {
+                    seed.multiplicity = m;
+                }
+            }
+            ClosingSigns::Ambiguous(mu, count) => {
+                for (seed, m) in here.iter_mut().zip(mu) {
+                    seed.multiplicity = m;
+                }
+                notes.push(format!(
+                    "{}: {count} sign choices close the loop around it; one was taken",
+                    place()
+                ));
+            }
+            ClosingSigns::None => notes.push(format!(
+                "{}: no choice of multiplicities +-1 makes the jump matrices of its {} walls and its cut close up; the local model is not flat",
+                place(),
+                here.len()
+            )),
+            ClosingSigns::TooMany => notes.push(format!(
+                "{}: {} walls are too many to solve for their signs",
+                place(),
+                here.len()
+            )),
+        }
+    }
+    (seeds, notes)
+}
+
+/// One ray of a local model: the `n`-th wall of the point, of type `pair`
+/// (labels continued from the anchor), leaving along `arg(z - b) = phi`,
+/// started at distance `r0`, with the period's series in powers of
+/// `(z - b)^(1/q)`.
+struct Ray {
+    n: u8,
+    pair: [u8; 2],
+    phi: f64,
+    r0: f64,
+    q: u32,
+}
+
+fn cycle_lengths(perm: &[usize]) -> Vec<u32> {
+    (0..perm.len())
+        .map(|a| {
+            let (mut x, mut n) = (perm[a], 1u32);
+            while x != a && (n as usize) <= perm.len() {
+                x = perm[x];
+                n += 1;
+            }
+            n
+        })
+        .collect()
+}
+
+fn lcm(a: u32, b: u32) -> u32 {
+    let (mut x, mut y) = (a, b);
+    while y != 0 {
+        (x, y) = (y, x % y);
+    }
+    a / x.max(1) * b
+}
+
+fn seed_from_model(
+    curve: &Curve,
+    sp: &SpecialPoint,
+    ray: &Ray,
+    theta: f64,
+    anchor_roots: Option<&[Complex64]>,
+) -> Option<WallSeed> {
+    let b = sp.z;
+    let r0 = ray.r0;
+    let dir = Complex64::from_polar(1.0, ray.phi);
+    let mut z0 = b + dir * r0;
+    let mut roots = sheets_near(curve, b, r0, ray.phi, anchor_roots)?;
+    let rot = Complex64::from_polar(1.0, theta);
+    let (i, j) = (ray.pair[0] as usize, ray.pair[1] as usize);
+    if ((rot / (roots[i] - roots[j])) / dir).re <= 0.0 {
+        return None;
+    }
+    // Newton on the distance of W from the ray, as for simple branch
+    // points; the local model's direction is only of leading order here.
+    let mut w = period_from_point(curve, b, z0, &roots, i, j, ray.q)?;
+    for _ in 0..8 {
+        let off = (w / rot).im;
+        let delta = -Complex64::new(0.0, 1.0) * rot * off / (roots[i] - roots[j]);
+        if !delta.is_finite() || delta.norm() > 0.5 * r0 || delta.norm() < 1e-14 * r0 {
+            break;
+        }
+        let moved = z0 + delta;
+        roots = curve.step_roots(&roots, moved)?;
+        z0 = moved;
+        w = period_from_point(curve, b, z0, &roots, i, j, ray.q)?;
+    }
+    let mass = (w / rot).re;
+    if mass.is_nan() || mass <= 0.0 || !mass.is_finite() {
+        return None;
+    }
+    let origin = match sp.site {
+        Site::BranchPoint(index) => Origin::BranchPoint { index, n: ray.n },
+        Site::Puncture(index) => Origin::Puncture { index, n: ray.n },
+    };
+    Some(WallSeed {
+        z: z0,
+        roots,
+        kind: WallType::new(i, j),
+        mass,
+        origin,
+        generation: 0,
+        multiplicity: if i < j { 1 } else { -1 },
+        prefix: vec![WallPoint { z: b, mass: 0.0 }],
+    })
+}
+
+/// Gauss-Legendre nodes for [`period_from_point`]: in s the integrand is
+/// analytic for `|s| < (room / r0)^(1/q)`, at least about 2.4 for q <= 8 at
+/// the start distance, so 16 nodes leave an error of order 5^(-32).
+const GENERAL_PERIOD_NODES: usize = 16;
+
+/// `int_b^z0 (y_i - y_j) dz` along the straight segment from a special
+/// point whose sheets are series in `(z - b)^(1/q)`: in `z = b + s^q (z0 - b)`
+/// the integrand is analytic in s. The sheets at the nodes are continued
+/// from `roots` (the labelled sheets at z0) down the segment, node by node.
+pub fn period_from_point(
+    curve: &Curve,
+    b: Complex64,
+    z0: Complex64,
+    roots: &[Complex64],
+    i: usize,
+    j: usize,
+    q: u32,
+) -> Option<Complex64> {
+    let delta = z0 - b;
+    let qf = f64::from(q.max(1));
+    let mut nodes: Vec<(f64, f64)> = gauss_legendre_rule(GENERAL_PERIOD_NODES).to_vec();
+    nodes.sort_by(|a, b| b.0.total_cmp(&a.0));
+    let mut cur = roots.to_vec();
+    let mut from = z0;
+    let mut total = Complex64::new(0.0, 0.0);
+    let mut budget = 20_000;
+    for (s, w) in nodes {
+        let z = b + delta * s.powf(qf);
+        cur = curve.continue_roots(&cur, from, z, &mut budget).ok()?;
+        from = z;
+        let d = cur[i] - cur[j];
+        total += d * (qf * s.powf(qf - 1.0)) * delta * w;
+    }
+    total.is_finite().then_some(total)
 }
 
 /// Largest angle (radians) of one chord of the arc in [`sheets_near`].
@@ -110,12 +312,7 @@ fn arc_sheets(
 }
 
 fn room_around(curve: &Curve, b: Complex64) -> f64 {
-    curve
-        .singular_points
-        .iter()
-        .map(|s| (s - b).norm())
-        .filter(|d| *d > 1e-12 * (1.0 + b.norm()))
-        .fold(curve.length_scale(), f64::min)
+    curve.room_around(b)
 }
 
 fn seed_for(
