@@ -99,7 +99,7 @@ fn kind_name(k: Kind) -> &'static str {
     }
 }
 
-fn state_json(s: &BpsState, reach: f64) -> StateJson {
+pub(super) fn state_json(s: &BpsState, reach: f64) -> StateJson {
     StateJson {
         z: [s.z.re, s.z.im],
         abs: s.abs,

@@ -11,3 +11,5 @@ mod draw_state;
 mod jump;
 mod spectrum;
 mod sweep;
+mod charges_crossing;
+mod scan;

@@ -33,3 +33,6 @@ mod spectrum_su2;
 mod special_points;
 mod spectrum_symmetry;
 mod symmetry_laws;
+mod charges_lattice;
+mod charges_resolution;
+mod scan_map;

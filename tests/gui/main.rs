@@ -18,3 +18,4 @@ mod files;
 mod recovery_kill;
 mod responsiveness;
 mod window_smoke;
+mod param_map;
