@@ -13,6 +13,7 @@ pub mod export;
 pub mod network;
 pub mod quad;
 pub mod samples;
+pub mod scan;
 pub mod walls;
 
 pub use cancel::CancelToken;

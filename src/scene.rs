@@ -11,6 +11,7 @@ mod build;
 pub mod charges;
 pub mod geometry;
 pub mod palette;
+pub mod param_map;
 
 pub use build::{build, clip_margin, SceneOptions};
 
@@ -120,6 +121,16 @@ pub struct Transform {
 }
 
 impl Transform {
+    /// The smallest transform centred at `center` that shows a rectangle
+    /// of half width `half_extents[0]` and half height `half_extents[1]`
+    /// in a `width x height` picture.
+    pub fn fitting(center: [f64; 2], half_extents: [f64; 2], width: f32, height: f32) -> Self {
+        let short = f64::from(width.min(height).max(1.0));
+        let half = (half_extents[0] * short / f64::from(width.max(1.0)))
+            .max(half_extents[1] * short / f64::from(height.max(1.0)));
+        Self::new(center, half, width, height)
+    }
+
     /// The transform that shows `view` in a `width x height` picture.
     pub fn of_view(view: &View, width: f32, height: f32) -> Self {
         Self::new(view.center, view.half_width, width, height)

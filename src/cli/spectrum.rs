@@ -91,7 +91,7 @@ pub struct StateJson {
     charge: Option<Vec<i64>>,
 }
 
-fn state_json(s: &BpsState, reach: f64) -> StateJson {
+pub(super) fn state_json(s: &BpsState, reach: f64) -> StateJson {
     StateJson {
         z: [s.z.re, s.z.im],
         abs: s.abs,

@@ -6,10 +6,12 @@
 mod support;
 
 mod bad_input;
+mod charges_crossing;
 mod commands;
 mod conventions;
 mod draw_state;
 mod jump;
 mod readme;
+mod scan;
 mod spectrum;
 mod sweep;

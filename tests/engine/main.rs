@@ -13,6 +13,8 @@ mod support;
 mod bodies;
 
 mod airy_walls;
+mod charges_lattice;
+mod charges_resolution;
 mod export_charges;
 mod export_files;
 mod export_scene;
@@ -24,6 +26,7 @@ mod robust_files;
 mod robust_fuzz_bodies;
 mod robust_sweep;
 mod samples;
+mod scan_map;
 mod scenario_files;
 mod special_points;
 mod spectrum_api;
