@@ -10,6 +10,7 @@ pub mod cancel;
 pub mod charges;
 pub mod curve;
 pub mod export;
+pub mod geometry;
 pub mod network;
 pub mod quad;
 pub mod samples;

@@ -123,24 +123,9 @@ pub enum Crossing {
     },
 }
 
-/// Intersection of segments `a0 -> a1` and `b0 -> b1`: fractions along each.
-pub fn segment_intersection(
-    a0: Complex64,
-    a1: Complex64,
-    b0: Complex64,
-    b1: Complex64,
-) -> Option<(f64, f64)> {
-    let da = a1 - a0;
-    let db = b1 - b0;
-    let denom = da.re * db.im - da.im * db.re;
-    if denom == 0.0 || !denom.is_finite() {
-        return None;
-    }
-    let w = b0 - a0;
-    let s = (w.re * db.im - w.im * db.re) / denom;
-    let t = (w.re * da.im - w.im * da.re) / denom;
-    ((0.0..1.0).contains(&s) && (0.0..1.0).contains(&t)).then_some((s, t))
-}
+// Where segments cross is plane geometry (explicit tolerance, the
+// collinear case): `crate::geometry`.
+pub use crate::geometry::segment_crossing as segment_intersection;
 
 /// All crossings of the polyline `path` with the walls and cuts, in order
 /// along the path. Walls are tested segment by segment against each path
