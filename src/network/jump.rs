@@ -492,9 +492,7 @@ pub fn closing_signs(k: usize, kinds: &[WallType], perm: &[usize]) -> ClosingSig
             m[r * k + j] += s * m[r * k + i];
         }
     };
-    let identity: Vec<i64> = (0..k * k)
-        .map(|x| i64::from(x / k == x % k))
-        .collect();
+    let identity: Vec<i64> = (0..k * k).map(|x| i64::from(x / k == x % k)).collect();
     // Left halves: L(s) = prod_{a < half} (1 + s_a e_a).
     let mut left = std::collections::HashMap::<Vec<i64>, Vec<u32>>::new();
     for bits in 0..(1u32 << half) {

@@ -100,7 +100,10 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
         if bp.simple {
             continue;
         }
-        let model = curve.special.iter().find(|s| s.site == Site::BranchPoint(idx));
+        let model = curve
+            .special
+            .iter()
+            .find(|s| s.site == Site::BranchPoint(idx));
         let message = match model {
             Some(sp) if !sp.is_singular() => continue,
             Some(_) => format!(

@@ -164,7 +164,7 @@ mod tests {
     #[test]
     fn shards_partition_the_grid() {
         for n in [1, 2, 3, 7] {
-            let mut seen = vec![0; 50];
+            let mut seen = [0; 50];
             for k in 1..=n {
                 for i in (Shard { k, n }).indices(50) {
                     assert!((Shard { k, n }).owns(i));
@@ -189,8 +189,18 @@ mod tests {
         };
         assert!(ok.validate().is_ok());
         assert!(Grid { n_re: 0, ..ok }.validate().is_err());
-        assert!(Grid { re: [1.0, 0.0], ..ok }.validate().is_err());
-        assert!(Grid { re: [f64::NAN, 0.0], ..ok }.validate().is_err());
+        assert!(Grid {
+            re: [1.0, 0.0],
+            ..ok
+        }
+        .validate()
+        .is_err());
+        assert!(Grid {
+            re: [f64::NAN, 0.0],
+            ..ok
+        }
+        .validate()
+        .is_err());
         assert!(Grid {
             n_re: 10_000,
             n_im: 10_000,

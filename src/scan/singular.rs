@@ -108,7 +108,8 @@ fn refine(poly_at: &BranchPolyAt<'_>, p0: Complex64, z0: Complex64) -> Option<Si
             break;
         }
     }
-    if !(last_step <= 1e-11 * (1.0 + p.norm())) {
+    // (A NaN step fails this test too.)
+    if last_step.is_nan() || last_step > 1e-11 * (1.0 + p.norm()) {
         return None;
     }
     // At the limit the pair must really meet (not a drop in degree).
@@ -141,8 +142,16 @@ pub fn singular_points(
     );
     // Sample a rectangle 10% larger so that points on the border are seeded.
     let at = |i: usize, j: usize| {
-        let fx = if nx > 1 { i as f64 / (nx - 1) as f64 } else { 0.5 };
-        let fy = if ny > 1 { j as f64 / (ny - 1) as f64 } else { 0.5 };
+        let fx = if nx > 1 {
+            i as f64 / (nx - 1) as f64
+        } else {
+            0.5
+        };
+        let fy = if ny > 1 {
+            j as f64 / (ny - 1) as f64
+        } else {
+            0.5
+        };
         Complex64::new(
             grid.re[0] - 0.05 * w + 1.1 * w * fx,
             grid.im[0] - 0.05 * h + 1.1 * h * fy,

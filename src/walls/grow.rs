@@ -164,7 +164,9 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
     let punct_r2: Vec<f64> = curve
         .punctures
         .iter()
-        .map(|p| p.z.map_or(0.0, |z| punct_r.min(0.25 * curve.room_around(z)).powi(2)))
+        .map(|p| {
+            p.z.map_or(0.0, |z| punct_r.min(0.25 * curve.room_around(z)).powi(2))
+        })
         .collect();
     let hit_r2: Vec<f64> = curve
         .branch_points

@@ -91,7 +91,14 @@ pub fn special_seeds(curve: &Curve, theta: f64) -> (Vec<WallSeed>, Vec<String>) 
             continue;
         };
         let here = &mut seeds[first..];
-        let place = || format!("branch point {} at {:.6}{:+.6}i", index + 1, sp.z.re, sp.z.im);
+        let place = || {
+            format!(
+                "branch point {} at {:.6}{:+.6}i",
+                index + 1,
+                sp.z.re,
+                sp.z.im
+            )
+        };
         if here.len() != rays.len() {
             notes.push(format!(
                 "{}: {} of the {} walls of its local model could not be started; their multiplicities are not checked",
