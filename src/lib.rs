@@ -5,10 +5,12 @@
 
 pub mod algebra;
 pub mod cancel;
+pub mod charges;
 pub mod curve;
 pub mod export;
 pub mod network;
 pub mod quad;
+pub mod samples;
 pub mod scan;
 pub mod walls;
 

@@ -80,6 +80,28 @@ fn details(i: usize, st: &BpsState) -> String {
     )
 }
 
+/// The state's charge and, when another state is selected, their pairing
+/// `<gamma_i, gamma_selected>` (empty when the charges are unknown).
+fn charge_lines(spectrum: &Spectrum, i: usize, selected: Option<usize>) -> String {
+    let Some(c) = spectrum.states.get(i).and_then(|s| s.charge.as_ref()) else {
+        return String::new();
+    };
+    let mut out = format!("\ncharge {c:?}");
+    let other = selected
+        .filter(|&j| j != i)
+        .and_then(|j| Some((j, spectrum.states.get(j)?.charge.as_ref()?)));
+    if let (Some(lat), Some((j, d))) = (&spectrum.lattice, other) {
+        let mut p: i64 = 0;
+        for (a, row) in lat.pairing.iter().enumerate() {
+            for (b, &v) in row.iter().enumerate() {
+                p = p.saturating_add(c[a].saturating_mul(v).saturating_mul(d[b]));
+            }
+        }
+        out.push_str(&format!(", pairing with state {}: {p}", j + 1));
+    }
+    out
+}
+
 impl WallflowerApp {
     /// The central-charge plane of the newest spectrum, with its
     /// out-of-date mark while the curve has moved on.
@@ -140,7 +162,11 @@ impl WallflowerApp {
                         .find(|(_, s)| (s.z - at).norm() <= tol || (s.z + at).norm() <= tol)?;
                     let anti = (st.z + at).norm() <= tol && at.norm() > tol;
                     let head = if anti { "antiparticle of " } else { "" };
-                    Some(format!("{head}{}", details(i, st)))
+                    Some(format!(
+                        "{head}{}{}",
+                        details(i, st),
+                        charge_lines(spectrum, i, selected)
+                    ))
                 }
                 HoverPosition::Elsewhere { position } => {
                     Some(format!("Z = {:.3}{:+.3}i", position.x, position.y))
@@ -254,5 +280,35 @@ impl WallflowerApp {
                     .push(Command::Select(Some(Selection::State(i))));
             }
         }
+    }
+}
+
+#[cfg(test)]
+mod charge_tests {
+    use super::charge_lines;
+    use crate::spectrum::{find, SpectrumSettings};
+    use crate::{CancelToken, Curve};
+
+    /// Pure SU(2) at u = 0: the two states pair to +-2 (the Kronecker
+    /// quiver with two arrows; Seiberg-Witten 1994, from memory).
+    #[test]
+    fn hover_text_shows_the_charge_and_the_pairing_with_the_selection() {
+        let eq = crate::algebra::parse_equation("y^2 = (1 + z^2)/z^3").unwrap();
+        let curve = Curve::from_poly_in_y(&eq.evaluate(&Default::default()).unwrap()).unwrap();
+        let s = find(
+            &curve,
+            &SpectrumSettings::default(),
+            &CancelToken::new(),
+            &mut |_| {},
+        );
+        assert_eq!(s.states.len(), 2);
+        let text = charge_lines(&s, 0, Some(1));
+        assert!(text.contains("charge ["), "{text}");
+        assert!(
+            text.contains("pairing with state 2: 2") || text.contains("pairing with state 2: -2"),
+            "{text}"
+        );
+        // No selection (or itself selected): the charge only.
+        assert!(!charge_lines(&s, 0, Some(0)).contains("pairing"));
     }
 }

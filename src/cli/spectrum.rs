@@ -12,6 +12,7 @@ use num_complex::Complex64;
 use serde::Serialize;
 use std::path::PathBuf;
 use std::process::ExitCode;
+use wallflower::charges::LatticeSummary;
 use wallflower::export;
 use wallflower::scenario::Theme;
 use wallflower::scene::charges::{build_charges, ChargeOptions};
@@ -45,6 +46,13 @@ pub struct SpectrumArgs {
     /// the --plot picture.
     #[arg(long)]
     pub plot_phase: bool,
+    /// Also print the pairing <gamma_i, gamma_j> of the states' charges.
+    #[arg(long)]
+    pub pairing: bool,
+    /// Exit with status 1 when the self-check fails (charges missing, not
+    /// spanning the gauge lattice, or Z not the sum of basis periods).
+    #[arg(long)]
+    pub strict: bool,
 }
 
 #[derive(Debug, Args)]
@@ -79,6 +87,8 @@ pub struct StateJson {
     z_error: f64,
     /// Branch points (1-based) the state's saddle joins, if any.
     endpoints: Vec<usize>,
+    /// Coordinates in the lattice basis (`null` when not lifted).
+    charge: Option<Vec<i64>>,
 }
 
 fn kind_name(k: Kind) -> &'static str {
@@ -99,14 +109,96 @@ pub(super) fn state_json(s: &BpsState, reach: f64) -> StateJson {
         reach,
         z_error: s.z_error,
         endpoints: s.endpoints.iter().map(|e| e + 1).collect(),
+        charge: s.charge.clone(),
     }
+}
+
+#[derive(Serialize)]
+struct BasisJson {
+    z: [f64; 2],
+}
+
+#[derive(Serialize)]
+struct LatticeJson {
+    basis: Vec<BasisJson>,
+    pairing: Vec<Vec<i64>>,
+    flavour_rank: usize,
+    gauge_rank: usize,
+    /// The charges found generate the gauge lattice (spectrum only).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    spans_gauge: Option<bool>,
+    /// Largest |Z(state) - sum of basis periods| (spectrum only).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    worst_z_error: Option<f64>,
+}
+
+fn lattice_json(l: &LatticeSummary) -> LatticeJson {
+    LatticeJson {
+        basis: l
+            .basis
+            .iter()
+            .map(|z| BasisJson { z: [z.re, z.im] })
+            .collect(),
+        pairing: l.pairing.clone(),
+        flavour_rank: l.flavour_rank,
+        gauge_rank: l.gauge_rank,
+        spans_gauge: Some(l.spans_gauge()),
+        worst_z_error: Some(l.worst_z_error),
+    }
+}
+
+/// `<gamma_i, gamma_j>` for every pair of states (`None` where a charge is
+/// missing).
+fn state_pairings(found: &spectrum::Spectrum) -> Vec<Vec<Option<i64>>> {
+    let pairing = found.lattice.as_ref().map(|l| &l.pairing);
+    found
+        .states
+        .iter()
+        .map(|a| {
+            found
+                .states
+                .iter()
+                .map(|b| match (pairing, &a.charge, &b.charge) {
+                    (Some(p), Some(x), Some(y)) => pair(p, x, y),
+                    _ => None,
+                })
+                .collect()
+        })
+        .collect()
+}
+
+fn pair(p: &[Vec<i64>], x: &[i64], y: &[i64]) -> Option<i64> {
+    let mut total: i64 = 0;
+    for (a, row) in p.iter().enumerate() {
+        for (b, &v) in row.iter().enumerate() {
+            total = total.checked_add(x.get(a)?.checked_mul(v)?.checked_mul(*y.get(b)?)?)?;
+        }
+    }
+    Some(total)
+}
+
+/// Whether the spectrum passed its self-check.
+fn self_check_passed(found: &spectrum::Spectrum) -> bool {
+    found.lattice.as_ref().is_some_and(|l| {
+        l.spans_gauge()
+            && l.uncharged == 0
+            && found.states.iter().all(|s| s.charge.is_some())
+            && l.worst_z_error
+                <= wallflower::charges::Z_CHECK
+                    * (1.0 + found.states.iter().map(|s| s.abs).fold(0.0, f64::max))
+    })
 }
 
 #[derive(Serialize)]
 struct SpectrumJson {
     reach: f64,
     states: Vec<StateJson>,
+    /// States that are massless at a singular point of the curve (Z = 0).
+    massless: Vec<StateJson>,
     warnings: Vec<String>,
+    lattice: Option<LatticeJson>,
+    /// `pairings[i][j] = <charge_i, charge_j>`.
+    pairings: Vec<Vec<Option<i64>>>,
 }
 
 fn settings_for(loaded: &Loaded) -> anyhow::Result<SpectrumSettings> {
@@ -176,7 +268,14 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 .iter()
                 .map(|s| state_json(s, found.reach))
                 .collect(),
+            massless: found
+                .massless
+                .iter()
+                .map(|s| state_json(s, found.reach))
+                .collect(),
             warnings: found.warnings.clone(),
+            lattice: found.lattice.as_ref().map(lattice_json),
+            pairings: state_pairings(&found),
         };
         emit(&serde_json::to_string(&doc)?)?;
         emit("\n")?;
@@ -204,20 +303,56 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
             found.reach
         );
         out.push_str(&format!(
-            "{:>3}  {:>6}  {:>5}  {:>34}  {:>14}  {:>13}  {:>8}\n",
-            "#", "kind", "omega", "Z", "|Z|", "phase", "error"
+            "{:>3}  {:>6}  {:>5}  {:>34}  {:>14}  {:>13}  {:>8}  {}\n",
+            "#", "kind", "omega", "Z", "|Z|", "phase", "error", "charge"
         ));
         for (k, s) in found.states.iter().enumerate() {
             out.push_str(&format!(
-                "{:>3}  {:>6}  {:>5}  {:>34}  {:>14.10}  {:>13.10}  {:>8.1e}\n",
+                "{:>3}  {:>6}  {:>5}  {:>34}  {:>14.10}  {:>13.10}  {:>8.1e}  {}\n",
                 k + 1,
                 kind_name(s.kind),
                 s.omega.map_or_else(|| "?".to_string(), |o| o.to_string()),
                 fmt_z(s.z),
                 s.abs,
                 s.phase,
-                s.z_error
+                s.z_error,
+                s.charge
+                    .as_ref()
+                    .map_or_else(|| "?".to_string(), |c| format!("{c:?}"))
             ));
+        }
+        for s in &found.massless {
+            out.push_str(&format!(
+                "  0  {:>6}  {:>5}  {:>34}  massless at the singular point (|Z| = {:.1e} on the resolution)  {}\n",
+                kind_name(s.kind),
+                s.omega.map_or_else(|| "?".to_string(), |o| o.to_string()),
+                "0",
+                s.abs,
+                s.charge
+                    .as_ref()
+                    .map_or_else(|| "?".to_string(), |c| format!("{c:?}"))
+            ));
+        }
+        if let Some(l) = &found.lattice {
+            out.push_str(&format!(
+                "lattice: rank {} (gauge {}, flavour {}), basis periods {}; Z = sum of periods to {:.1e}\n",
+                l.basis.len(),
+                l.gauge_rank,
+                l.flavour_rank,
+                l.basis.iter().map(|z| fmt_z(*z)).collect::<Vec<_>>().join(", "),
+                l.worst_z_error
+            ));
+        }
+        if args.pairing {
+            out.push_str("pairing <i, j>:\n");
+            for row in state_pairings(&found) {
+                let cells: Vec<String> = row
+                    .iter()
+                    .map(|v| v.map_or_else(|| "?".to_string(), |x| x.to_string()))
+                    .map(|c| format!("{c:>4}"))
+                    .collect();
+                out.push_str(&format!("  {}\n", cells.join("")));
+            }
         }
         emit(&out)?;
     }
@@ -236,6 +371,10 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
             Format::Png => export::png::to_png(&picture)?,
         };
         write_atomic(path, &bytes)?;
+    }
+    if args.strict && !self_check_passed(&found) {
+        eprintln!("error: the spectrum failed its self-check (see the warnings)");
+        return Ok(ExitCode::from(1));
     }
     Ok(ExitCode::SUCCESS)
 }
@@ -259,7 +398,28 @@ struct CrossingJson {
     /// Each change: where along the path (0 = from, 1 = to), the parameter
     /// value there, and the states on either side.
     crossings: Vec<ChangeJson>,
+    /// Changes that are not crossings (states through the reach, or
+    /// differences no alignment or singular point explains).
+    other_changes: Vec<ChangeJson>,
+    /// The lattice at the start of the path (charges refer to it).
+    lattice: Option<LatticeJson>,
     warnings: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct KsJson {
+    order: usize,
+    holds: bool,
+}
+
+fn cause_name(c: &spectrum::crossing::Cause) -> &'static str {
+    use spectrum::crossing::Cause;
+    match c {
+        Cause::MarginalStability => "marginal-stability",
+        Cause::SingularPoint { .. } => "singular-point",
+        Cause::Reach => "reach",
+        Cause::Unexplained => "unexplained",
+    }
 }
 
 #[derive(Serialize)]
@@ -269,6 +429,14 @@ struct ChangeJson {
     value: [f64; 2],
     before: Vec<StateJson>,
     after: Vec<StateJson>,
+    cause: &'static str,
+    /// Indices (0-based) into `before` of the two states whose Z align.
+    aligned: Option<[usize; 2]>,
+    /// Where their arg Z agree, to 1e-8 in s.
+    aligned_at: Option<f64>,
+    ks: Option<KsJson>,
+    /// At a singular point: the charge that becomes massless.
+    massless: Option<Vec<i64>>,
 }
 
 pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
@@ -328,25 +496,52 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
         eprintln!("warning: {}", super::one_line(w));
     }
     let reach = settings.reach;
+    let start_lattice = build(0.0)
+        .ok()
+        .and_then(|c| wallflower::charges::Lattice::new(&c).ok())
+        .map(|l| LatticeSummary {
+            basis: l.basis.iter().map(|b| b.z).collect(),
+            pairing: l.pairing.clone(),
+            flavour_rank: l.flavour_rank,
+            gauge_rank: l.gauge_rank(),
+            span_rank: 0,
+            span_index: 0,
+            worst_z_error: 0.0,
+            uncharged: 0,
+        });
+    let change_json = |c: &spectrum::Crossing| {
+        let v = value_at(c.parameter);
+        ChangeJson {
+            s: c.parameter,
+            interval: c.interval,
+            value: [v.re, v.im],
+            before: c.before.iter().map(|s| state_json(s, reach)).collect(),
+            after: c.after.iter().map(|s| state_json(s, reach)).collect(),
+            cause: cause_name(&c.cause),
+            aligned: c.aligned,
+            aligned_at: c.aligned_at,
+            ks: c.ks.as_ref().map(|k| KsJson {
+                order: k.order,
+                holds: k.holds,
+            }),
+            massless: match &c.cause {
+                spectrum::crossing::Cause::SingularPoint { massless } => massless.clone(),
+                _ => None,
+            },
+        }
+    };
     if args.json {
         let doc = CrossingJson {
             parameter: name.clone(),
             from: [v1.re, v1.im],
             to: [v2.re, v2.im],
-            crossings: report
-                .crossings
-                .iter()
-                .map(|c| {
-                    let v = value_at(c.parameter);
-                    ChangeJson {
-                        s: c.parameter,
-                        interval: c.interval,
-                        value: [v.re, v.im],
-                        before: c.before.iter().map(|s| state_json(s, reach)).collect(),
-                        after: c.after.iter().map(|s| state_json(s, reach)).collect(),
-                    }
-                })
-                .collect(),
+            crossings: report.crossings.iter().map(&change_json).collect(),
+            other_changes: report.other_changes.iter().map(&change_json).collect(),
+            lattice: start_lattice.as_ref().map(|l| LatticeJson {
+                spans_gauge: None,
+                worst_z_error: None,
+                ..lattice_json(l)
+            }),
             warnings: report.warnings.clone(),
         };
         emit(&serde_json::to_string(&doc)?)?;
@@ -361,8 +556,22 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
         );
         for c in &report.crossings {
             let v = value_at(c.parameter);
+            let why = match (&c.cause, &c.ks) {
+                (spectrum::crossing::Cause::MarginalStability, Some(ks)) => format!(
+                    "wall of marginal stability, KS check to order {}: {}",
+                    ks.order,
+                    if ks.holds { "holds" } else { "FAILS" }
+                ),
+                (spectrum::crossing::Cause::SingularPoint { massless }, _) => format!(
+                    "singular point, massless charge {}",
+                    massless
+                        .as_ref()
+                        .map_or_else(|| "?".to_string(), |m| format!("{m:?}"))
+                ),
+                (cause, _) => cause_name(cause).to_string(),
+            };
             out.push_str(&format!(
-                "at {name} = {} (s = {:.9}): {} state(s) before, {} after\n",
+                "at {name} = {} (s = {:.9}): {} state(s) before, {} after ({why})\n",
                 fmt_z(v),
                 c.parameter,
                 c.before.len(),
@@ -371,13 +580,28 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
             for (label, states) in [("before", &c.before), ("after", &c.after)] {
                 for s in states.iter() {
                     out.push_str(&format!(
-                        "  {label:>6}  {:>6}  Z = {}  |Z| = {:.10}\n",
+                        "  {label:>6}  {:>6}  Z = {}  |Z| = {:.10}  charge {}\n",
                         kind_name(s.kind),
                         fmt_z(s.z),
-                        s.abs
+                        s.abs,
+                        s.charge
+                            .as_ref()
+                            .map_or_else(|| "?".to_string(), |c| format!("{c:?}"))
                     ));
                 }
             }
+        }
+        if !report.other_changes.is_empty() {
+            out.push_str(&format!(
+                "{} other change(s), not crossings: {}\n",
+                report.other_changes.len(),
+                report
+                    .other_changes
+                    .iter()
+                    .map(|c| format!("{} at s = {:.6}", cause_name(&c.cause), c.parameter))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ));
         }
         emit(&out)?;
     }

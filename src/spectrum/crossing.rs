@@ -1,5 +1,5 @@
 //! Following the spectrum along a straight path in one parameter, and
-//! locating where it jumps (walls of marginal stability, mathematics.md
+//! locating where it jumps (walls of marginal stability, docs/mathematics.md
 //! section 6).
 //!
 //! The path is sampled at `steps + 1` equally spaced values; wherever the
@@ -8,11 +8,51 @@
 //! (the spectrum on each side of the final interval is reported). The
 //! caller builds the curve for each parameter value, so any named
 //! parameter (or a branch point position) can be followed.
+//!
+//! Each located change is then explained from the charges (see
+//! [`crate::charges`]): a wall of marginal stability is where the central
+//! charges of two states with non-zero pairing align, `arg Z_g1 = arg Z_g2`,
+//! located to `1e-8` in the parameter from the lattice periods alone; there
+//! the Kontsevich-Soibelman product over the states in the cone of g1 and
+//! g2 must agree on both sides ([`crate::charges::ks`], truncated at the
+//! largest total degree that the reach covers). A change where a state
+//! becomes massless is a singular point. States entering or leaving through
+//! `|Z| = reach` are not changes, and neither are changes that no alignment
+//! or singular point explains (the finder differs between two nearby
+//! samples): those are reported apart, in `other_changes`.
 
 use super::{find, BpsState, Kind, Spectrum, SpectrumSettings};
 use crate::cancel::CancelToken;
+use crate::charges::ks::{phase_ordered_product, KsFactor, PhasedFactor};
+use crate::charges::Lattice;
 use crate::curve::Curve;
+use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
+
+/// Why the spectrum changes at a crossing.
+#[derive(Clone, Debug, Default, PartialEq, Serialize, Deserialize)]
+pub enum Cause {
+    /// Two states' central charges align there.
+    MarginalStability,
+    /// A state becomes massless: the curve is singular there.
+    SingularPoint {
+        /// The massless charge.
+        massless: Option<Vec<i64>>,
+    },
+    /// Only states with `|Z|` at the reach differ.
+    Reach,
+    /// Not explained by an alignment or a singular point.
+    #[default]
+    Unexplained,
+}
+
+/// The Kontsevich-Soibelman check at a wall.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct KsCheck {
+    /// Total degree of the truncation (in the two aligned charges).
+    pub order: usize,
+    pub holds: bool,
+}
 
 /// One place on the path where the spectrum changes.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -24,6 +64,17 @@ pub struct Crossing {
     /// States at `interval[0]` and at `interval[1]`.
     pub before: Vec<BpsState>,
     pub after: Vec<BpsState>,
+    #[serde(default)]
+    pub cause: Cause,
+    /// Indices into `before` of the two states whose Z align.
+    #[serde(default)]
+    pub aligned: Option<[usize; 2]>,
+    #[serde(default)]
+    pub ks: Option<KsCheck>,
+    /// For a marginal-stability wall: where `arg Z` of the aligned charges
+    /// agree, located to 1e-8 in the parameter.
+    #[serde(default)]
+    pub aligned_at: Option<f64>,
 }
 
 /// The result of [`crossing`].
@@ -32,6 +83,10 @@ pub struct CrossingReport {
     /// Parameter values sampled and the number of states at each.
     pub samples: Vec<(f64, usize)>,
     pub crossings: Vec<Crossing>,
+    /// Changes that are not crossings: states through the reach, or
+    /// unexplained differences between neighbouring samples.
+    #[serde(default)]
+    pub other_changes: Vec<Crossing>,
     /// Parameter values where the curve could not be built, with the reason,
     /// and warnings from the spectra.
     pub warnings: Vec<String>,
@@ -63,6 +118,7 @@ pub fn crossing(
     let mut report = CrossingReport {
         samples: Vec::new(),
         crossings: Vec::new(),
+        other_changes: Vec::new(),
         warnings: Vec::new(),
         cancelled: false,
     };
@@ -72,7 +128,10 @@ pub fn crossing(
     } else {
         1e-6 * (to - from).abs().max(1e-300)
     };
-    let mut spectrum_at = |p: f64, report: &mut CrossingReport| -> Option<Spectrum> {
+    let spectrum_at = |p: f64,
+                       report: &mut CrossingReport,
+                       build: &mut dyn FnMut(f64) -> Result<Curve, String>|
+     -> Option<Spectrum> {
         match build(p) {
             Ok(curve) => Some(find(&curve, settings, cancel, &mut |_| {})),
             Err(e) => {
@@ -88,7 +147,7 @@ pub fn crossing(
             return report;
         }
         let p = from + (to - from) * k as f64 / steps as f64;
-        let Some(spec) = spectrum_at(p, &mut report) else {
+        let Some(spec) = spectrum_at(p, &mut report, build) else {
             prev = None;
             continue;
         };
@@ -99,7 +158,7 @@ pub fn crossing(
                 let (mut sa, mut sb) = (s0.clone(), spec.clone());
                 while (b - a).abs() > tol && !cancel.is_cancelled() {
                     let m = 0.5 * (a + b);
-                    let Some(sm) = spectrum_at(m, &mut report) else {
+                    let Some(sm) = spectrum_at(m, &mut report, build) else {
                         break;
                     };
                     if signature(&sm) == signature(&sa) {
@@ -108,12 +167,25 @@ pub fn crossing(
                         (b, sb) = (m, sm);
                     }
                 }
-                report.crossings.push(Crossing {
+                let mut change = Crossing {
                     parameter: 0.5 * (a + b),
                     interval: [a, b],
                     before: sa.states,
                     after: sb.states,
-                });
+                    cause: Cause::Unexplained,
+                    aligned: None,
+                    ks: None,
+                    aligned_at: None,
+                };
+                explain(&mut change, &sa.lattice, &sb.lattice, settings.reach, build);
+                if matches!(
+                    change.cause,
+                    Cause::MarginalStability | Cause::SingularPoint { .. }
+                ) {
+                    report.crossings.push(change);
+                } else {
+                    report.other_changes.push(change);
+                }
             }
         }
         progress((k + 1) as f64 / (steps + 1) as f64);
@@ -121,4 +193,278 @@ pub fn crossing(
     }
     report.cancelled = cancel.is_cancelled();
     report
+}
+
+/// The Z of a charge from a lattice's basis periods.
+fn z_of(basis: &[Complex64], c: &[i64]) -> Complex64 {
+    c.iter().zip(basis).map(|(&x, z)| z * x as f64).sum()
+}
+
+fn pairing(p: &[Vec<i64>], a: &[i64], b: &[i64]) -> i64 {
+    let mut t = 0_i64;
+    for (i, row) in p.iter().enumerate() {
+        for (j, &v) in row.iter().enumerate() {
+            t = t.saturating_add(a[i].saturating_mul(v).saturating_mul(b[j]));
+        }
+    }
+    t
+}
+
+/// `Im(Z_a conj Z_b)`, normalised: zero where the two align (or anti-align).
+fn misalignment(za: Complex64, zb: Complex64) -> f64 {
+    (za * zb.conj()).im / (za.norm() * zb.norm()).max(1e-300)
+}
+
+/// Classifies a located change and runs the KS check at a wall.
+fn explain(
+    change: &mut Crossing,
+    lat_a: &Option<crate::charges::LatticeSummary>,
+    lat_b: &Option<crate::charges::LatticeSummary>,
+    reach: f64,
+    build: &mut dyn FnMut(f64) -> Result<Curve, String>,
+) {
+    let (Some(la), Some(lb)) = (lat_a, lat_b) else {
+        return;
+    };
+    // A singular point: two branch points (nearly) collide at the located
+    // parameter; the massless charge is the lightest small lattice vector.
+    if let Some(massless) = singular_at(change.parameter, la, build) {
+        change.cause = Cause::SingularPoint { massless };
+        return;
+    }
+    // The two sides must share the basis (no cut reordering in between).
+    let same_basis = la.pairing == lb.pairing
+        && la
+            .basis
+            .iter()
+            .zip(&lb.basis)
+            .all(|(x, y)| (x - y).norm() <= 1e-3 * (1.0 + x.norm()));
+    if !same_basis {
+        return;
+    }
+    let charges =
+        |v: &[BpsState]| -> Vec<Vec<i64>> { v.iter().filter_map(|s| s.charge.clone()).collect() };
+    let key = |c: &[i64]| {
+        let neg: Vec<i64> = c.iter().map(|x| -x).collect();
+        if c > neg.as_slice() {
+            c.to_vec()
+        } else {
+            neg
+        }
+    };
+    let mut before: Vec<Vec<i64>> = charges(&change.before).iter().map(|c| key(c)).collect();
+    let mut after: Vec<Vec<i64>> = charges(&change.after).iter().map(|c| key(c)).collect();
+    before.sort();
+    after.sort();
+    // States that differ.
+    let only_before: Vec<&Vec<i64>> = before.iter().filter(|c| !after.contains(c)).collect();
+    let only_after: Vec<&Vec<i64>> = after.iter().filter(|c| !before.contains(c)).collect();
+    let near_reach = |c: &Vec<i64>, basis: &[Complex64]| z_of(basis, c).norm() > 0.98 * reach;
+    if only_before.iter().all(|c| near_reach(c, &la.basis))
+        && only_after.iter().all(|c| near_reach(c, &lb.basis))
+    {
+        change.cause = Cause::Reach;
+        return;
+    }
+    // A wall: two states of `before` with non-zero pairing whose Z cross
+    // alignment between the two ends.
+    let n = change.before.len();
+    let mut best: Option<(usize, usize, f64)> = None;
+    for i in 0..n {
+        for j in i + 1..n {
+            let (Some(ci), Some(cj)) = (&change.before[i].charge, &change.before[j].charge) else {
+                continue;
+            };
+            if pairing(&la.pairing, ci, cj) == 0 {
+                continue;
+            }
+            let (fa, fb) = (
+                misalignment(z_of(&la.basis, ci), z_of(&la.basis, cj)),
+                misalignment(z_of(&lb.basis, ci), z_of(&lb.basis, cj)),
+            );
+            // Parallel Z (not antiparallel) with the sign changing.
+            let parallel = (z_of(&la.basis, ci) * z_of(&la.basis, cj).conj()).re > 0.0;
+            if fa * fb <= 0.0 && parallel {
+                let size = fa.abs() + fb.abs();
+                if best.is_none_or(|b| size < b.2) {
+                    best = Some((i, j, size));
+                }
+            }
+        }
+    }
+    let Some((i, j, _)) = best else {
+        return;
+    };
+    let g1 = change.before[i].charge.clone().unwrap_or_default();
+    let g2 = change.before[j].charge.clone().unwrap_or_default();
+    change.cause = Cause::MarginalStability;
+    change.aligned = Some([i, j]);
+    change.aligned_at = locate_alignment(change.interval, &g1, &g2, la, build);
+    change.ks = ks_check(change, &g1, &g2, la, lb, reach);
+}
+
+/// Bisection on the misalignment of `g1`, `g2` with lattices built at
+/// intermediate parameters (the basis must match `la`'s) to 1e-8.
+fn locate_alignment(
+    interval: [f64; 2],
+    g1: &[i64],
+    g2: &[i64],
+    la: &crate::charges::LatticeSummary,
+    build: &mut dyn FnMut(f64) -> Result<Curve, String>,
+) -> Option<f64> {
+    let mut f_at = |p: f64| -> Option<f64> {
+        let lat = Lattice::new(&build(p).ok()?).ok()?;
+        if lat.pairing != la.pairing {
+            return None;
+        }
+        let basis: Vec<Complex64> = lat.basis.iter().map(|b| b.z).collect();
+        Some(misalignment(z_of(&basis, g1), z_of(&basis, g2)))
+    };
+    let (mut a, mut b) = (interval[0], interval[1]);
+    let fa = f_at(a)?;
+    for _ in 0..60 {
+        if (b - a).abs() <= 1e-8 {
+            break;
+        }
+        let m = 0.5 * (a + b);
+        let fm = f_at(m)?;
+        if fm * fa > 0.0 {
+            a = m;
+        } else {
+            b = m;
+        }
+    }
+    Some(0.5 * (a + b))
+}
+
+/// The KS product over the states in the cone of `g1`, `g2` on each side.
+fn ks_check(
+    change: &Crossing,
+    g1: &[i64],
+    g2: &[i64],
+    la: &crate::charges::LatticeSummary,
+    lb: &crate::charges::LatticeSummary,
+    reach: f64,
+) -> Option<KsCheck> {
+    let m = pairing(&la.pairing, g1, g2);
+    let heaviest = z_of(&la.basis, g1).norm().max(z_of(&la.basis, g2).norm());
+    // Every charge a g1 + b g2 with a + b <= order is below the reach.
+    let order = ((reach / heaviest).floor() as usize).min(12);
+    if order == 0 {
+        return None;
+    }
+    // Coordinates (a, b) of c = a g1 + b g2 (exact, or None).
+    let coords = |c: &[i64]| -> Option<[i64; 2]> {
+        // Two coordinates where g1, g2 are independent.
+        let d = g1.len();
+        for r in 0..d {
+            for s in r + 1..d {
+                let det = g1[r] * g2[s] - g1[s] * g2[r];
+                if det == 0 {
+                    continue;
+                }
+                let an = c[r] * g2[s] - c[s] * g2[r];
+                let bn = g1[r] * c[s] - g1[s] * c[r];
+                if an % det != 0 || bn % det != 0 {
+                    return None;
+                }
+                let (a, b) = (an / det, bn / det);
+                let ok = (0..d).all(|k| a * g1[k] + b * g2[k] == c[k]);
+                return ok.then_some([a, b]);
+            }
+        }
+        None
+    };
+    let side = |states: &[BpsState], basis: &[Complex64]| -> Vec<PhasedFactor> {
+        let z1 = z_of(basis, g1);
+        states
+            .iter()
+            .filter_map(|s| {
+                let c = s.charge.as_ref()?;
+                let omega = s.omega?;
+                for sign in [1_i64, -1] {
+                    let cc: Vec<i64> = c.iter().map(|x| sign * x).collect();
+                    if let Some([a, b]) = coords(&cc) {
+                        if a >= 0 && b >= 0 && a + b > 0 {
+                            // arg Z relative to Z_g1: continuous near the wall.
+                            let arg_z = (z_of(basis, &cc) / z1).arg();
+                            return Some(PhasedFactor {
+                                factor: KsFactor {
+                                    charge: [a, b],
+                                    omega,
+                                },
+                                arg_z,
+                            });
+                        }
+                    }
+                }
+                None
+            })
+            .collect()
+    };
+    let before = side(&change.before, &la.basis);
+    let after = side(&change.after, &lb.basis);
+    let holds = match (
+        phase_ordered_product(&before, m, order),
+        phase_ordered_product(&after, m, order),
+    ) {
+        (Ok(x), Ok(y)) => x == y,
+        _ => false,
+    };
+    Some(KsCheck { order, holds })
+}
+
+/// Whether the curve at `p` is (nearly) singular: two branch points closer
+/// than 1e-3 of its length scale. Returns the massless charge if one of the
+/// lattice vectors with entries in -2..=2 has |Z| below 1e-3 of the basis
+/// scale.
+fn singular_at(
+    p: f64,
+    la: &crate::charges::LatticeSummary,
+    build: &mut dyn FnMut(f64) -> Result<Curve, String>,
+) -> Option<Option<Vec<i64>>> {
+    let curve = build(p).ok()?;
+    let scale = curve.length_scale();
+    let bps = &curve.branch_points;
+    let mut closest = f64::INFINITY;
+    for a in 0..bps.len() {
+        for b in a + 1..bps.len() {
+            closest = closest.min((bps[a].z - bps[b].z).norm());
+        }
+    }
+    let collided = closest < 1e-3 * scale || bps.iter().any(|b| !b.simple);
+    if !collided {
+        return None;
+    }
+    let basis = &la.basis;
+    let size = basis.iter().map(|z| z.norm()).fold(0.0, f64::max);
+    let n = basis.len();
+    if n == 0 || n > 6 {
+        return Some(None);
+    }
+    let mut best: Option<(Vec<i64>, f64)> = None;
+    let mut c = vec![-2_i64; n];
+    loop {
+        if c.iter().any(|&x| x != 0) {
+            let z = z_of(basis, &c).norm();
+            if best.as_ref().is_none_or(|b| z < b.1) {
+                best = Some((c.clone(), z));
+            }
+        }
+        // Next vector in -2..=2 ^ n.
+        let mut k = 0;
+        while k < n && c[k] == 2 {
+            c[k] = -2;
+            k += 1;
+        }
+        if k == n {
+            break;
+        }
+        c[k] += 1;
+    }
+    Some(best.filter(|b| b.1 < 1e-2 * size).map(|b| {
+        // The sign with the first non-zero entry positive.
+        let neg = b.0.iter().find(|&&x| x != 0).is_some_and(|&x| x < 0);
+        b.0.into_iter().map(|x| if neg { -x } else { x }).collect()
+    }))
 }

@@ -1,7 +1,7 @@
 //! The BPS spectrum: critical phases where the network degenerates, and the
 //! states they stand for, with central charges, kinds and indices.
 //!
-//! Rank 2 (`y^2 = q`), following mathematics.md section 5:
+//! Rank 2 (`y^2 = q`), following docs/mathematics.md section 5:
 //!
 //! * saddle connections (a wall from a simple zero of q that ends on
 //!   another) are hypermultiplets, index 1, found by [`saddle`];
@@ -81,6 +81,10 @@ pub struct BpsState {
     /// `|Z(quadrature) - Z(integrator)|`: the difference between the
     /// independent quadrature and the wall integrator's value.
     pub z_error: f64,
+    /// The state's charge in the basis of `Spectrum::lattice`, from its own
+    /// cycle (`None` when it could not be lifted; a warning says why).
+    #[serde(default)]
+    pub charge: Option<Vec<i64>>,
 }
 
 /// Counters of the work done.
@@ -100,10 +104,19 @@ pub struct Spectrum {
     pub reach: f64,
     /// Sorted by `|Z|`.
     pub states: Vec<BpsState>,
+    /// At a singular point of the curve (found on its resolution): the
+    /// states whose central charge vanishes there, listed with `Z = 0`
+    /// apart from the massive ones; `abs` keeps the tiny |Z| they have on
+    /// the resolution.
+    #[serde(default)]
+    pub massless: Vec<BpsState>,
     pub warnings: Vec<String>,
     /// The computation was cancelled: `states` is partial.
     pub cancelled: bool,
     pub stats: SpectrumStats,
+    /// The charge lattice the states' charges refer to, with its checks.
+    #[serde(default)]
+    pub lattice: Option<crate::charges::LatticeSummary>,
 }
 
 impl Spectrum {
@@ -111,9 +124,11 @@ impl Spectrum {
         Self {
             reach,
             states: Vec::new(),
+            massless: Vec::new(),
             warnings,
             cancelled: false,
             stats: SpectrumStats::default(),
+            lattice: None,
         }
     }
 
@@ -140,9 +155,11 @@ impl Spectrum {
         Self {
             reach: settings.reach,
             states,
+            massless: Vec::new(),
             warnings,
             cancelled,
             stats,
+            lattice: None,
         }
     }
 
@@ -195,14 +212,92 @@ const CANDIDATE_MATCH: f64 = 1e-5;
 const HIT_FRACTION: f64 = 1e-3;
 /// Refinement iterations of one candidate.
 const MAX_REFINE: usize = 6;
+/// Lattice candidates have gauge coordinates in `-LATTICE_BOX..=LATTICE_BOX`.
+const LATTICE_BOX: i64 = 6;
 
-/// Finds the BPS states with `|Z| < settings.reach`. Progress goes to
-/// `progress` as a fraction in [0, 1].
+fn gcd_all(v: &[i64]) -> i64 {
+    fn gcd(a: i64, b: i64) -> i64 {
+        if b == 0 {
+            a.abs()
+        } else {
+            gcd(b, a % b)
+        }
+    }
+    v.iter().fold(0, |g, &x| gcd(g, x))
+}
+
+/// Finds the BPS states with `|Z| < settings.reach`, each with its charge
+/// in the curve's charge lattice (see [`crate::charges::assign`]). Progress
+/// goes to `progress` as a fraction in [0, 1]. On the resolution of a
+/// singular curve ([`Curve::resolutions`] non-empty) the states that become
+/// massless at the singular points are moved to [`Spectrum::massless`].
 pub fn find(
     curve: &Curve,
     settings: &SpectrumSettings,
     cancel: &CancelToken,
     progress: &mut dyn FnMut(f64),
+) -> Spectrum {
+    let lattice = crate::charges::Lattice::new(curve);
+    let mut spectrum = find_states(curve, settings, cancel, progress, lattice.as_ref().ok());
+    if settings.validate().is_ok() {
+        crate::charges::assign_with(&lattice, curve, &mut spectrum);
+    }
+    split_massless(curve, &mut spectrum);
+    spectrum
+}
+
+/// The central charge of a cycle that vanishes at a resolved singular
+/// point is of order `|c| delta^(r + 1)` (the local model's leading term
+/// over the split distance); states below this many times that are the
+/// massless ones. Massive states near a singular point keep |Z| of order 1
+/// while delta -> 0, so the margin separates them for any small delta.
+const MASSLESS_MARGIN: f64 = 1e3;
+
+fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
+    let cut = curve
+        .resolutions
+        .iter()
+        .flat_map(|r| {
+            r.model.orbits.iter().filter(|o| o.n_walls > 0).map(move |o| {
+                let c = r
+                    .model
+                    .coeffs
+                    .iter()
+                    .map(|(_, c)| c.norm())
+                    .fold(0.0, f64::max);
+                c * r.distance.powf(o.exponent.value() + 1.0)
+            })
+        })
+        .fold(0.0, f64::max)
+        * MASSLESS_MARGIN;
+    if cut == 0.0 || !cut.is_finite() {
+        return;
+    }
+    let (light, heavy): (Vec<BpsState>, Vec<BpsState>) =
+        spectrum.states.drain(..).partition(|s| s.abs < cut);
+    spectrum.states = heavy;
+    for mut s in light {
+        s.z = Complex64::new(0.0, 0.0);
+        spectrum.massless.push(s);
+    }
+    let n = spectrum.massless.len();
+    let points: Vec<String> = curve
+        .resolutions
+        .iter()
+        .map(|r| format!("{:.6}{:+.6}i", r.z.re, r.z.im))
+        .collect();
+    spectrum.warnings.push(format!(
+        "the curve is singular at {}: computed on a resolution (settings resolution and resolution_phase); {n} state(s) become massless there and are listed apart, with Z = 0; the massive spectrum is that of the side the resolution approaches from",
+        points.join(", ")
+    ));
+}
+
+fn find_states(
+    curve: &Curve,
+    settings: &SpectrumSettings,
+    cancel: &CancelToken,
+    progress: &mut dyn FnMut(f64),
+    lattice: Option<&crate::charges::Lattice>,
 ) -> Spectrum {
     if let Err(errors) = settings.validate() {
         return Spectrum::empty(settings.reach, errors);
@@ -249,6 +344,9 @@ pub fn find(
     }
     let mut finder = Finder::new(curve, Quadratic::new(q), settings, cancel);
     finder.run(progress);
+    if let Some(lat) = lattice {
+        finder.lattice_candidates(lat);
+    }
     finder.into_spectrum(warnings)
 }
 
@@ -378,6 +476,50 @@ impl<'a> Finder<'a> {
         progress(1.0);
     }
 
+    /// Candidates from the charge lattice: every primitive charge with
+    /// small gauge coordinates and `|Z|` below the reach, lightest first,
+    /// each confirmed or excluded by a network at its own phase. This
+    /// resolves states whose phases crowd together (dyon towers next to a
+    /// wall of marginal stability), which no scan separates.
+    fn lattice_candidates(&mut self, lat: &crate::charges::Lattice) {
+        let gauge = lat.gauge_rank();
+        if gauge == 0 || gauge > 4 || self.stop() {
+            return;
+        }
+        let reach = self.settings.reach;
+        let n = lat.rank();
+        let mut found: Vec<(f64, Complex64)> = Vec::new();
+        let mut c = vec![-LATTICE_BOX; gauge];
+        loop {
+            let first = c.iter().find(|&&x| x != 0).copied().unwrap_or(0);
+            if first > 0 && gcd_all(&c) == 1 {
+                let mut full = c.clone();
+                full.resize(n, 0);
+                let z = lat.central_charge(&full);
+                if z.norm() < reach && z.norm() > 0.0 {
+                    found.push((z.norm(), z));
+                }
+            }
+            let mut k = 0;
+            while k < gauge && c[k] == LATTICE_BOX {
+                c[k] = -LATTICE_BOX;
+                k += 1;
+            }
+            if k == gauge {
+                break;
+            }
+            c[k] += 1;
+        }
+        // Heaviest pushed first: the queue pops the lightest first.
+        found.sort_by(|a, b| b.0.total_cmp(&a.0));
+        for (_, z) in found {
+            if !self.known(z) {
+                self.queue.push(Candidate { z, from: None });
+            }
+        }
+        self.drain_queue();
+    }
+
     fn stop(&mut self) -> bool {
         if self.cancel.is_cancelled() {
             self.cancelled = true;
@@ -490,6 +632,7 @@ impl<'a> Finder<'a> {
             endpoints: Vec::new(),
             web: vec![loop_points],
             z_error,
+            charge: None,
         };
         self.add_lattice_candidates(&state);
         self.states.push(state);
@@ -541,6 +684,7 @@ impl<'a> Finder<'a> {
                     z_error: (z_quad - pass.z_wall)
                         .norm()
                         .min((z_quad + pass.z_wall).norm()),
+                    charge: None,
                 });
             }
             theta = theta_new;

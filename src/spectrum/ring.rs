@@ -88,17 +88,22 @@ pub fn pair_loops(quad: &Quadratic, curve: &Curve) -> Vec<PairLoop> {
 /// other singular point well outside (sum of focal distances at least 1.2
 /// times the major axis); None if even a thin ellipse cannot.
 fn fitting_minor_axis(f1: Complex64, f2: Complex64, others: &[Complex64]) -> Option<f64> {
-    let half = 0.5 * (f2 - f1).norm();
-    let mut minor = half;
-    for _ in 0..12 {
-        let major = (half * half + minor * minor).sqrt();
-        if others
-            .iter()
-            .all(|s| (s - f1).norm() + (s - f2).norm() > 2.4 * major)
-        {
-            return Some(minor);
+    // Prefer room to spare (1.2); a point just beyond a focus (two zeros
+    // about to collide next to the pair, as near a singular point of the
+    // curve) still allows a thin ellipse with a smaller margin (1.02).
+    for margin in [1.2, 1.02] {
+        let half = 0.5 * (f2 - f1).norm();
+        let mut minor = half;
+        for _ in 0..16 {
+            let major = (half * half + minor * minor).sqrt();
+            if others
+                .iter()
+                .all(|s| (s - f1).norm() + (s - f2).norm() > 2.0 * margin * major)
+            {
+                return Some(minor);
+            }
+            minor *= 0.5;
         }
-        minor *= 0.5;
     }
     None
 }

@@ -697,6 +697,7 @@ impl<'a> WebFinder<'a> {
                     endpoints: web.endpoints,
                     web: web.polylines,
                     z_error,
+                    charge: None,
                 };
                 (state, web.problems.join("; "))
             })

@@ -1,0 +1,169 @@
+//! Charges of BPS states: the charge lattice of the spectral curve, the
+//! intersection pairing, every state's charge from its own cycle, and the
+//! Kontsevich-Soibelman product.
+//!
+//! [`assign`] runs after a spectrum is found: it builds the [`Lattice`],
+//! gives each state the class of its saddle, ring or web, checks that the
+//! state's Z equals the combination of basis periods (an independent check:
+//! the periods come from quadrature around the singular points, the state's
+//! Z from quadrature along its own path), and that the charges found span
+//! the gauge part of the lattice.
+
+pub mod intmat;
+pub mod ks;
+pub mod lattice;
+
+pub use lattice::{Charge, Lattice, LatticeError};
+
+use crate::curve::Curve;
+use crate::spectrum::{BpsState, Kind, Spectrum};
+use num_complex::Complex64;
+use serde::{Deserialize, Serialize};
+
+/// Relative agreement required between a state's Z and its charge's period.
+pub const Z_CHECK: f64 = 1e-8;
+
+/// The lattice as reported with a spectrum.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct LatticeSummary {
+    /// Periods of the basis classes.
+    pub basis: Vec<Complex64>,
+    /// `pairing[a][b] = <basis_a, basis_b>`.
+    pub pairing: Vec<Vec<i64>>,
+    pub flavour_rank: usize,
+    pub gauge_rank: usize,
+    /// Rank (over Q) of the gauge parts of the charges found.
+    pub span_rank: usize,
+    /// Index of the charges' span in the gauge lattice (0 when the rank
+    /// falls short).
+    pub span_index: u64,
+    /// Largest `|Z(state) - sum of basis periods|` over the states with a
+    /// charge.
+    pub worst_z_error: f64,
+    /// States without a charge.
+    pub uncharged: usize,
+}
+
+impl LatticeSummary {
+    /// The charges found generate the gauge lattice.
+    pub fn spans_gauge(&self) -> bool {
+        self.span_rank == self.gauge_rank && self.span_index == 1
+    }
+}
+
+/// The sheets of a state's cycle and its path, when the engine can lift it.
+fn state_charge(curve: &Curve, lat: &Lattice, s: &BpsState) -> Result<Charge, String> {
+    match s.kind {
+        Kind::Vector => {
+            let pts = s.web.first().ok_or("no closed trajectory")?;
+            if curve.rank != 2 {
+                return Err("ring domains are lifted for rank 2 only".into());
+            }
+            lat.loop_charge(pts, [0, 1], s.z).map_err(|e| e.to_string())
+        }
+        _ => {
+            if s.endpoints.len() != 2 || s.web.len() != 1 {
+                return Err("webs with joints are not lifted yet".into());
+            }
+            let mut pts = s.web[0].clone();
+            let (b0, b1) = (s.endpoints[0], s.endpoints[1]);
+            let (Some(p0), Some(p1)) = (curve.branch_points.get(b0), curve.branch_points.get(b1))
+            else {
+                return Err("endpoint is not a branch point".into());
+            };
+            let (first, last) = (pts[0], pts[pts.len() - 1]);
+            // The polyline may run either way; it starts near one end point.
+            let forward = (first - p0.z).norm() + (last - p1.z).norm()
+                <= (first - p1.z).norm() + (last - p0.z).norm();
+            let (start, end) = if forward { (p0, p1) } else { (p1, p0) };
+            if pts[0] != start.z {
+                pts.insert(0, start.z);
+            }
+            if pts[pts.len() - 1] != end.z {
+                pts.push(end.z);
+            }
+            lat.saddle_charge(&pts, usize::from(start.sheets[0]), s.z)
+                .map_err(|e| e.to_string())
+        }
+    }
+}
+
+/// Builds the lattice of `curve`, gives every state of `spectrum` its
+/// charge, runs the checks and records them (warnings and
+/// `spectrum.lattice`).
+pub fn assign(curve: &Curve, spectrum: &mut Spectrum) {
+    assign_with(&Lattice::new(curve), curve, spectrum);
+}
+
+/// [`assign`] with the lattice (or the reason there is none) already built.
+pub fn assign_with(
+    lattice: &Result<Lattice, LatticeError>,
+    curve: &Curve,
+    spectrum: &mut Spectrum,
+) {
+    let lat = match lattice {
+        Ok(l) => l,
+        Err(e) => {
+            spectrum
+                .warnings
+                .push(format!("no charge lattice: {e}; states carry no charges"));
+            return;
+        }
+    };
+    let mut worst: f64 = 0.0;
+    let mut uncharged = Vec::new();
+    let mut mismatched = Vec::new();
+    for (idx, s) in spectrum.states.iter_mut().enumerate() {
+        match state_charge(curve, lat, s) {
+            Ok(c) => {
+                let err = (lat.central_charge(&c) - s.z).norm();
+                worst = worst.max(err);
+                if err > Z_CHECK * (1.0 + s.abs) {
+                    mismatched.push((idx, err));
+                }
+                s.charge = Some(c);
+            }
+            Err(why) => uncharged.push((idx, why)),
+        }
+    }
+    let gauge = lat.gauge_rank();
+    let gauge_parts: Vec<Vec<i64>> = spectrum
+        .states
+        .iter()
+        .filter_map(|s| s.charge.as_ref())
+        .map(|c| c[..gauge].to_vec())
+        .collect();
+    let (span_rank, span_index) = intmat::span(&gauge_parts, gauge);
+    for (idx, why) in &uncharged {
+        spectrum
+            .warnings
+            .push(format!("state {} has no charge: {why}", idx + 1));
+    }
+    for (idx, err) in &mismatched {
+        spectrum.warnings.push(format!(
+            "state {}: Z differs from its charge's period by {err:.1e}: its cycle or the lattice is wrong",
+            idx + 1
+        ));
+    }
+    let summary = LatticeSummary {
+        basis: lat.basis.iter().map(|b| b.z).collect(),
+        pairing: lat.pairing.clone(),
+        flavour_rank: lat.flavour_rank,
+        gauge_rank: gauge,
+        span_rank,
+        span_index,
+        worst_z_error: worst,
+        uncharged: uncharged.len(),
+    };
+    if !summary.spans_gauge() && !spectrum.cancelled {
+        let detail = if span_rank < gauge {
+            format!("rank {span_rank} of {gauge}")
+        } else {
+            format!("a sublattice of index {span_index}")
+        };
+        spectrum.warnings.push(format!(
+            "the charges of the states found span {detail} of the gauge lattice: states are missing (raise the reach or the scan resolution)"
+        ));
+    }
+    spectrum.lattice = Some(summary);
+}
