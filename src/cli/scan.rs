@@ -567,8 +567,9 @@ struct SingularJson {
 
 #[derive(Serialize)]
 struct WallJson {
-    /// The charges of the two aligning states; `null` until states carry
-    /// charges (then `z` tells the pair apart).
+    /// The charges of the two aligning states, in the lattice basis of the
+    /// grid point the wall was first carried from; `null` when the finder
+    /// gave no charges (then `z` tells the pair apart).
     charges: Option<[Vec<i64>; 2]>,
     /// The two states' central charges at the first point.
     z: [[f64; 2]; 2],
@@ -618,7 +619,7 @@ fn summary_json(s: &MapSummary) -> SummaryJson {
             .walls
             .iter()
             .map(|w| WallJson {
-                charges: None,
+                charges: w.charges.clone(),
                 z: [xy(w.pair_z[0]), xy(w.pair_z[1])],
                 closed: w.closed,
                 points: w.points.iter().copied().map(xy).collect(),

@@ -64,6 +64,9 @@ pub struct MarginalWall {
     pub points: Vec<Complex64>,
     /// The central charges of the two aligning states at `points[0]`.
     pub pair_z: [Complex64; 2],
+    /// Their charges, in the lattice basis of the grid point the first
+    /// crossing was carried from (`None` where the finder gave none).
+    pub charges: Option<[Vec<i64>; 2]>,
     /// The polyline closes on itself.
     pub closed: bool,
 }
@@ -255,6 +258,8 @@ impl PairAt<'_> {
 /// cycles.
 struct BaseCycles {
     states: Vec<(Complex64, Cycle)>,
+    /// The charge of each state of `states`, when known.
+    charges: Vec<Option<Vec<i64>>>,
 }
 
 /// Recomputes the spectrum at `p` and keeps each state's cycle.
@@ -270,12 +275,15 @@ fn cycles_of(
     if found.cancelled {
         return None;
     }
-    let states = found
-        .states
-        .iter()
-        .filter_map(|s| Cycle::of_state(s, &curve, &quad).map(|c| (s.z, c)))
-        .collect();
-    Some(BaseCycles { states })
+    let mut states = Vec::new();
+    let mut charges = Vec::new();
+    for s in &found.states {
+        if let Some(c) = Cycle::of_state(s, &curve, &quad) {
+            states.push((s.z, c));
+            charges.push(s.charge.clone());
+        }
+    }
+    Some(BaseCycles { states, charges })
 }
 
 fn sine(a: Complex64, b: Complex64) -> f64 {
@@ -341,6 +349,7 @@ struct EdgeCrossing {
     base: usize,
     pair: (usize, usize),
     pair_z: [Complex64; 2],
+    charges: Option<[Vec<i64>; 2]>,
 }
 
 /// Traces the walls of marginal stability of a map. `points` holds every
@@ -413,6 +422,10 @@ pub fn trace(
         match tracer.root_on(pf, pm, tol) {
             Some(z) => {
                 let pair_z = tracer.zs(z).unwrap_or([Complex64::new(0.0, 0.0); 2]);
+                let charges = match (&base.charges[pair.0], &base.charges[pair.1]) {
+                    (Some(a), Some(b)) => Some([a.clone(), b.clone()]),
+                    _ => None,
+                };
                 crossings.insert(
                     edge,
                     EdgeCrossing {
@@ -420,6 +433,7 @@ pub fn trace(
                         base: few,
                         pair,
                         pair_z,
+                        charges,
                     },
                 );
             }
@@ -518,7 +532,10 @@ pub fn trace(
     join_across_gaps(&mut chains, &crossings, 4.0 * cell, &on_same_wall);
     // A lone crossing joined to nothing is noise of the finder near the
     // wall, not a wall.
-    let lone = chains.iter().filter(|(c, closed)| c.len() == 1 && !closed).count();
+    let lone = chains
+        .iter()
+        .filter(|(c, closed)| c.len() == 1 && !closed)
+        .count();
     chains.retain(|(c, closed)| c.len() > 1 || *closed);
     if lone > 0 {
         report.warnings.push(format!(
@@ -551,6 +568,7 @@ pub fn trace(
         report.walls.push(MarginalWall {
             points: pts,
             pair_z: first.pair_z,
+            charges: first.charges.clone(),
             closed,
         });
     }
@@ -594,7 +612,13 @@ fn join_across_gaps(
     gap: f64,
     on_same_wall: &dyn Fn(&EdgeCrossing, &EdgeCrossing) -> bool,
 ) {
-    let end = |chain: &[usize], e: usize| if e == 0 { chain[0] } else { chain[chain.len() - 1] };
+    let end = |chain: &[usize], e: usize| {
+        if e == 0 {
+            chain[0]
+        } else {
+            chain[chain.len() - 1]
+        }
+    };
     for _ in 0..chains.len() + 1 {
         let mut best: Option<(f64, usize, usize, usize, usize)> = None;
         for i in 0..chains.len() {
