@@ -248,6 +248,9 @@ pub fn run(args: &ScanArgs) -> anyhow::Result<ExitCode> {
         bad_input!("--summary and --plot need the whole map: give them to `scan merge`");
     }
     check_map_args(&args.map)?;
+    if args.output.is_none() && (args.map.summary.is_some() || args.map.plot.is_some()) {
+        bad_input!("--summary and --plot read the map back: give -o FILE.jsonl");
+    }
     let threads = match args.threads {
         Some(0) => bad_input!("--threads must be at least 1"),
         Some(t) if t > 256 => bad_input!("--threads must be at most 256, got {t}"),
@@ -284,9 +287,9 @@ pub fn run(args: &ScanArgs) -> anyhow::Result<ExitCode> {
         None => {
             let mut sink =
                 |r: PointResult| emit(&point_line(&r, prepared.meta.settings.reach)).is_ok();
-            compute(&prepared, &wanted, threads, &mut sink, 0);
-            if args.map.summary.is_some() || args.map.plot.is_some() {
-                bad_input!("--summary and --plot read the map back: give -o FILE.jsonl");
+            let outcome = compute(&prepared, &wanted, threads, &mut sink, 0);
+            if outcome.stopped {
+                anyhow::bail!("the scan stopped early");
             }
             Ok(ExitCode::SUCCESS)
         }

@@ -290,7 +290,7 @@ fn sine(a: Complex64, b: Complex64) -> f64 {
     (a * b.conj()).im / (a.norm() * b.norm()).max(1e-300)
 }
 
-/// Among the states at the edge's end `from` (the side with fewer states),
+/// Among the states at one end of an edge (the side with fewer states),
 /// the lightest pair whose alignment changes sign on the way to `to`, with
 /// their cycles carried along the edge. A state counts only if its carried
 /// Z at `to` is one of the states found there (up to sign, to 1e-6): that
@@ -298,11 +298,9 @@ fn sine(a: Complex64, b: Complex64) -> f64 {
 fn binding_pair<'a>(
     base: &BaseCycles,
     many: &PointStates,
-    from: Complex64,
     to: Complex64,
     curve_at: &'a CurveAt<'a>,
 ) -> Option<((usize, usize), PairAt<'a>)> {
-    let _ = from;
     let curve = curve_at(to).ok()?;
     let quad = Quadratic::new(curve.quadratic_differential()?);
     let carried: Vec<Option<Complex64>> = base
@@ -415,7 +413,7 @@ pub fn trace(
             continue;
         };
         let (pf, pm) = (points[few].param, points[many].param);
-        let Some((pair, tracer)) = binding_pair(base, &points[many], pf, pm, curve_at) else {
+        let Some((pair, tracer)) = binding_pair(base, &points[many], pm, curve_at) else {
             report.edges_without_wall += 1;
             continue;
         };
