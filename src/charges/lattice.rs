@@ -495,7 +495,8 @@ impl Tracker<'_> {
             }
             let here = z0 + (z1 - z0) * s;
             let room = PANEL_ROOM * self.curve.distance_to_singular(here);
-            let ds = (room / len.max(1e-300)).clamp(1e-9, 1.0 - s);
+            // Not clamp: near the end 1 - s can fall below the floor.
+            let ds = (room / len.max(1e-300)).max(1e-9).min(1.0 - s);
             let a = here;
             let b = z0 + (z1 - z0) * (s + ds);
             for &(x, w) in rule {
