@@ -10,6 +10,8 @@ pub mod curve;
 pub mod export;
 pub mod network;
 pub mod quad;
+pub mod samples;
+pub mod scan;
 pub mod walls;
 
 pub use cancel::CancelToken;

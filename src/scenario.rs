@@ -106,6 +106,9 @@ pub struct Scenario {
     pub max_walls: usize,
     pub step_budget: usize,
     pub bounds: Option<Bounds>,
+    /// How singular points are split (see `Settings::resolution`).
+    pub resolution: f64,
+    pub resolution_phase: f64,
     pub view: View,
     pub theme: Theme,
     /// Free text shown in the window, for demos.
@@ -127,6 +130,8 @@ impl Default for Scenario {
             max_walls: s.max_walls,
             step_budget: s.step_budget,
             bounds: None,
+            resolution: s.resolution,
+            resolution_phase: s.resolution_phase,
             view: View::default(),
             theme: Theme::Paper,
             notes: String::new(),
@@ -209,6 +214,8 @@ const TOP_KEYS: &[&str] = &[
     "max_walls",
     "step_budget",
     "bounds",
+    "resolution",
+    "resolution_phase",
     "view",
     "theme",
     "notes",
@@ -504,7 +511,9 @@ impl Scenario {
             // validate() has ruled this out.
             (None, None) => return Err(ScenarioError::Invalid("the scenario has no curve".into())),
         };
-        curve.map_err(|e: CurveError| {
+        curve
+            .map(|c| c.with_singular_points_resolved(self.resolution, self.resolution_phase))
+            .map_err(|e: CurveError| {
             ScenarioError::Invalid(format!("the curve cannot be used: {e}"))
         })
     }
@@ -525,6 +534,8 @@ impl Scenario {
             max_walls: self.max_walls,
             max_generations: self.max_generations,
             bounds: self.bounds,
+            resolution: self.resolution,
+            resolution_phase: self.resolution_phase,
             ..Settings::default()
         }
     }

@@ -9,6 +9,7 @@
 
 mod build;
 pub mod charges;
+pub mod param_map;
 pub mod geometry;
 pub mod palette;
 

@@ -3,9 +3,10 @@
 //! Each target takes raw bytes, turns them into input for one part of the
 //! engine, runs it and panics if an invariant is broken (a panic inside the
 //! engine is of course also a finding). The same functions are driven by a
-//! bounded random driver in `tests/robust_fuzz_bodies.rs`, which includes this
-//! file by path, so the code paths are exercised by the ordinary test suite
-//! even where cargo-fuzz cannot run; `tests/robust_sweep.rs` reuses
+//! bounded random driver in `tests/engine/robust_fuzz_bodies.rs` (the engine
+//! test binary includes this file by path), so the code paths are exercised
+//! by the ordinary test suite even where cargo-fuzz cannot run;
+//! `tests/engine/robust_sweep.rs` reuses
 //! [`CurveSpec`], [`SettingsSpec`] and [`check_network`].
 //!
 //! This file depends only on `wallflower`, `num_complex` and `serde_json`,

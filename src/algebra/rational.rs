@@ -5,9 +5,9 @@ use super::poly::Poly;
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
 
-/// Roots of numerator and denominator closer than this (relative to
-/// `1 + |z|`) are one shared factor; see [`Rational::cancelled`].
-pub const CANCEL_REL: f64 = 1e-6;
+/// A numerator this small at a root of the denominator, relative to its
+/// size there, shares that root; see [`Rational::cancelled`].
+pub const CANCEL_REL: f64 = 1e-10;
 
 /// `num(z) / den(z)`. No cancellation of common factors is attempted except
 /// where noted; callers that need reduced forms use [`Rational::reduced`].
@@ -122,39 +122,52 @@ impl Rational {
     /// denominator's leading coefficient 1, so equal functions compare equal
     /// more often. Factors other than z are left alone.
     /// Cancels the factors that numerator and denominator share, so that
-    /// `(z-1)^2/(z-1)` becomes `z - 1`: roots of both that agree to
-    /// [`CANCEL_REL`] (relative to `1 + |z|`) are divided out of both by
-    /// synthetic division, then the result is [`Rational::reduced`].
-    ///
-    /// The tolerance is loose because a root of multiplicity m is found
-    /// only to about `eps^(1/m)`: 1e-6 covers triple roots in double
-    /// precision. A zero and a pole closer than that are one point to us.
+    /// `(z-1)^2/(z-1)` becomes `z - 1`: a root d of the denominator at which
+    /// the numerator vanishes to [`CANCEL_REL`] of its size there
+    /// (`|N(d)| <= CANCEL_REL * sum |n_k| |d|^k`) is divided out of both by
+    /// synthetic division, one root at a time, then the result is
+    /// [`Rational::reduced`]. A root of multiplicity m is found only to
+    /// about `eps^(1/m)`, but the numerator vanishes there like the m-th
+    /// power of that error, so the test is sharp: a zero and a pole are
+    /// cancelled when they agree to about `CANCEL_REL^(1/m)` relative.
     pub fn cancelled(&self) -> Self {
+        if self.num.is_zero() {
+            return Self::zero();
+        }
         let base = self.reduced();
-        if base.num.is_zero() || base.num.degree() == 0 || base.den.degree() == 0 {
+        if base.num.degree() == 0 || base.den.degree() == 0 {
             return base;
         }
-        let num_roots = base.num.roots();
-        let mut den_roots = base.den.roots();
         let (mut num, mut den) = (base.num.clone(), base.den.clone());
         let mut changed = false;
-        for n in num_roots {
-            if !n.is_finite() {
-                continue;
+        // One shared root per round, the best one, with the roots of what
+        // is left found afresh (a deflation moves the others slightly).
+        for _ in 0..base.den.degree() {
+            if num.degree() == 0 || den.degree() == 0 {
+                break;
             }
-            let hit = den_roots
-                .iter()
-                .enumerate()
-                .filter(|(_, d)| (*d - n).norm() <= CANCEL_REL * (1.0 + n.norm()))
-                .min_by(|a, b| (a.1 - n).norm().total_cmp(&(b.1 - n).norm()));
-            if let Some((idx, &d)) = hit {
-                den_roots.swap_remove(idx);
-                // Divide both by the same factor, at the mean of the two
-                // estimates of the shared root.
-                let p = (n + d) * 0.5;
-                num = num.deflate(p);
-                den = den.deflate(p);
-                changed = true;
+            let relative = |d: Complex64| {
+                let size: f64 = num
+                    .coeffs
+                    .iter()
+                    .enumerate()
+                    .map(|(k, c)| c.norm() * d.norm().powi(k as i32))
+                    .sum();
+                num.eval(d).norm() / size
+            };
+            let best = den
+                .roots()
+                .into_iter()
+                .filter(|d| d.is_finite())
+                .map(|d| (relative(d), d))
+                .min_by(|a, b| a.0.total_cmp(&b.0));
+            match best {
+                Some((rel, d)) if rel <= CANCEL_REL => {
+                    num = num.deflate(d);
+                    den = den.deflate(d);
+                    changed = true;
+                }
+                _ => break,
             }
         }
         if !changed {

@@ -106,7 +106,7 @@ impl Command {
 /// ```
 ///
 /// A script drives the real window through the same command path as its
-/// widgets; the kill -9 recovery test (tests/gui_recovery_kill.rs) uses it
+/// widgets; the kill -9 recovery test (tests/gui/recovery_kill.rs) uses it
 /// to make an edit without synthesising mouse events.
 pub fn parse_script(text: &str) -> Result<Vec<Command>, String> {
     let mut out = Vec::new();

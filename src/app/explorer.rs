@@ -175,6 +175,8 @@ pub struct WallflowerApp {
     pub wall_sort: WallSort,
     pub wall_sort_descending: bool,
     pub(super) commands: Vec<Command>,
+    /// The parameter-plane view beside the canvas.
+    pub param_map: super::param_map::ParamMap,
     /// The canvas transform of the last frame (tests use it to click).
     pub transform: Option<ScreenTransform>,
     /// The central-charge plot's transform of the last frame (tests use it
@@ -274,6 +276,7 @@ impl WallflowerApp {
             wall_sort: WallSort::Index,
             wall_sort_descending: false,
             commands: Vec::new(),
+            param_map: Default::default(),
             transform: None,
             z_plot_transform: None,
             wants_fit,
@@ -350,6 +353,7 @@ impl WallflowerApp {
         self.bottom_bar(ui);
         self.curve_panel(ui);
         self.inspector_panel(ui);
+        self.param_map_panel(ui);
         egui::CentralPanel::default()
             .frame(egui::Frame::NONE)
             .show(ui, |ui| self.canvas(ui));

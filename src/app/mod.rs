@@ -9,6 +9,7 @@
 //! - `panels`: file/export bar, curve editor, phase control, status bar.
 //! - `inspector`: walls and joints tables, jump matrix.
 //! - `spectrum_view`: the central-charge plane of the BPS states.
+//! - `param_map`: the parameter-plane view (a chamber map filled in the background).
 //! - `worker`: the background thread. `command`, `history`: edits and undo.
 //! - `files`: atomic saves, recovery file, recent list. `jump`: the
 //!   network's jump matrices, formatted for the inspector.
@@ -31,6 +32,7 @@ mod inspector;
 pub mod jump;
 mod paint;
 mod panels;
+mod param_map;
 mod spectrum_view;
 mod worker;
 

@@ -1,5 +1,5 @@
-//! The JSON shapes the command line prints (the interface contract of
-//! docs/product.md, extended). Sheets and wall types are 1-based, as printed
+//! The JSON shapes the command line prints (the contract shown in
+//! README.md, extended). Sheets and wall types are 1-based, as printed
 //! everywhere else; indices into lists (`parents`, `child`, `end_at`,
 //! `origin.index`) are 0-based positions in the lists of the same object.
 

@@ -12,6 +12,7 @@ mod json;
 mod jump;
 mod network;
 mod output;
+mod scan;
 mod source;
 mod spectrum;
 mod sweep;
@@ -112,6 +113,9 @@ enum Command {
     Crossing(spectrum::CrossingArgs),
     /// The ordered product of jump matrices along a path (text, LaTeX or JSON).
     Jump(jump::JumpArgs),
+    /// The spectrum over a grid of one complex parameter (a chamber map), or
+    /// `scan merge DIR` to join the shares of a cluster run.
+    Scan(scan::ScanArgs),
     /// Check a scenario: load it, build its curve and settings, report.
     Check {
         #[command(flatten)]
@@ -178,6 +182,7 @@ pub fn run() -> anyhow::Result<ExitCode> {
         Some(Command::Sweep(args)) => sweep::run(&args),
         Some(Command::Inspect(args)) => inspect::run(&args),
         Some(Command::Jump(args)) => jump::run(&args),
+        Some(Command::Scan(args)) => scan::run(&args),
         Some(Command::Spectrum(args)) => spectrum::run(&args),
         Some(Command::Crossing(args)) => spectrum::run_crossing(&args),
         Some(Command::Check { source }) => check(&source),

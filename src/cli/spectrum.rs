@@ -99,7 +99,7 @@ fn kind_name(k: Kind) -> &'static str {
     }
 }
 
-fn state_json(s: &BpsState, reach: f64) -> StateJson {
+pub(super) fn state_json(s: &BpsState, reach: f64) -> StateJson {
     StateJson {
         z: [s.z.re, s.z.im],
         abs: s.abs,
@@ -193,6 +193,8 @@ fn self_check_passed(found: &spectrum::Spectrum) -> bool {
 struct SpectrumJson {
     reach: f64,
     states: Vec<StateJson>,
+    /// States that are massless at a singular point of the curve (Z = 0).
+    massless: Vec<StateJson>,
     warnings: Vec<String>,
     lattice: Option<LatticeJson>,
     /// `pairings[i][j] = <charge_i, charge_j>`.
@@ -266,6 +268,11 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 .iter()
                 .map(|s| state_json(s, found.reach))
                 .collect(),
+            massless: found
+                .massless
+                .iter()
+                .map(|s| state_json(s, found.reach))
+                .collect(),
             warnings: found.warnings.clone(),
             lattice: found.lattice.as_ref().map(lattice_json),
             pairings: state_pairings(&found),
@@ -309,6 +316,18 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 s.abs,
                 s.phase,
                 s.z_error,
+                s.charge
+                    .as_ref()
+                    .map_or_else(|| "?".to_string(), |c| format!("{c:?}"))
+            ));
+        }
+        for s in &found.massless {
+            out.push_str(&format!(
+                "  0  {:>6}  {:>5}  {:>34}  massless at the singular point (|Z| = {:.1e} on the resolution)  {}\n",
+                kind_name(s.kind),
+                s.omega.map_or_else(|| "?".to_string(), |o| o.to_string()),
+                "0",
+                s.abs,
                 s.charge
                     .as_ref()
                     .map_or_else(|| "?".to_string(), |c| format!("{c:?}"))

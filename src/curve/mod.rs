@@ -113,6 +113,31 @@ impl SpecialPoint {
     }
 }
 
+/// How one singular point was split by [`Curve::resolved`].
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Resolution {
+    pub z: Complex64,
+    /// Order of the zero of u_K's numerator at the point (0 if it does not vanish).
+    pub order: usize,
+    /// The value added to the numerator at the point.
+    pub shift: Complex64,
+    /// The intended distance of the split points from it.
+    pub distance: f64,
+    /// The singular point's own local model, before the split.
+    pub model: LocalModel,
+}
+
+/// The Taylor coefficient `p^(n)(b) / n!`.
+fn taylor_coefficient(p: &Poly, b: Complex64, n: usize) -> Complex64 {
+    let mut d = p.clone();
+    let mut fact = 1.0;
+    for k in 0..n {
+        d = d.derivative();
+        fact *= (k + 1) as f64;
+    }
+    d.eval(b) / fact
+}
+
 /// The reference frame for sheet labels: a base point above everything.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct LabelFrame {
@@ -164,6 +189,9 @@ pub struct Curve {
     pub cuts: Vec<Cut>,
     /// Non-simple branch points and emitting punctures, with their local models.
     pub special: Vec<SpecialPoint>,
+    /// Non-empty when this curve is the resolution of a curve with singular
+    /// points: how each was split.
+    pub resolutions: Vec<Resolution>,
     pub notes: Vec<CurveNote>,
     /// `u` arranged for fast evaluation (rebuilt from `u`, never stored).
     #[serde(skip)]
@@ -182,13 +210,16 @@ impl Curve {
         if rank > MAX_RANK {
             return Err(CurveError::RankTooHigh(rank));
         }
-        let lead = &p.coeffs[rank];
+        // Each coefficient in lowest terms first, so that a shared factor
+        // of the leading coefficient does not multiply into every u_k.
+        let coeffs: Vec<Rational> = p.coeffs.iter().map(Rational::cancelled).collect();
+        let lead = &coeffs[rank];
         if lead.is_zero() {
             return Err(CurveError::ZeroLeading);
         }
         let mut u = Vec::with_capacity(rank + 1);
         for k in 0..=rank {
-            let ck = &p.coeffs[rank - k];
+            let ck = &coeffs[rank - k];
             let r = if k == 0 {
                 Rational::one()
             } else {
@@ -245,6 +276,7 @@ impl Curve {
             },
             cuts: Vec::new(),
             special: Vec::new(),
+            resolutions: Vec::new(),
             notes: Vec::new(),
         };
         let found = branch::find_singularities(&curve)?;
@@ -308,6 +340,96 @@ impl Curve {
             .map(|s| (s - z).norm())
             .filter(|d| *d > 1e-12 * (1.0 + z.norm()))
             .fold(self.length_scale(), f64::min)
+    }
+
+    /// The curve with every singular point split: the numerator N of the
+    /// last coefficient u_K becomes `N + e(z)`, with `e` the polynomial
+    /// through the values `e_b = -A_b (delta_b e^(i phase))^(n_b)` at the
+    /// singular points b (Lagrange interpolation, so each point gets its
+    /// own shift), where `N ~ A_b (z - b)^(n_b)` and `delta_b = rel` times
+    /// the room around b. For rank 2 (`y^2 = q`, u_2 = -q) a zero of order
+    /// n of q splits into n simple zeros at `b + delta_b e^(i (phase + 2 pi k)/n)`;
+    /// where N does not vanish at b (rank >= 3) the shift is
+    /// `delta_b^2 |N(b)|` in the same direction. Poles and the order at
+    /// infinity are unchanged. `None` if there is nothing to resolve or the
+    /// deformed curve is unusable.
+    pub fn resolved(&self, rel: f64, phase: f64) -> Option<(Curve, Vec<Resolution>)> {
+        let singular: Vec<Complex64> = self
+            .special
+            .iter()
+            .filter(|s| s.is_singular())
+            .map(|s| s.z)
+            .collect();
+        if singular.is_empty() {
+            return None;
+        }
+        let k = self.rank;
+        let num = &self.u[k].num;
+        let mut shifts = Vec::new();
+        for &b in &singular {
+            let room = self.room_around(b);
+            let delta = rel * room;
+            // The zeros of N near b: their number is the order, their mean
+            // (well conditioned, unlike each of them) the centre.
+            let near: Vec<Complex64> = num
+                .roots()
+                .into_iter()
+                .filter(|r| (r - b).norm() <= 1e-3 * room)
+                .collect();
+            let centre = if near.is_empty() {
+                b
+            } else {
+                near.iter().sum::<Complex64>() / near.len() as f64
+            };
+            let n = near.len();
+            let a = taylor_coefficient(num, centre, n);
+            let e = if n == 0 {
+                Complex64::from_polar(delta * delta * a.norm(), phase)
+            } else {
+                -a * Complex64::from_polar(delta, phase).powu(n as u32)
+            };
+            let model = self
+                .special
+                .iter()
+                .find(|s| s.z == b)
+                .map(|s| s.model.clone())?;
+            shifts.push(Resolution {
+                z: b,
+                order: n,
+                shift: e,
+                distance: delta,
+                model,
+            });
+        }
+        // Lagrange: e(z) = sum_b e_b prod_{b' != b} (z - b')/(b - b').
+        let mut e_poly = Poly::zero();
+        for (a, res) in shifts.iter().enumerate() {
+            let mut basis = Poly::constant(res.shift);
+            for (c, other) in shifts.iter().enumerate() {
+                if a != c {
+                    let denom = res.z - other.z;
+                    basis = basis.mul(&Poly::new(vec![-other.z / denom, 1.0 / denom]));
+                }
+            }
+            e_poly = e_poly.add(&basis);
+        }
+        let mut u = self.u.clone();
+        u[k] = Rational {
+            num: num.add(&e_poly),
+            den: self.u[k].den.clone(),
+        };
+        let mut curve = Self::from_monic(k, u).ok()?;
+        curve.resolutions.clone_from(&shifts);
+        Some((curve, shifts))
+    }
+
+    /// This curve, or its resolution ([`Curve::resolved`]) when it has
+    /// singular points: what networks and spectra are computed on.
+    pub fn with_singular_points_resolved(self, rel: f64, phase: f64) -> Self {
+        match self.resolved(rel, phase) {
+            Some((c, _)) => c,
+            None => self,
+        }
     }
 
     /// `dP/dz` and `d^2P/dy^2` at `(y, z)`, for the local series at branch points.

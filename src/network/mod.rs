@@ -88,6 +88,22 @@ pub fn default_bounds(curve: &Curve) -> Bounds {
 
 /// Grows the network of `curve` at phase `theta`.
 pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelToken) -> Network {
+    compute_at(curve, theta, settings, cancel, true)
+}
+
+/// Phase offset at which a critical phase's flatness is checked instead.
+pub const CRITICAL_OFFSET: f64 = 1e-6;
+
+/// [`compute`]; with `check_off_critical`, a network whose loops fail only
+/// because the phase is critical (a wall runs into a branch point) is
+/// checked at `theta +- CRITICAL_OFFSET` instead.
+fn compute_at(
+    curve: &Curve,
+    theta: f64,
+    settings: &Settings,
+    cancel: &CancelToken,
+    check_off_critical: bool,
+) -> Network {
     let bounds = settings.bounds.unwrap_or_else(|| default_bounds(curve));
     let mut warnings: Vec<Warning> = curve
         .notes
@@ -134,6 +150,18 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
     };
     let mut walls = Vec::new();
     let mut limit = GrowthLimit::None;
+    for r in &curve.resolutions {
+        warnings.push(Warning {
+            message: format!(
+                "the curve is singular at {:.6}{:+.6}i (a cycle vanishes there: a massless state); drawn from a resolution that splits it into points {} from it (the last coefficient's numerator shifted by {:.3e}{:+.3e}i; settings resolution and resolution_phase); other directions of approach can give other networks",
+                r.z.re,
+                r.z.im,
+                crate::walls::show_f64(r.distance),
+                r.shift.re,
+                r.shift.im
+            ),
+        });
+    }
     let (special, notes) = special_seeds(curve, theta);
     warnings.extend(notes.into_iter().map(|message| Warning { message }));
     let seeds = primary_seeds(curve, theta).into_iter().chain(special);
@@ -188,7 +216,40 @@ pub fn compute(curve: &Curve, theta: f64, settings: &Settings, cancel: &CancelTo
             message: "cancelled: the network is partial".into(),
         });
     }
-    if flatness.worst > 1e-9 {
+    let saddle = walls
+        .iter()
+        .enumerate()
+        .find_map(|(idx, w)| match w.end {
+            crate::walls::EndReason::BranchPoint(b) => Some((idx, b, w.mass())),
+            _ => None,
+        });
+    if let (true, true, Some((wall_idx, bp, mass))) = (
+        flatness.worst > 1e-9 && limit != GrowthLimit::Cancelled,
+        check_off_critical,
+        saddle,
+    ) {
+        // At a critical phase walls end on branch points, and a loop around
+        // such a point crosses the incoming wall once: nothing can close
+        // there. The network just off the phase on both sides must.
+        let off = [theta - CRITICAL_OFFSET, theta + CRITICAL_OFFSET]
+            .map(|t| compute_at(curve, t, settings, cancel, false).flatness.worst);
+        let worst_off = off[0].max(off[1]);
+        warnings.push(Warning {
+            message: format!(
+                "phase {theta} is a critical phase: wall {} (type {}) runs into branch point {} with mass {mass:.10} (a BPS state with |Z| = {mass:.10}); jump matrices are checked just off it, at phase {theta} -+ {CRITICAL_OFFSET:e}: worst deviation {worst_off:.1e}",
+                wall_idx + 1,
+                walls[wall_idx].kind,
+                bp + 1
+            ),
+        });
+        if worst_off > 1e-9 {
+            warnings.push(Warning {
+                message: format!(
+                    "jump matrices do not close up around some joint or branch point even just off this critical phase (worst deviation {worst_off:.1e}): treat multiplicities with care"
+                ),
+            });
+        }
+    } else if flatness.worst > 1e-9 {
         warnings.push(Warning {
             message: format!(
                 "jump matrices do not close up around some joint or branch point (worst deviation {:.1e}): treat multiplicities with care",

@@ -1,5 +1,5 @@
 //! Following the spectrum along a straight path in one parameter, and
-//! locating where it jumps (walls of marginal stability, mathematics.md
+//! locating where it jumps (walls of marginal stability, docs/mathematics.md
 //! section 6).
 //!
 //! The path is sampled at `steps + 1` equally spaced values; wherever the

@@ -1,7 +1,7 @@
 //! The BPS spectrum: critical phases where the network degenerates, and the
 //! states they stand for, with central charges, kinds and indices.
 //!
-//! Rank 2 (`y^2 = q`), following mathematics.md section 5:
+//! Rank 2 (`y^2 = q`), following docs/mathematics.md section 5:
 //!
 //! * saddle connections (a wall from a simple zero of q that ends on
 //!   another) are hypermultiplets, index 1, found by [`saddle`];
@@ -104,6 +104,12 @@ pub struct Spectrum {
     pub reach: f64,
     /// Sorted by `|Z|`.
     pub states: Vec<BpsState>,
+    /// At a singular point of the curve (found on its resolution): the
+    /// states whose central charge vanishes there, listed with `Z = 0`
+    /// apart from the massive ones; `abs` keeps the tiny |Z| they have on
+    /// the resolution.
+    #[serde(default)]
+    pub massless: Vec<BpsState>,
     pub warnings: Vec<String>,
     /// The computation was cancelled: `states` is partial.
     pub cancelled: bool,
@@ -118,6 +124,7 @@ impl Spectrum {
         Self {
             reach,
             states: Vec::new(),
+            massless: Vec::new(),
             warnings,
             cancelled: false,
             stats: SpectrumStats::default(),
@@ -148,6 +155,7 @@ impl Spectrum {
         Self {
             reach: settings.reach,
             states,
+            massless: Vec::new(),
             warnings,
             cancelled,
             stats,
@@ -220,7 +228,9 @@ fn gcd_all(v: &[i64]) -> i64 {
 
 /// Finds the BPS states with `|Z| < settings.reach`, each with its charge
 /// in the curve's charge lattice (see [`crate::charges::assign`]). Progress
-/// goes to `progress` as a fraction in [0, 1].
+/// goes to `progress` as a fraction in [0, 1]. On the resolution of a
+/// singular curve ([`Curve::resolutions`] non-empty) the states that become
+/// massless at the singular points are moved to [`Spectrum::massless`].
 pub fn find(
     curve: &Curve,
     settings: &SpectrumSettings,
@@ -232,7 +242,54 @@ pub fn find(
     if settings.validate().is_ok() {
         crate::charges::assign_with(&lattice, curve, &mut spectrum);
     }
+    split_massless(curve, &mut spectrum);
     spectrum
+}
+
+/// The central charge of a cycle that vanishes at a resolved singular
+/// point is of order `|c| delta^(r + 1)` (the local model's leading term
+/// over the split distance); states below this many times that are the
+/// massless ones. Massive states near a singular point keep |Z| of order 1
+/// while delta -> 0, so the margin separates them for any small delta.
+const MASSLESS_MARGIN: f64 = 1e3;
+
+fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
+    let cut = curve
+        .resolutions
+        .iter()
+        .flat_map(|r| {
+            r.model.orbits.iter().filter(|o| o.n_walls > 0).map(move |o| {
+                let c = r
+                    .model
+                    .coeffs
+                    .iter()
+                    .map(|(_, c)| c.norm())
+                    .fold(0.0, f64::max);
+                c * r.distance.powf(o.exponent.value() + 1.0)
+            })
+        })
+        .fold(0.0, f64::max)
+        * MASSLESS_MARGIN;
+    if cut == 0.0 || !cut.is_finite() {
+        return;
+    }
+    let (light, heavy): (Vec<BpsState>, Vec<BpsState>) =
+        spectrum.states.drain(..).partition(|s| s.abs < cut);
+    spectrum.states = heavy;
+    for mut s in light {
+        s.z = Complex64::new(0.0, 0.0);
+        spectrum.massless.push(s);
+    }
+    let n = spectrum.massless.len();
+    let points: Vec<String> = curve
+        .resolutions
+        .iter()
+        .map(|r| format!("{:.6}{:+.6}i", r.z.re, r.z.im))
+        .collect();
+    spectrum.warnings.push(format!(
+        "the curve is singular at {}: computed on a resolution (settings resolution and resolution_phase); {n} state(s) become massless there and are listed apart, with Z = 0; the massive spectrum is that of the side the resolution approaches from",
+        points.join(", ")
+    ));
 }
 
 fn find_states(

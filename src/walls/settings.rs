@@ -60,6 +60,17 @@ pub struct Settings {
     /// Largest turn of the wall between two drawn points, in radians:
     /// finer curves for figures. Range [0.005, 1]. Default 0.05.
     pub max_turn_rad: f64,
+    /// Singular points of the curve (where a cycle vanishes) are drawn
+    /// from a resolution: the last coefficient's numerator is shifted so
+    /// that each singular point splits into points this far apart from
+    /// it, relative to the room around it. Range [1e-8, 0.1]. Default 1e-3:
+    /// far below what a figure shows, far above rounding.
+    pub resolution: f64,
+    /// The direction of that shift, in radians (the split points of a
+    /// zero of order n sit at angles (resolution_phase + 2 pi k)/n). The
+    /// picture and the massive spectrum can depend on it: it picks the
+    /// side from which the singular point is approached. Default pi.
+    pub resolution_phase: f64,
 }
 
 impl Default for Settings {
@@ -74,6 +85,8 @@ impl Default for Settings {
             puncture_radius: 1e-3,
             branch_hit_radius: 1e-6,
             max_turn_rad: 0.05,
+            resolution: 1e-3,
+            resolution_phase: std::f64::consts::PI,
         }
     }
 }
@@ -124,6 +137,20 @@ impl Settings {
             format!(
                 "max_generations must be at most 50, got {}",
                 self.max_generations
+            ),
+        );
+        check(
+            self.resolution.is_finite() && (1e-8..=0.1).contains(&self.resolution),
+            format!(
+                "resolution must be in [1e-8, 0.1], got {}",
+                show_f64(self.resolution)
+            ),
+        );
+        check(
+            self.resolution_phase.is_finite() && self.resolution_phase.abs() <= 1e3,
+            format!(
+                "resolution_phase must be a finite angle, got {}",
+                show_f64(self.resolution_phase)
             ),
         );
         check(

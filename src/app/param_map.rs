@@ -1,0 +1,312 @@
+//! The parameter-plane view: a chamber map of one parameter of the curve
+//! around its current value, beside the canvas. It fills in while a
+//! background thread computes the spectrum point by point (on one thread,
+//! so the network worker keeps a core); clicking sets the parameter, and
+//! the current value is marked. The map is recomputed when anything but
+//! the mapped parameter's value changes.
+
+use super::command::Command;
+use super::explorer::WallflowerApp;
+use super::paint::paint_layer;
+use crate::algebra::parse_equation;
+use crate::cancel::CancelToken;
+use crate::scan::singular::{branch_polynomial, singular_points, SingularPoint};
+use crate::scan::summary::{chambers, summarize, MapSummary};
+use crate::scan::walls::{MarginalWall, PointStates};
+use crate::scan::{self, Grid};
+use crate::scenario::Scenario;
+use crate::scene::param_map::{build_param_map, map_transform, MapOptions};
+use crate::spectrum::SpectrumSettings;
+use eframe::egui;
+use num_complex::Complex64;
+use std::sync::mpsc;
+
+/// Grid points each way.
+const MAP_POINTS: usize = 21;
+/// Half the side of the mapped square, in parameter units.
+const MAP_HALF_SIDE: f64 = 2.0;
+/// Side of the view in pixels.
+const VIEW_PX: f32 = 300.0;
+
+/// What the background thread sends.
+enum Update {
+    Singular(Vec<SingularPoint>),
+    Point(usize, PointStates),
+    Walls(Vec<MarginalWall>),
+}
+
+/// A running (or finished) map computation.
+struct MapJob {
+    /// What it was started for: the scenario without the mapped value.
+    key: String,
+    param: String,
+    grid: Grid,
+    points: Vec<PointStates>,
+    filled: usize,
+    singular: Vec<SingularPoint>,
+    walls: Vec<MarginalWall>,
+    rx: mpsc::Receiver<Update>,
+    cancel: CancelToken,
+    thread: Option<std::thread::JoinHandle<()>>,
+}
+
+impl Drop for MapJob {
+    fn drop(&mut self) {
+        self.cancel.cancel();
+        if let Some(t) = self.thread.take() {
+            let _ = t.join();
+        }
+    }
+}
+
+/// The view's state, kept by the app.
+#[derive(Default)]
+pub struct ParamMap {
+    pub open: bool,
+    /// The parameter mapped (the curve's first by default).
+    pub param: Option<String>,
+    /// Where the map is centred (set when a job starts; "Recentre" moves it).
+    centre: Option<Complex64>,
+    job: Option<MapJob>,
+    /// Where the view was drawn in the last frame (for hit tests).
+    view_rect: Option<egui::Rect>,
+}
+
+impl ParamMap {
+    /// Grid points computed so far, and in all.
+    pub fn progress(&self) -> Option<(usize, usize)> {
+        self.job.as_ref().map(|j| (j.filled, j.grid.len()))
+    }
+
+    /// Where the parameter value `p` is on screen in the last frame.
+    pub fn screen_pos(&self, p: Complex64) -> Option<egui::Pos2> {
+        let (job, rect) = (self.job.as_ref()?, self.view_rect?);
+        let [x, y] = map_transform(&job.grid, VIEW_PX, VIEW_PX).to_screen(p);
+        Some(rect.min + egui::vec2(x, y))
+    }
+}
+
+/// The scenario with the mapped parameter's value blanked: a change of
+/// anything else means a new map.
+fn job_key(scenario: &Scenario, param: &str) -> String {
+    let mut sc = scenario.clone();
+    sc.params.insert(param.to_string(), [0.0, 0.0]);
+    sc.phase = 0.0;
+    sc.view = Default::default();
+    sc.to_ron()
+}
+
+fn start_job(
+    scenario: &Scenario,
+    param: &str,
+    centre: Complex64,
+    ctx: &egui::Context,
+) -> MapJob {
+    let grid = Grid {
+        re: [centre.re - MAP_HALF_SIDE, centre.re + MAP_HALF_SIDE],
+        im: [centre.im - MAP_HALF_SIDE, centre.im + MAP_HALF_SIDE],
+        n_re: MAP_POINTS,
+        n_im: MAP_POINTS,
+    };
+    let (tx, rx) = mpsc::channel();
+    let cancel = CancelToken::new();
+    let (sc, name, token, ctx2) = (
+        scenario.clone(),
+        param.to_string(),
+        cancel.clone(),
+        ctx.clone(),
+    );
+    let settings = SpectrumSettings {
+        reach: scenario.reach,
+        ..SpectrumSettings::default()
+    };
+    let thread = std::thread::Builder::new()
+        .name("param-map".into())
+        .spawn(move || {
+            let curve_at = |p: Complex64| {
+                let mut s = sc.clone();
+                s.params.insert(name.clone(), [p.re, p.im]);
+                s.build_curve().map_err(|e| e.to_string())
+            };
+            let equation = sc.curve.as_deref().and_then(|t| parse_equation(t).ok());
+            let base = sc.param_values();
+            let poly_at = |p: Complex64| {
+                let mut values = base.clone();
+                values.insert(name.clone(), p);
+                branch_polynomial(&equation.as_ref()?.evaluate(&values).ok()?)
+            };
+            let rank_two = poly_at(grid.point(0)).is_some();
+            if rank_two {
+                let _ = tx.send(Update::Singular(singular_points(&grid, &poly_at, &token)));
+                ctx2.request_repaint();
+            }
+            let indices: Vec<usize> = (0..grid.len()).collect();
+            let mut points = Vec::with_capacity(grid.len());
+            let outcome = scan::run(&grid, &indices, &curve_at, &settings, 1, &token, &mut |r| {
+                let p = PointStates {
+                    param: r.param,
+                    states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
+                    usable: !r.warnings.iter().any(|w| w.starts_with("no curve here")),
+                };
+                points.push(p.clone());
+                let sent = tx.send(Update::Point(r.index, p)).is_ok();
+                ctx2.request_repaint();
+                sent
+            });
+            if outcome.stopped || !rank_two {
+                return;
+            }
+            let map = summarize(&grid, &points, &curve_at, Some(&poly_at), &settings, &token);
+            if !token.is_cancelled() {
+                let _ = tx.send(Update::Walls(map.walls));
+                ctx2.request_repaint();
+            }
+        })
+        .ok();
+    let blank = PointStates {
+        param: Complex64::new(0.0, 0.0),
+        states: Vec::new(),
+        usable: false,
+    };
+    MapJob {
+        key: job_key(scenario, param),
+        param: param.to_string(),
+        grid,
+        points: vec![blank; grid.len()],
+        filled: 0,
+        singular: Vec::new(),
+        walls: Vec::new(),
+        rx,
+        cancel,
+        thread,
+    }
+}
+
+impl WallflowerApp {
+    /// The parameter-plane panel (right of the canvas), or its toggle.
+    pub(super) fn param_map_panel(&mut self, ui: &mut egui::Ui) {
+        let names = self.scenario.parameter_names();
+        if names.is_empty() {
+            self.param_map.job = None;
+            return;
+        }
+        let ctx = ui.ctx().clone();
+        let mut open = self.param_map.open;
+        egui::Panel::right("param_map")
+            .resizable(false)
+            .show(ui, |ui| {
+                let label = if open { "Hide parameter map" } else { "Parameter map" };
+                if ui.button(label).clicked() {
+                    open = !open;
+                }
+                if open {
+                    self.param_map_contents(ui, &names, &ctx);
+                }
+            });
+        self.param_map.open = open;
+        if !open {
+            self.param_map.job = None;
+        }
+    }
+
+    fn param_map_contents(&mut self, ui: &mut egui::Ui, names: &[String], ctx: &egui::Context) {
+        let map = &mut self.param_map;
+        let mut param = map
+            .param
+            .clone()
+            .filter(|p| names.contains(p))
+            .unwrap_or_else(|| names[0].clone());
+        if names.len() > 1 {
+            egui::ComboBox::from_label("parameter")
+                .selected_text(param.clone())
+                .show_ui(ui, |ui| {
+                    for n in names {
+                        ui.selectable_value(&mut param, n.clone(), n);
+                    }
+                });
+        }
+        map.param = Some(param.clone());
+        let value = self
+            .scenario
+            .params
+            .get(&param)
+            .map_or(Complex64::new(0.0, 0.0), |v| Complex64::new(v[0], v[1]));
+        let recentre = ui.button("Recentre on the current value").clicked();
+        let key = job_key(&self.scenario, &param);
+        let stale = map
+            .job
+            .as_ref()
+            .is_none_or(|j| j.key != key || j.param != param);
+        if stale || recentre {
+            let centre = if recentre || map.centre.is_none() || stale && map.job.is_none() {
+                value
+            } else {
+                map.centre.unwrap_or(value)
+            };
+            map.centre = Some(centre);
+            map.job = None; // cancels and joins the old thread
+            map.job = Some(start_job(&self.scenario, &param, centre, ctx));
+        }
+        let Some(job) = map.job.as_mut() else {
+            return;
+        };
+        while let Ok(update) = job.rx.try_recv() {
+            match update {
+                Update::Singular(s) => job.singular = s,
+                Update::Point(index, p) => {
+                    if let Some(slot) = job.points.get_mut(index) {
+                        *slot = p;
+                        job.filled += 1;
+                    }
+                }
+                Update::Walls(w) => job.walls = w,
+            }
+        }
+        let (chambers, chamber_of) = chambers(&job.grid, &job.points);
+        let summary = MapSummary {
+            singular: job.singular.clone(),
+            walls: job.walls.clone(),
+            chambers,
+            chamber_of,
+            warnings: Vec::new(),
+        };
+        let mut opts = MapOptions::new(VIEW_PX, VIEW_PX, self.scenario.theme);
+        opts.param_name = param.clone();
+        opts.current = Some(value);
+        let scene = build_param_map(&job.grid, &summary, &opts);
+        let (rect, response) =
+            ui.allocate_exact_size(egui::vec2(VIEW_PX, VIEW_PX), egui::Sense::click());
+        map.view_rect = Some(rect);
+        let painter = ui.painter_at(rect);
+        for layer in &scene.layers {
+            paint_layer(&painter, layer, rect.min.to_vec2());
+        }
+        if response.clicked() {
+            if let Some(pos) = response.interact_pointer_pos() {
+                let t = map_transform(&job.grid, VIEW_PX, VIEW_PX);
+                let p = t.to_plane([pos.x - rect.min.x, pos.y - rect.min.y]);
+                self.commands
+                    .push(Command::SetParam(param.clone(), [p.re, p.im]));
+                self.commands.push(Command::EndInteraction);
+            }
+        }
+        let status = if job.filled < job.grid.len() {
+            format!(
+                "computing: {} of {} points",
+                job.filled,
+                job.grid.len()
+            )
+        } else if job.walls.is_empty() && job.singular.is_empty() {
+            format!("{} points", job.grid.len())
+        } else {
+            format!(
+                "{} points, {} wall(s), {} singular point(s)",
+                job.grid.len(),
+                job.walls.len(),
+                job.singular.len()
+            )
+        };
+        ui.label(status);
+        ui.label("Click to set the parameter.");
+    }
+}

@@ -1,0 +1,332 @@
+//! The chamber map of a parameter plane as a figure: chambers filled by
+//! their spectrum (the same spectrum, the same colour), the walls of
+//! marginal stability, the singular points, and optionally the current
+//! parameter value. The same [`Scene`] as every other figure, so the window,
+//! the SVG and the PNG writers draw it alike.
+
+use super::build::{background_layer, grid_named, text_width_em};
+use super::palette::theme_colors;
+use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
+use crate::scan::summary::MapSummary;
+use crate::scan::Grid;
+use crate::scenario::Theme;
+use num_complex::Complex64;
+
+/// Names of the map's layers, bottom to top.
+pub mod map_layer_names {
+    pub const BACKGROUND: &str = super::super::layer_names::BACKGROUND;
+    pub const CHAMBERS: &str = "chambers";
+    pub const GRID: &str = "grid";
+    pub const WALLS: &str = "walls of marginal stability";
+    pub const SINGULAR: &str = "singular points";
+    pub const CURRENT: &str = "current point";
+    pub const LEGEND: &str = "legend";
+    pub const TITLE: &str = "title";
+}
+use map_layer_names as names;
+
+/// How the map looks.
+#[derive(Clone, Debug, PartialEq)]
+pub struct MapOptions {
+    pub width: f32,
+    pub height: f32,
+    pub theme: Theme,
+    pub title: Option<String>,
+    /// The parameter's name, for the axes ("Re u", "Im u").
+    pub param_name: String,
+    /// A marker at this parameter value (the window's current point).
+    pub current: Option<Complex64>,
+    pub legend: bool,
+}
+
+impl MapOptions {
+    pub fn new(width: f32, height: f32, theme: Theme) -> Self {
+        Self {
+            width,
+            height,
+            theme,
+            title: None,
+            param_name: "u".into(),
+            current: None,
+            legend: true,
+        }
+    }
+
+    fn scale(&self) -> f32 {
+        let s = (self.width.min(self.height) / 800.0).clamp(0.5, 3.0);
+        if s.is_finite() {
+            s
+        } else {
+            1.0
+        }
+    }
+}
+
+/// Chamber fills: the Okabe-Ito colours (yellow included: as a
+/// translucent fill it reads on paper) and a neutral grey, in an order that
+/// keeps neighbours apart. From the ninth class on they repeat.
+const CHAMBER_FILLS: [Rgba; 8] = [
+    Rgba::rgb(0x00, 0x9E, 0x73), // bluish green
+    Rgba::rgb(0x56, 0xB4, 0xE9), // sky blue
+    Rgba::rgb(0xE6, 0x9F, 0x00), // orange
+    Rgba::rgb(0xCC, 0x79, 0xA7), // reddish purple
+    Rgba::rgb(0xF0, 0xE4, 0x42), // yellow
+    Rgba::rgb(0x00, 0x72, 0xB2), // blue
+    Rgba::rgb(0xD5, 0x5E, 0x00), // vermillion
+    Rgba::rgb(0x99, 0x99, 0x99), // grey
+];
+
+/// The fill of chamber class `class` (translucent, so the grid shows).
+pub fn chamber_color(class: usize, theme: Theme) -> Rgba {
+    let c = CHAMBER_FILLS[class % CHAMBER_FILLS.len()];
+    let alpha = match theme {
+        Theme::Paper => 90,
+        Theme::Projector => 110,
+    };
+    Rgba([c.0[0], c.0[1], c.0[2], alpha])
+}
+
+/// The view: the grid's rectangle with a margin.
+pub fn map_transform(grid: &Grid, width: f32, height: f32) -> Transform {
+    let cx = 0.5 * (grid.re[0] + grid.re[1]);
+    let cy = 0.5 * (grid.im[0] + grid.im[1]);
+    let w = (grid.re[1] - grid.re[0]).max(1e-9);
+    let h = (grid.im[1] - grid.im[0]).max(1e-9);
+    let aspect = f64::from(width / height.max(1.0));
+    let half_width = 0.56 * w.max(h * aspect);
+    Transform::new([cx, cy], half_width, width, height)
+}
+
+/// A short description of a chamber's spectrum, for the legend.
+pub fn signature_label(sig: [usize; 3]) -> String {
+    let mut parts = Vec::new();
+    for (n, one, many) in [
+        (sig[1], "vector", "vectors"),
+        (sig[0], "hyper", "hypers"),
+        (sig[2], "other", "others"),
+    ] {
+        if n > 0 {
+            parts.push(format!("{n} {}", if n == 1 { one } else { many }));
+        }
+    }
+    if parts.is_empty() {
+        "no states".into()
+    } else {
+        parts.join(" + ")
+    }
+}
+
+/// Builds the figure of a map.
+pub fn build_param_map(grid: &Grid, summary: &MapSummary, opts: &MapOptions) -> Scene {
+    let colors = theme_colors(opts.theme);
+    let s = opts.scale();
+    let t = map_transform(grid, opts.width, opts.height);
+    let valid = t.is_valid();
+    let mut layers = vec![background_layer(&t, &colors)];
+    let mut push = |name: &str, shapes: Vec<Shape>| {
+        layers.push(Layer {
+            name: name.into(),
+            shapes,
+        });
+    };
+    // Chambers: each grid point owns the cell around it; runs of equal
+    // class along a row become one rectangle.
+    let mut cells = Vec::new();
+    if valid && summary.chamber_of.len() == grid.len() {
+        let [dx, dy] = grid.spacing();
+        let (hx, hy) = (0.5 * dx, 0.5 * dy);
+        let class_of = |idx: usize| {
+            summary.chamber_of[idx]
+                .and_then(|c| summary.chambers.get(c))
+                .map(|c| c.class)
+        };
+        for row in 0..grid.n_im {
+            let mut col = 0;
+            while col < grid.n_re {
+                let class = class_of(grid.index(col, row));
+                let mut end = col;
+                while end + 1 < grid.n_re && class_of(grid.index(end + 1, row)) == class {
+                    end += 1;
+                }
+                if let Some(class) = class {
+                    let a = grid.point(grid.index(col, row)) - Complex64::new(hx, hy);
+                    let b = grid.point(grid.index(end, row)) + Complex64::new(hx, hy);
+                    let (pa, pb) = (t.to_screen(a), t.to_screen(b));
+                    cells.push(Shape::Rect {
+                        min: [pa[0].min(pb[0]), pa[1].min(pb[1])],
+                        max: [pa[0].max(pb[0]), pa[1].max(pb[1])],
+                        fill: chamber_color(class, opts.theme),
+                        stroke: None,
+                    });
+                }
+                col = end + 1;
+            }
+        }
+    }
+    push(names::CHAMBERS, cells);
+    let axes = [
+        format!("Re {}", opts.param_name),
+        format!("Im {}", opts.param_name),
+    ];
+    push(
+        names::GRID,
+        if valid {
+            grid_named(&t, &colors, s, [axes[0].as_str(), axes[1].as_str()])
+        } else {
+            Vec::new()
+        },
+    );
+    let wall_rgba = colors.foreground;
+    let walls = summary
+        .walls
+        .iter()
+        .filter(|_| valid)
+        .map(|w| Shape::Polyline {
+            points: w.points.iter().map(|&z| t.to_screen(z)).collect(),
+            width: 2.2 * s,
+            color: wall_rgba,
+            dashed: false,
+            item: Item::Decoration,
+        })
+        .collect();
+    push(names::WALLS, walls);
+    let singular = summary
+        .singular
+        .iter()
+        .filter(|_| valid)
+        .map(|p| Shape::Square {
+            center: t.to_screen(p.param),
+            half: 5.0 * s,
+            fill: Some(colors.foreground),
+            stroke: Some((1.0 * s, colors.background)),
+            diamond: true,
+            item: Item::Decoration,
+        })
+        .collect();
+    push(names::SINGULAR, singular);
+    let current = match opts.current.filter(|z| z.is_finite() && valid) {
+        Some(z) => vec![Shape::Circle {
+            center: t.to_screen(z),
+            radius: 6.0 * s,
+            fill: None,
+            stroke: Some((2.0 * s, colors.foreground)),
+            item: Item::Decoration,
+        }],
+        None => Vec::new(),
+    };
+    push(names::CURRENT, current);
+    push(
+        names::LEGEND,
+        if opts.legend && valid {
+            legend(summary, opts, s)
+        } else {
+            Vec::new()
+        },
+    );
+    let title = match &opts.title {
+        Some(text) if !text.trim().is_empty() => vec![Shape::Text {
+            pos: [t.width / 2.0, 26.0 * s],
+            text: text.clone(),
+            size: 17.0 * s,
+            color: colors.foreground,
+            anchor: Anchor::Middle,
+        }],
+        _ => Vec::new(),
+    };
+    push(names::TITLE, title);
+    Scene {
+        transform: t,
+        background: colors.background,
+        layers,
+    }
+}
+
+/// A box at the top right: one row per chamber class, then the wall and
+/// the singular points.
+fn legend(summary: &MapSummary, opts: &MapOptions, s: f32) -> Vec<Shape> {
+    let colors = theme_colors(opts.theme);
+    let text_size = 13.0 * s;
+    let row_h = 1.45 * text_size;
+    let pad = 0.7 * text_size;
+    let swatch = 1.1 * text_size;
+    let mut classes: Vec<(usize, [usize; 3])> = Vec::new();
+    for c in &summary.chambers {
+        if !classes.iter().any(|(k, _)| *k == c.class) {
+            classes.push((c.class, c.signature));
+        }
+    }
+    classes.sort_by_key(|(k, _)| *k);
+    enum Row {
+        Chamber(usize, String),
+        Wall,
+        Singular,
+    }
+    let mut rows: Vec<Row> = classes
+        .iter()
+        .map(|(k, sig)| Row::Chamber(*k, signature_label(*sig)))
+        .collect();
+    if !summary.walls.is_empty() {
+        rows.push(Row::Wall);
+    }
+    if !summary.singular.is_empty() {
+        rows.push(Row::Singular);
+    }
+    if rows.is_empty() {
+        return Vec::new();
+    }
+    let text = |r: &Row| match r {
+        Row::Chamber(_, t) => t.clone(),
+        Row::Wall => "wall of marginal stability".into(),
+        Row::Singular => "singular point".into(),
+    };
+    let text_w = rows
+        .iter()
+        .map(|r| text_width_em(&text(r)) * text_size)
+        .fold(0.0_f32, f32::max);
+    let box_w = 2.0 * pad + swatch + 0.6 * text_size + text_w;
+    let box_h = 2.0 * pad + row_h * rows.len() as f32 - (row_h - text_size);
+    let has_title = opts.title.as_ref().is_some_and(|x| !x.trim().is_empty());
+    let top = if has_title { 40.0 * s } else { 12.0 * s };
+    let left = opts.width - 12.0 * s - box_w;
+    let mut shapes = vec![Shape::Rect {
+        min: [left, top],
+        max: [left + box_w, top + box_h],
+        fill: colors.legend_fill,
+        stroke: Some((1.0 * s, colors.legend_stroke)),
+    }];
+    for (k, row) in rows.iter().enumerate() {
+        let y = top + pad + row_h * k as f32 + 0.5 * text_size;
+        let x0 = left + pad;
+        match row {
+            Row::Chamber(class, _) => shapes.push(Shape::Rect {
+                min: [x0, y - 0.5 * swatch],
+                max: [x0 + swatch, y + 0.5 * swatch],
+                fill: chamber_color(*class, opts.theme),
+                stroke: Some((0.8 * s, colors.legend_stroke)),
+            }),
+            Row::Wall => shapes.push(Shape::Polyline {
+                points: vec![[x0, y], [x0 + swatch, y]],
+                width: 2.2 * s,
+                color: colors.foreground,
+                dashed: false,
+                item: Item::Decoration,
+            }),
+            Row::Singular => shapes.push(Shape::Square {
+                center: [x0 + 0.5 * swatch, y],
+                half: 5.0 * s,
+                fill: Some(colors.foreground),
+                stroke: None,
+                diamond: true,
+                item: Item::Decoration,
+            }),
+        }
+        shapes.push(Shape::Text {
+            pos: [x0 + swatch + 0.6 * text_size, y + 0.35 * text_size],
+            text: text(row),
+            size: text_size,
+            color: colors.foreground,
+            anchor: Anchor::Start,
+        });
+    }
+    shapes
+}

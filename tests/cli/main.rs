@@ -1,0 +1,15 @@
+//! The `wallflower` binary as a user runs it: every command, its output
+//! formats and its answers to bad input. One test binary; each module is
+//! one command or concern.
+
+#[path = "../support/mod.rs"]
+mod support;
+
+mod bad_input;
+mod commands;
+mod draw_state;
+mod jump;
+mod spectrum;
+mod sweep;
+mod charges_crossing;
+mod scan;

@@ -1,0 +1,136 @@
+//! `wallflower spectrum` and `wallflower crossing` on published facts:
+//! q = z^2 - 1 has one hypermultiplet with |Z| = pi (Bohr-Sommerfeld: the
+//! area of the classical orbit), and the cubic q = z^3 - 3z + u along
+//! u = 0.7 + it crosses a wall of marginal stability where the count goes
+//! 2 -> 3 with Z_(g1+g2) = Z_g1 + Z_g2 (the pentagon identity,
+//! Kontsevich-Soibelman; Gaiotto-Moore-Neitzke 2008).
+
+use crate::support::run;
+use wallflower::samples::OSCILLATOR;
+
+#[test]
+fn oscillator_json_contract() {
+    let (code, out, err) = run(&[
+        "spectrum",
+        "--curve",
+        OSCILLATOR.equation,
+        "--reach",
+        "8",
+        "--json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    assert_eq!(v["reach"].as_f64(), Some(8.0));
+    let states = v["states"].as_array().unwrap();
+    assert_eq!(states.len(), 1);
+    let s = &states[0];
+    let tol = OSCILLATOR.tolerance;
+    assert!((s["abs"].as_f64().unwrap() - std::f64::consts::PI).abs() < tol);
+    assert_eq!(s["kind"], "hyper");
+    assert_eq!(s["omega"].as_i64(), Some(1));
+    assert_eq!(s["reach"].as_f64(), Some(8.0));
+    assert!(s["phase"].as_f64().is_some() && s["z"].as_array().unwrap().len() == 2);
+}
+
+#[test]
+fn csv_has_a_header_and_one_row_per_state() {
+    let (code, out, _) = run(&["spectrum", "--curve", "y^2 = z^3 - 1", "--csv"]);
+    assert_eq!(code, 0);
+    let lines: Vec<&str> = out.lines().collect();
+    assert_eq!(lines[0], "re_z,im_z,abs,phase,kind,omega,z_error");
+    assert_eq!(lines.len(), 4, "three hypermultiplets: {out}");
+    assert!(
+        lines.iter().all(|l| l.len() < 200),
+        "numbers stay short: {out}"
+    );
+}
+
+#[test]
+fn crossing_finds_the_pentagon_wall() {
+    let (code, out, err) = run(&[
+        "crossing",
+        "--curve",
+        "y^2 = z^3 - 3 z + u",
+        "--from",
+        "u=0.7+0.5i",
+        "--to",
+        "u=0.7+3i",
+        "--steps",
+        "6",
+        "--reach",
+        "20",
+        "--json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let changes = v["crossings"].as_array().unwrap();
+    assert_eq!(changes.len(), 1);
+    let c = &changes[0];
+    let (before, after) = (
+        c["before"].as_array().unwrap(),
+        c["after"].as_array().unwrap(),
+    );
+    assert_eq!((before.len(), after.len()), (2, 3));
+    // The new state's charge is the sum of the other two.
+    let z = |s: &serde_json::Value| (s["z"][0].as_f64().unwrap(), s["z"][1].as_f64().unwrap());
+    let mut zs: Vec<(f64, f64)> = after.iter().map(z).collect();
+    zs.sort_by(|a, b| (a.0.hypot(a.1)).total_cmp(&b.0.hypot(b.1)));
+    let sum = (zs[0].0 + zs[1].0, zs[0].1 + zs[1].1);
+    assert!(
+        (sum.0 - zs[2].0).hypot(sum.1 - zs[2].1) < 1e-6 * zs[2].0.hypot(zs[2].1),
+        "{zs:?}"
+    );
+    // Where arg Z_g1 = arg Z_g2: u = 0.7 + 1.70956i (an independent search in the engine tests).
+    assert!(
+        (c["value"][1].as_f64().unwrap() - 1.709_561_4).abs() < 1e-5,
+        "{c}"
+    );
+}
+
+#[test]
+fn crossing_bad_input_exits_2() {
+    for args in [
+        vec![
+            "crossing",
+            "--curve",
+            "y^2 = z^3 - 3 z + u",
+            "--from",
+            "u=1",
+            "--to",
+            "v=2",
+        ],
+        vec![
+            "crossing",
+            "--curve",
+            "y^2 = z^3 - 3 z + u",
+            "--from",
+            "u1",
+            "--to",
+            "u=2",
+        ],
+        vec![
+            "crossing",
+            "--curve",
+            "y^2 = z^3 - 3 z + u",
+            "--from",
+            "w=1",
+            "--to",
+            "w=2",
+        ],
+        vec![
+            "crossing",
+            "--curve",
+            "y^2 = z^3 - 3 z + u",
+            "--from",
+            "u=1",
+            "--to",
+            "u=2",
+            "--steps",
+            "0",
+        ],
+    ] {
+        let (code, _, err) = run(&args);
+        assert_eq!(code, 2, "{args:?}: {err}");
+        assert_eq!(err.trim().lines().count(), 1, "{args:?}: {err}");
+    }
+}

@@ -1,0 +1,377 @@
+//! Chamber maps of a parameter plane (`wallflower::scan`): singular points,
+//! walls of marginal stability and chambers, checked against published
+//! facts and against an independent quadrature of the periods written
+//! here (trapezoidal rule on ellipses, its own square roots and sign
+//! continuation; nothing from the engine).
+
+use num_complex::Complex64;
+use std::f64::consts::TAU;
+use wallflower::algebra::parse_equation;
+use wallflower::scan::singular::branch_polynomial;
+use wallflower::scan::summary::{summarize, MapSummary};
+use wallflower::scan::walls::PointStates;
+use wallflower::scan::{self, Grid};
+use wallflower::scenario::Scenario;
+use wallflower::spectrum::{Kind, SpectrumSettings};
+use wallflower::CancelToken;
+
+fn c(re: f64, im: f64) -> Complex64 {
+    Complex64::new(re, im)
+}
+
+/// Scans `equation` over `grid` (2 threads) and builds its map.
+fn map_of(equation: &str, grid: Grid, reach: f64) -> (Vec<PointStates>, MapSummary) {
+    let scenario = Scenario {
+        curve: Some(equation.to_string()),
+        quadratic: None,
+        params: [("u".to_string(), [0.0, 0.0])].into_iter().collect(),
+        ..Scenario::default()
+    };
+    let curve_at = |p: Complex64| {
+        let mut sc = scenario.clone();
+        sc.params.insert("u".into(), [p.re, p.im]);
+        sc.build_curve().map_err(|e| e.to_string())
+    };
+    let eq = parse_equation(equation).expect("equation");
+    let poly_at = |p: Complex64| {
+        let values = [("u".to_string(), p)].into_iter().collect();
+        branch_polynomial(&eq.evaluate(&values).ok()?)
+    };
+    let settings = SpectrumSettings {
+        reach,
+        ..SpectrumSettings::default()
+    };
+    let indices: Vec<usize> = (0..grid.len()).collect();
+    let mut points = Vec::new();
+    let outcome = scan::run(
+        &grid,
+        &indices,
+        &curve_at,
+        &settings,
+        2,
+        &CancelToken::new(),
+        &mut |r| {
+            points.push(PointStates {
+                param: r.param,
+                states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
+                usable: true,
+            });
+            true
+        },
+    );
+    assert!(!outcome.stopped);
+    let summary = summarize(
+        &grid,
+        &points,
+        &curve_at,
+        Some(&poly_at),
+        &settings,
+        &CancelToken::new(),
+    );
+    (points, summary)
+}
+
+/// `2 sqrt(q)` integrated once around the ellipse with foci `f1`, `f2`
+/// (semi-minor axis `minor`), with the sign continued node to node.
+fn ellipse_period(q: &dyn Fn(Complex64) -> Complex64, f1: Complex64, f2: Complex64, minor: f64) -> Complex64 {
+    let centre = (f1 + f2) * 0.5;
+    let half = (f2 - f1) * 0.5;
+    let dir = half / half.norm();
+    let major = (half.norm_sqr() + minor * minor).sqrt();
+    let n = 8192;
+    let mut prev: Option<Complex64> = None;
+    let mut total = c(0.0, 0.0);
+    for k in 0..n {
+        let phi = TAU * k as f64 / n as f64;
+        let z = centre + dir * c(major * phi.cos(), minor * phi.sin());
+        let dz = dir * c(-major * phi.sin(), minor * phi.cos());
+        let mut d = q(z).sqrt() * 2.0;
+        if let Some(p) = prev {
+            if (d - p).norm() > (d + p).norm() {
+                d = -d;
+            }
+        }
+        prev = Some(d);
+        total += d * dz;
+    }
+    total * (TAU / n as f64)
+}
+
+/// The period around the pair `f1`, `f2` on the thickest ellipse that keeps
+/// every point of `others` well outside (sum of focal distances above 1.2
+/// times the major axis).
+fn loop_period(q: &dyn Fn(Complex64) -> Complex64, f1: Complex64, f2: Complex64, others: &[Complex64]) -> Complex64 {
+    let half = 0.5 * (f2 - f1).norm();
+    let mut minor = half;
+    for _ in 0..20 {
+        let major = (half * half + minor * minor).sqrt();
+        if others.iter().all(|s| (s - f1).norm() + (s - f2).norm() > 2.4 * major) {
+            break;
+        }
+        minor *= 0.5;
+    }
+    ellipse_period(q, f1, f2, minor)
+}
+
+/// `Im(a conj b) / (|a|^2 + |b|^2)` for two periods, each continued in
+/// sign from `reference` (so that nearby evaluations are consistent). For
+/// a basis of the charge lattice, `Im(Z_1 conj Z_2)` changes only by the
+/// determinant (+-1) under a change of basis, so its zero set, the wall,
+/// is that of `Im(Z_D conj Z_W)` whichever basis is used; the denominator
+/// never vanishes (unlike `|a| |b|` where one period passes through 0).
+fn alignment(pair: &dyn Fn(Complex64) -> [Complex64; 2], u: Complex64, reference: [Complex64; 2]) -> f64 {
+    let [mut a, mut b] = pair(u);
+    if (a - reference[0]).norm() > (a + reference[0]).norm() {
+        a = -a;
+    }
+    if (b - reference[1]).norm() > (b + reference[1]).norm() {
+        b = -b;
+    }
+    (a * b.conj()).im / (a.norm_sqr() + b.norm_sqr())
+}
+
+/// Distance from `u` to the zero set of the alignment of two independent
+/// periods (Newton steps on the real function along its gradient).
+fn distance_to_zero_set(pair: &dyn Fn(Complex64) -> [Complex64; 2], u: Complex64) -> f64 {
+    let reference = pair(u);
+    let mut v = u;
+    for _ in 0..4 {
+        let h = 1e-6;
+        let f = alignment(pair, v, reference);
+        let gx = (alignment(pair, v + c(h, 0.0), reference) - alignment(pair, v - c(h, 0.0), reference)) / (2.0 * h);
+        let gy = (alignment(pair, v + c(0.0, h), reference) - alignment(pair, v - c(0.0, h), reference)) / (2.0 * h);
+        let g2 = gx * gx + gy * gy;
+        v -= c(gx, gy) * (f / g2);
+    }
+    (v - u).norm()
+}
+
+fn inside(polygon: &[Complex64], p: Complex64) -> bool {
+    let mut odd = false;
+    for w in polygon.windows(2) {
+        let (a, b) = (w[0], w[1]);
+        if (a.im > p.im) != (b.im > p.im) {
+            let x = a.re + (p.im - a.im) * (b.re - a.re) / (b.im - a.im);
+            if x > p.re {
+                odd = !odd;
+            }
+        }
+    }
+    odd
+}
+
+fn distance_to_polyline(polyline: &[Complex64], p: Complex64) -> f64 {
+    polyline
+        .windows(2)
+        .map(|w| {
+            let (a, b) = (w[0], w[1]);
+            let t = ((p - a) * (b - a).conj()).re / (b - a).norm_sqr().max(1e-300);
+            (a + (b - a) * t.clamp(0.0, 1.0) - p).norm()
+        })
+        .fold(f64::INFINITY, f64::min)
+}
+
+#[test]
+fn pure_su2_map_has_two_singular_points_and_one_closed_wall_through_them() {
+    let grid = Grid {
+        re: [-2.0, 2.0],
+        im: [-2.0, 2.0],
+        n_re: 21,
+        n_im: 21,
+    };
+    let (points, map) = map_of("y^2 = (z^2 + 2 u z + 1)/z^3", grid, 40.0);
+    // Seiberg-Witten 1994: the strong-coupling singularities at u = +-Lambda^2
+    // (here the branch points -u +- sqrt(u^2 - 1) collide at u = +-1).
+    assert_eq!(map.singular.len(), 2, "{:?}", map.singular);
+    assert!((map.singular[0].param - c(-1.0, 0.0)).norm() < 1e-10);
+    assert!((map.singular[1].param - c(1.0, 0.0)).norm() < 1e-10);
+    assert!((map.singular[0].z - c(1.0, 0.0)).norm() < 1e-6, "they meet at z = -u");
+
+    // One closed wall through both singular points.
+    assert_eq!(map.walls.len(), 1, "{:?}", map.walls.len());
+    let wall = &map.walls[0];
+    assert!(wall.closed);
+    for s in &map.singular {
+        assert!(wall.points.contains(&s.param), "the wall passes through {}", s.param);
+    }
+    assert!(wall.points.len() > 40, "refined between grid points: {}", wall.points.len());
+
+    // Its points lie on the zero set of Im(Z_1 conj Z_2) for a basis of
+    // periods (the loops around each branch point and the odd pole at 0,
+    // on ellipses that keep the other branch point outside), to 1e-6.
+    let pair = |u: Complex64| {
+        let q = |z: Complex64| (z * z + u * z * 2.0 + 1.0) / (z * z * z);
+        let r = (u * u - 1.0).sqrt();
+        let (b1, b2) = (-u + r, -u - r);
+        let (near, far) = if b1.norm() < b2.norm() { (b1, b2) } else { (b2, b1) };
+        let zero = c(0.0, 0.0);
+        [loop_period(&q, near, zero, &[far]), loop_period(&q, far, zero, &[near])]
+    };
+    let mut checked = 0;
+    for &p in &wall.points {
+        if map.singular.iter().any(|s| (s.param - p).norm() < 0.15) {
+            continue; // the periods vanish there: the alignment is 0/0
+        }
+        let d = distance_to_zero_set(&pair, p);
+        assert!(d < 1e-6, "wall point {p}: {d:e} from the zero set");
+        checked += 1;
+    }
+    assert!(checked > 30);
+
+    // Inside exactly the two hypermultiplets; outside the W boson (a
+    // vector multiplet) and dyons whose Z differ by multiples of Z_W
+    // (Seiberg-Witten 1994; Bilal-Ferrari 1996). Points near the wall or a
+    // singular point are left out: there the finder's resolution decides.
+    let spacing = grid.spacing()[0];
+    let (mut n_in, mut n_out) = (0, 0);
+    for p in &points {
+        let far_from_singular = map.singular.iter().all(|s| (s.param - p.param).norm() > 2.5 * spacing);
+        if !far_from_singular || distance_to_polyline(&wall.points, p.param) < 0.5 * spacing {
+            continue;
+        }
+        let kinds: Vec<Kind> = p.states.iter().map(|s| s.1).collect();
+        if inside(&wall.points, p.param) {
+            n_in += 1;
+            assert_eq!(kinds, vec![Kind::Hyper, Kind::Hyper], "inside at {}", p.param);
+        } else {
+            n_out += 1;
+            let vectors: Vec<Complex64> = p.states.iter().filter(|s| s.1 == Kind::Vector).map(|s| s.0).collect();
+            assert_eq!(vectors.len(), 1, "one W outside at {}", p.param);
+            let zw = vectors[0];
+            let hypers: Vec<Complex64> = p.states.iter().filter(|s| s.1 == Kind::Hyper).map(|s| s.0).collect();
+            assert!(hypers.len() >= 2, "dyons outside at {}", p.param);
+            for a in &hypers {
+                for b in &hypers {
+                    let n = [(a - b) / zw, (a + b) / zw]
+                        .into_iter()
+                        .map(|r| (r.re - r.re.round()).abs() + r.im.abs())
+                        .fold(f64::INFINITY, f64::min);
+                    assert!(n < 1e-6, "dyons at {} differ by a multiple of Z_W", p.param);
+                }
+            }
+        }
+    }
+    assert!(n_in > 20 && n_out > 100, "{n_in} inside, {n_out} outside");
+}
+
+#[test]
+fn argyres_douglas_cubic_has_singular_points_at_plus_minus_two_and_chambers_of_two_and_three() {
+    let grid = Grid {
+        re: [-4.0, 4.0],
+        im: [-4.0, 4.0],
+        n_re: 17,
+        n_im: 17,
+    };
+    let (points, map) = map_of("y^2 = z^3 - 3 z + u", grid, 30.0);
+    // The discriminant of z^3 - 3z + u is -27 (u^2 - 4): zeros u = +-2.
+    assert_eq!(map.singular.len(), 2, "{:?}", map.singular);
+    assert!((map.singular[0].param - c(-2.0, 0.0)).norm() < 1e-10);
+    assert!((map.singular[1].param - c(2.0, 0.0)).norm() < 1e-10);
+    // Chambers of 2 and of 3 hypermultiplets (the pentagon: {g1, g2} and
+    // {g1, g1 + g2, g2}), separated by one closed wall.
+    let sigs: Vec<[usize; 3]> = map.chambers.iter().map(|c| c.signature).collect();
+    assert!(sigs.contains(&[2, 0, 0]) && sigs.contains(&[3, 0, 0]), "{sigs:?}");
+    assert_eq!(map.walls.len(), 1);
+    let wall = &map.walls[0];
+    assert!(wall.closed);
+    // The inner chamber has 2 states, the outer 3.
+    let spacing = grid.spacing()[0];
+    for p in &points {
+        if map.singular.iter().any(|s| (s.param - p.param).norm() < 1.5 * spacing)
+            || distance_to_polyline(&wall.points, p.param) < 0.5 * spacing
+        {
+            continue;
+        }
+        let expected = if inside(&wall.points, p.param) { 2 } else { 3 };
+        assert_eq!(p.states.len(), expected, "at {}", p.param);
+    }
+    // On the wall the two states' Z align: checked with independent periods
+    // around pairs of the three zeros of z^3 - 3z + u.
+    let pair = |u: Complex64| {
+        let q = |z: Complex64| z * z * z - z * 3.0 + u;
+        let mut e = wallflower::algebra::Poly::new(vec![u, c(-3.0, 0.0), c(0.0, 0.0), c(1.0, 0.0)]).roots();
+        e.sort_by(|a, b| a.re.total_cmp(&b.re));
+        [loop_period(&q, e[0], e[1], &[e[2]]), loop_period(&q, e[1], e[2], &[e[0]])]
+    };
+    let mut checked = 0;
+    for &p in &wall.points {
+        if map.singular.iter().any(|s| (s.param - p).norm() < 0.3) {
+            continue;
+        }
+        let d = distance_to_zero_set(&pair, p);
+        assert!(d < 1e-6, "wall point {p}: {d:e} from the zero set");
+        checked += 1;
+    }
+    assert!(checked > 20);
+}
+
+#[test]
+fn parallel_results_equal_serial_results_and_cancel_is_prompt() {
+    let scenario = Scenario {
+        curve: Some("y^2 = z^3 - 3 z + u".to_string()),
+        quadratic: None,
+        params: [("u".to_string(), [0.0, 0.0])].into_iter().collect(),
+        ..Scenario::default()
+    };
+    let curve_at = |p: Complex64| {
+        let mut sc = scenario.clone();
+        sc.params.insert("u".into(), [p.re, p.im]);
+        sc.build_curve().map_err(|e| e.to_string())
+    };
+    let grid = Grid {
+        re: [-3.0, 3.0],
+        im: [-3.0, 3.0],
+        n_re: 6,
+        n_im: 5,
+    };
+    let settings = SpectrumSettings {
+        reach: 20.0,
+        ..SpectrumSettings::default()
+    };
+    let indices: Vec<usize> = (0..grid.len()).collect();
+    let collect = |threads: usize| {
+        let mut out = Vec::new();
+        scan::run(&grid, &indices, &curve_at, &settings, threads, &CancelToken::new(), &mut |r| {
+            out.push(r);
+            true
+        });
+        out
+    };
+    let serial = collect(1);
+    assert_eq!(serial.len(), grid.len());
+    assert!(serial.iter().enumerate().all(|(k, r)| r.index == k));
+    assert_eq!(collect(3), serial, "three threads, same results in the same order");
+
+    // Cancelled mid-run: what was delivered is a prefix, and the run ends
+    // soon after the request. The machine is shared, so the best of three
+    // trials is held to the 50 ms target.
+    let big = Grid { n_re: 40, n_im: 40, ..grid };
+    let all: Vec<usize> = (0..big.len()).collect();
+    let mut best = std::time::Duration::MAX;
+    for trial in 0..3 {
+        let cancel = CancelToken::new();
+        let mut delivered = Vec::new();
+        let latency = std::thread::scope(|s| {
+            let canceller = cancel.clone();
+            let (tx, rx) = std::sync::mpsc::channel();
+            s.spawn(move || {
+                std::thread::sleep(std::time::Duration::from_millis(200 + 50 * trial));
+                let asked = std::time::Instant::now();
+                canceller.cancel();
+                tx.send(asked).ok();
+            });
+            let outcome = scan::run(&big, &all, &curve_at, &settings, 2, &cancel, &mut |r| {
+                delivered.push(r.index);
+                true
+            });
+            let done = std::time::Instant::now();
+            assert!(outcome.stopped);
+            done.duration_since(rx.recv().expect("cancel time"))
+        });
+        assert!(!delivered.is_empty() && delivered.len() < big.len());
+        assert!(delivered.iter().enumerate().all(|(k, &i)| i == k), "a prefix in grid order");
+        eprintln!("cancel latency: {latency:?}");
+        best = best.min(latency);
+    }
+    assert!(best.as_millis() < 50, "cancelled after {best:?} at best");
+}

@@ -1,0 +1,102 @@
+//! The spectrum finder's contract at its edges: bad settings give readable
+//! messages, rank 3 gives webs (index 1 or unknown, never guessed), and
+//! cancellation returns promptly with a partial result.
+
+use num_complex::Complex64;
+use wallflower::spectrum::{find, SpectrumSettings};
+use wallflower::{CancelToken, Curve};
+
+use crate::support::curve;
+
+#[test]
+fn invalid_settings_are_reported_not_run() {
+    let settings = SpectrumSettings {
+        reach: -1.0,
+        theta_samples: 2,
+        ..SpectrumSettings::default()
+    };
+    let errors = settings.validate().unwrap_err();
+    assert_eq!(errors.len(), 2, "{errors:?}");
+    assert!(errors[0].contains("reach"));
+    assert!(errors[1].contains("theta_samples"));
+    let spec = find(
+        &curve("y^2 = z^2 - 1"),
+        &settings,
+        &CancelToken::new(),
+        &mut |_| {},
+    );
+    assert!(spec.states.is_empty());
+    assert_eq!(spec.warnings, errors);
+}
+
+/// Rank 3 is computed now (finite webs, tests/engine/spectrum_rank3.rs): no
+/// refusal, and every state's index is 1 or explicitly unknown.
+#[test]
+fn rank_three_gives_webs_not_a_refusal() {
+    let spec = find(
+        &curve("y^3 - 3 z y + z^3 - 1 = 0"),
+        &SpectrumSettings::default(),
+        &CancelToken::new(),
+        &mut |_| {},
+    );
+    assert!(!spec.states.is_empty(), "{:?}", spec.warnings);
+    assert!(
+        !spec
+            .warnings
+            .iter()
+            .any(|w| w.contains("only computed for rank 2")),
+        "{:?}",
+        spec.warnings
+    );
+    assert!(spec
+        .states
+        .iter()
+        .all(|s| s.omega == Some(1) || s.omega.is_none()));
+}
+
+#[test]
+fn cancelled_before_start_returns_partial_and_says_so() {
+    let cancel = CancelToken::new();
+    cancel.cancel();
+    let c = |re: f64| Complex64::new(re, 0.0);
+    let curve = Curve::from_quadratic(c(1.0), &[c(1.0), c(-1.0), c(0.3)], &[]).unwrap();
+    let t = std::time::Instant::now();
+    let spec = find(&curve, &SpectrumSettings::default(), &cancel, &mut |_| {});
+    assert!(t.elapsed().as_secs_f64() < 1.0);
+    assert!(spec.cancelled);
+    assert!(spec.warnings.iter().any(|w| w.contains("cancelled")));
+}
+
+/// Ring domains are only sought around pairs of odd points: a curve with
+/// six odd points (where classes around four of them exist) says so, one
+/// with four does not need to. Counting: a polynomial q of degree n has n
+/// simple zeros and a pole of order n + 4 at infinity, odd when n is odd.
+#[test]
+fn ring_domain_classes_not_sought_are_announced() {
+    let settings = SpectrumSettings {
+        reach: 3.0,
+        ..SpectrumSettings::default()
+    };
+    let run = |text: &str| find(&curve(text), &settings, &CancelToken::new(), &mut |_| {});
+    let six = run("y^2 = (z^2 - 1)(z^2 - 4)(z^2 - 9)");
+    assert!(
+        six.warnings.iter().any(|w| w.contains("with 6 odd points")),
+        "{:?}",
+        six.warnings
+    );
+    // Degree 5: five zeros and an odd pole at infinity, six in all.
+    let five = run("y^2 = z^5 - 3 z + 1");
+    assert!(
+        five.warnings
+            .iter()
+            .any(|w| w.contains("with 6 odd points")),
+        "{:?}",
+        five.warnings
+    );
+    let four = run("y^2 = z^4 - 3 z + 1");
+    assert!(
+        !four.warnings.iter().any(|w| w.contains("odd points")),
+        "{:?}",
+        four.warnings
+    );
+}
