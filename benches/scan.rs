@@ -41,15 +41,25 @@ fn scan_bench(c: &mut Criterion) {
     };
     let indices: Vec<usize> = (0..grid.len()).collect();
     let mut group = c.benchmark_group("scan");
-    group.sample_size(10).measurement_time(Duration::from_secs(20));
+    group
+        .sample_size(10)
+        .measurement_time(Duration::from_secs(20));
     for threads in [1, 2] {
         group.bench_function(format!("su2_8x8_reach40_{threads}_threads"), |b| {
             b.iter(|| {
                 let mut n = 0;
-                scan::run(&grid, &indices, &curve_at, &settings, threads, &CancelToken::new(), &mut |r| {
-                    n += r.states.len();
-                    true
-                });
+                scan::run(
+                    &grid,
+                    &indices,
+                    &curve_at,
+                    &settings,
+                    threads,
+                    &CancelToken::new(),
+                    &mut |r| {
+                        n += r.states.len();
+                        true
+                    },
+                );
                 black_box(n)
             });
         });

@@ -514,8 +514,8 @@ impl Scenario {
         curve
             .map(|c| c.with_singular_points_resolved(self.resolution, self.resolution_phase))
             .map_err(|e: CurveError| {
-            ScenarioError::Invalid(format!("the curve cannot be used: {e}"))
-        })
+                ScenarioError::Invalid(format!("the curve cannot be used: {e}"))
+            })
     }
 
     /// The numerical settings of the scenario, checked.

@@ -9,9 +9,9 @@
 
 mod build;
 pub mod charges;
-pub mod param_map;
 pub mod geometry;
 pub mod palette;
+pub mod param_map;
 
 pub use build::{build, clip_margin, SceneOptions};
 

@@ -96,12 +96,7 @@ fn job_key(scenario: &Scenario, param: &str) -> String {
     sc.to_ron()
 }
 
-fn start_job(
-    scenario: &Scenario,
-    param: &str,
-    centre: Complex64,
-    ctx: &egui::Context,
-) -> MapJob {
+fn start_job(scenario: &Scenario, param: &str, centre: Complex64, ctx: &egui::Context) -> MapJob {
     let grid = Grid {
         re: [centre.re - MAP_HALF_SIDE, centre.re + MAP_HALF_SIDE],
         im: [centre.im - MAP_HALF_SIDE, centre.im + MAP_HALF_SIDE],
@@ -195,7 +190,11 @@ impl WallflowerApp {
         egui::Panel::right("param_map")
             .resizable(false)
             .show(ui, |ui| {
-                let label = if open { "Hide parameter map" } else { "Parameter map" };
+                let label = if open {
+                    "Hide parameter map"
+                } else {
+                    "Parameter map"
+                };
                 if ui.button(label).clicked() {
                     open = !open;
                 }
@@ -291,11 +290,7 @@ impl WallflowerApp {
             }
         }
         let status = if job.filled < job.grid.len() {
-            format!(
-                "computing: {} of {} points",
-                job.filled,
-                job.grid.len()
-            )
+            format!("computing: {} of {} points", job.filled, job.grid.len())
         } else if job.walls.is_empty() && job.singular.is_empty() {
             format!("{} points", job.grid.len())
         } else {

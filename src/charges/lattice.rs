@@ -499,7 +499,11 @@ impl Tracker<'_> {
             }
             let here = z0 + (z1 - z0) * s;
             let room = PANEL_ROOM * self.curve.distance_to_singular(here);
-            let ds = (room / len.max(1e-300)).clamp(1e-9, 1.0 - s);
+            if !room.is_finite() && room != f64::INFINITY || !len.is_finite() {
+                return Err(LatticeError::Continuation(here));
+            }
+            // Never clamp with bounds the wrong way round (1 - s can be tiny).
+            let ds = (room / len.max(1e-300)).max(1e-9).min(1.0 - s);
             let a = here;
             let b = z0 + (z1 - z0) * (s + ds);
             for &(x, w) in rule {

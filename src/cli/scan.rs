@@ -44,10 +44,20 @@ pub struct ScanArgs {
     #[arg(long, value_name = "NAME", required = true)]
     pub param: Option<String>,
     /// Range of its real part, MIN..MAX.
-    #[arg(long, value_name = "MIN..MAX", allow_hyphen_values = true, required = true)]
+    #[arg(
+        long,
+        value_name = "MIN..MAX",
+        allow_hyphen_values = true,
+        required = true
+    )]
     pub re: Option<String>,
     /// Range of its imaginary part, MIN..MAX.
-    #[arg(long, value_name = "MIN..MAX", allow_hyphen_values = true, required = true)]
+    #[arg(
+        long,
+        value_name = "MIN..MAX",
+        allow_hyphen_values = true,
+        required = true
+    )]
     pub im: Option<String>,
     /// Grid points along the real and the imaginary part, NxM.
     #[arg(long, value_name = "NxM", required = true)]
@@ -272,9 +282,8 @@ pub fn run(args: &ScanArgs) -> anyhow::Result<ExitCode> {
     let wanted: Vec<usize> = shard.indices(grid.len()).collect();
     match &args.output {
         None => {
-            let mut sink = |r: PointResult| {
-                emit(&point_line(&r, prepared.meta.settings.reach)).is_ok()
-            };
+            let mut sink =
+                |r: PointResult| emit(&point_line(&r, prepared.meta.settings.reach)).is_ok();
             compute(&prepared, &wanted, threads, &mut sink, 0);
             if args.map.summary.is_some() || args.map.plot.is_some() {
                 bad_input!("--summary and --plot read the map back: give -o FILE.jsonl");
@@ -336,7 +345,9 @@ fn compute(
 ) -> scan::RunOutcome {
     let total = (already + indices.len()) as u64;
     let bar = ProgressBar::new(total);
-    if let Ok(style) = ProgressStyle::with_template("scan [{bar:40}] {pos}/{len} points {elapsed} (eta {eta})") {
+    if let Ok(style) =
+        ProgressStyle::with_template("scan [{bar:40}] {pos}/{len} points {elapsed} (eta {eta})")
+    {
         bar.set_style(style.progress_chars("=> "));
     }
     bar.set_position(already as u64);
@@ -464,7 +475,10 @@ fn read_points(path: &Path, grid: &Grid) -> anyhow::Result<Vec<PointStates>> {
                 parsed.index
             );
         }
-        let usable = !parsed.warnings.iter().any(|w| w.starts_with("no curve here"));
+        let usable = !parsed
+            .warnings
+            .iter()
+            .any(|w| w.starts_with("no curve here"));
         points.push(PointStates {
             param: Complex64::new(parsed.param[0], parsed.param[1]),
             states: parsed
@@ -686,10 +700,14 @@ fn run_merge(args: &MergeArgs) -> anyhow::Result<ExitCode> {
     }
     // Each share is in increasing grid order: merge them by always taking
     // the smallest next index (memory: one line per share).
-    let mut readers: Vec<(PathBuf, std::io::Lines<std::io::BufReader<std::fs::File>>, Option<(usize, String)>)> =
-        Vec::new();
+    let mut readers: Vec<(
+        PathBuf,
+        std::io::Lines<std::io::BufReader<std::fs::File>>,
+        Option<(usize, String)>,
+    )> = Vec::new();
     for share in &shares {
-        let f = std::fs::File::open(share).with_context(|| format!("cannot read {}", share.display()))?;
+        let f = std::fs::File::open(share)
+            .with_context(|| format!("cannot read {}", share.display()))?;
         let mut lines = std::io::BufReader::new(f).lines();
         let head = next_line(share, &mut lines)?;
         readers.push((share.clone(), lines, head));
@@ -761,7 +779,11 @@ fn temp_beside(path: &Path) -> anyhow::Result<PathBuf> {
         _ => Path::new("."),
     };
     if !dir.is_dir() {
-        bad_input!("{}: the folder {} does not exist", path.display(), dir.display());
+        bad_input!(
+            "{}: the folder {} does not exist",
+            path.display(),
+            dir.display()
+        );
     }
     let mut tmp = std::ffi::OsString::from(".");
     tmp.push(name);
@@ -779,7 +801,10 @@ fn next_line(
         Some(Err(e)) => Err(BadInput(format!("cannot read {}: {e}", path.display())).into()),
         Some(Ok(line)) => match serde_json::from_str::<IndexOnly>(&line) {
             Ok(IndexOnly { index }) => Ok(Some((index, line))),
-            Err(e) => bad_input!("{}: a line is not a scan point ({e}): is the share unfinished?", path.display()),
+            Err(e) => bad_input!(
+                "{}: a line is not a scan point ({e}): is the share unfinished?",
+                path.display()
+            ),
         },
     }
 }

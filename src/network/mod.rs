@@ -216,13 +216,10 @@ fn compute_at(
             message: "cancelled: the network is partial".into(),
         });
     }
-    let saddle = walls
-        .iter()
-        .enumerate()
-        .find_map(|(idx, w)| match w.end {
-            crate::walls::EndReason::BranchPoint(b) => Some((idx, b, w.mass())),
-            _ => None,
-        });
+    let saddle = walls.iter().enumerate().find_map(|(idx, w)| match w.end {
+        crate::walls::EndReason::BranchPoint(b) => Some((idx, b, w.mass())),
+        _ => None,
+    });
     if let (true, true, Some((wall_idx, bp, mass))) = (
         flatness.worst > 1e-9 && limit != GrowthLimit::Cancelled,
         check_off_critical,

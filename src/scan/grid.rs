@@ -189,8 +189,18 @@ mod tests {
         };
         assert!(ok.validate().is_ok());
         assert!(Grid { n_re: 0, ..ok }.validate().is_err());
-        assert!(Grid { re: [1.0, 0.0], ..ok }.validate().is_err());
-        assert!(Grid { re: [f64::NAN, 0.0], ..ok }.validate().is_err());
+        assert!(Grid {
+            re: [1.0, 0.0],
+            ..ok
+        }
+        .validate()
+        .is_err());
+        assert!(Grid {
+            re: [f64::NAN, 0.0],
+            ..ok
+        }
+        .validate()
+        .is_err());
         assert!(Grid {
             n_re: 10_000,
             n_im: 10_000,

@@ -141,8 +141,16 @@ pub fn singular_points(
     );
     // Sample a rectangle 10% larger so that points on the border are seeded.
     let at = |i: usize, j: usize| {
-        let fx = if nx > 1 { i as f64 / (nx - 1) as f64 } else { 0.5 };
-        let fy = if ny > 1 { j as f64 / (ny - 1) as f64 } else { 0.5 };
+        let fx = if nx > 1 {
+            i as f64 / (nx - 1) as f64
+        } else {
+            0.5
+        };
+        let fy = if ny > 1 {
+            j as f64 / (ny - 1) as f64
+        } else {
+            0.5
+        };
         Complex64::new(
             grid.re[0] - 0.05 * w + 1.1 * w * fx,
             grid.im[0] - 0.05 * h + 1.1 * h * fy,

@@ -116,8 +116,7 @@ pub fn summarize(
         trace(grid, points, curve_at, settings, cancel)
     } else {
         warnings.push(
-            "walls of marginal stability are traced for rank-2 curves only: none shown"
-                .to_string(),
+            "walls of marginal stability are traced for rank-2 curves only: none shown".to_string(),
         );
         Default::default()
     };
@@ -161,7 +160,10 @@ pub fn through_singular_points(
             .filter(|p| (p - z).norm() <= near)
             .min_by(|a, b| (a - z).norm().total_cmp(&(b - z).norm()))
     };
-    for w in walls.iter_mut().filter(|w| !w.closed && w.points.len() >= 2) {
+    for w in walls
+        .iter_mut()
+        .filter(|w| !w.closed && w.points.len() >= 2)
+    {
         if let Some(p) = closest(w.points[0]) {
             w.points.insert(0, p);
         }

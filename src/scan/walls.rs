@@ -377,7 +377,9 @@ pub fn trace(
     let mut unrefined = 0;
     for (edge, i, j) in edges {
         if cancel.is_cancelled() {
-            report.warnings.push("cancelled: the walls are partial".into());
+            report
+                .warnings
+                .push("cancelled: the walls are partial".into());
             break;
         }
         let (pi, pj) = (&points[i], &points[j]);
@@ -497,8 +499,8 @@ pub fn trace(
                     current = e;
                 }
                 None => {
-                    closed = chain.len() > 2
-                        && links.get(&current).is_some_and(|n| n.contains(&start));
+                    closed =
+                        chain.len() > 2 && links.get(&current).is_some_and(|n| n.contains(&start));
                     break;
                 }
             }

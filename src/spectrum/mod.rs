@@ -258,15 +258,19 @@ fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
         .resolutions
         .iter()
         .flat_map(|r| {
-            r.model.orbits.iter().filter(|o| o.n_walls > 0).map(move |o| {
-                let c = r
-                    .model
-                    .coeffs
-                    .iter()
-                    .map(|(_, c)| c.norm())
-                    .fold(0.0, f64::max);
-                c * r.distance.powf(o.exponent.value() + 1.0)
-            })
+            r.model
+                .orbits
+                .iter()
+                .filter(|o| o.n_walls > 0)
+                .map(move |o| {
+                    let c = r
+                        .model
+                        .coeffs
+                        .iter()
+                        .map(|(_, c)| c.norm())
+                        .fold(0.0, f64::max);
+                    c * r.distance.powf(o.exponent.value() + 1.0)
+                })
         })
         .fold(0.0, f64::max)
         * MASSLESS_MARGIN;

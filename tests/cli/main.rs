@@ -6,10 +6,10 @@
 mod support;
 
 mod bad_input;
+mod charges_crossing;
 mod commands;
 mod draw_state;
 mod jump;
+mod scan;
 mod spectrum;
 mod sweep;
-mod charges_crossing;
-mod scan;

@@ -33,7 +33,11 @@ fn read(path: &Path) -> Vec<u8> {
 fn threads_and_shards_give_the_single_run_byte_for_byte() {
     let dir = tmp_dir("shards");
     let single = dir.join("single.jsonl");
-    let (code, _, err) = run(&scan_args(single.to_str().unwrap(), "7x5", &["--threads", "1"]));
+    let (code, _, err) = run(&scan_args(
+        single.to_str().unwrap(),
+        "7x5",
+        &["--threads", "1"],
+    ));
     assert_eq!(code, 0, "{err}");
     let reference = read(&single);
     let text = String::from_utf8(reference.clone()).unwrap();
@@ -45,7 +49,11 @@ fn threads_and_shards_give_the_single_run_byte_for_byte() {
     }
     // Two threads.
     let two = dir.join("two.jsonl");
-    let (code, _, err) = run(&scan_args(two.to_str().unwrap(), "7x5", &["--threads", "2"]));
+    let (code, _, err) = run(&scan_args(
+        two.to_str().unwrap(),
+        "7x5",
+        &["--threads", "2"],
+    ));
     assert_eq!(code, 0, "{err}");
     assert!(read(&two) == reference, "2 threads write the 1-thread file");
     // Shards, merged.
@@ -55,13 +63,26 @@ fn threads_and_shards_give_the_single_run_byte_for_byte() {
         for k in 1..=n {
             let part = parts.join(format!("part-{k}.jsonl"));
             let shard = format!("{k}/{n}");
-            let (code, _, err) = run(&scan_args(part.to_str().unwrap(), "7x5", &["--shard", &shard]));
+            let (code, _, err) = run(&scan_args(
+                part.to_str().unwrap(),
+                "7x5",
+                &["--shard", &shard],
+            ));
             assert_eq!(code, 0, "shard {shard}: {err}");
         }
         let merged = dir.join(format!("merged-{n}.jsonl"));
-        let (code, _, err) = run(&["scan", "merge", parts.to_str().unwrap(), "-o", merged.to_str().unwrap()]);
+        let (code, _, err) = run(&[
+            "scan",
+            "merge",
+            parts.to_str().unwrap(),
+            "-o",
+            merged.to_str().unwrap(),
+        ]);
         assert_eq!(code, 0, "merge of {n}: {err}");
-        assert!(read(&merged) == reference, "{n} shards merged = the single run");
+        assert!(
+            read(&merged) == reference,
+            "{n} shards merged = the single run"
+        );
         let meta = |p: &Path| read(Path::new(&format!("{}.meta.json", p.display())));
         assert!(meta(&merged) == meta(&single));
     }
@@ -69,7 +90,13 @@ fn threads_and_shards_give_the_single_run_byte_for_byte() {
     let parts = dir.join("parts-3");
     std::fs::remove_file(parts.join("part-2.jsonl")).unwrap();
     let out = dir.join("incomplete.jsonl");
-    let (code, _, err) = run(&["scan", "merge", parts.to_str().unwrap(), "-o", out.to_str().unwrap()]);
+    let (code, _, err) = run(&[
+        "scan",
+        "merge",
+        parts.to_str().unwrap(),
+        "-o",
+        out.to_str().unwrap(),
+    ]);
     assert_eq!(code, 2, "{err}");
     assert!(err.contains("grid point 1 is missing"), "{err}");
     assert!(!out.exists(), "no half-merged file");
@@ -123,7 +150,11 @@ fn a_killed_scan_resumes_without_recomputing_finished_points() {
     assert_eq!(got.len(), 120);
     // The marked line survived: it was not recomputed.
     assert_eq!(got[0], lines[0].replacen("\"param\":", "\"param\" :", 1));
-    assert_eq!(&got[1..], &lines[1..], "everything else equals an uninterrupted run");
+    assert_eq!(
+        &got[1..],
+        &lines[1..],
+        "everything else equals an uninterrupted run"
+    );
 
     // A rerun of a finished scan computes nothing and changes nothing.
     let (code, _, err) = run(&scan_args(path.to_str().unwrap(), grid, &[]));
@@ -142,7 +173,12 @@ fn map_files_and_bad_input() {
     let (code, _, err) = run(&scan_args(
         o,
         "9x7",
-        &["--summary", summary.to_str().unwrap(), "--plot", plot.to_str().unwrap()],
+        &[
+            "--summary",
+            summary.to_str().unwrap(),
+            "--plot",
+            plot.to_str().unwrap(),
+        ],
     ));
     assert_eq!(code, 0, "{err}");
     let map: serde_json::Value = serde_json::from_slice(&read(&summary)).unwrap();
@@ -163,7 +199,10 @@ fn map_files_and_bad_input() {
     other[reach] = "13";
     let (code, _, err) = run(&other);
     assert_eq!(code, 2);
-    assert!(err.contains("different scan") && err.lines().count() == 1, "{err}");
+    assert!(
+        err.contains("different scan") && err.lines().count() == 1,
+        "{err}"
+    );
     // A share resumed as another share.
     let part = dir.join("p.jsonl");
     let p = part.to_str().unwrap();
@@ -191,7 +230,10 @@ fn map_files_and_bad_input() {
         }
         let (code, _, err) = run(&full);
         assert_eq!(code, 2, "{args:?}: {err}");
-        assert!(err.contains(needle) && err.lines().count() == 1, "{args:?}: {err}");
+        assert!(
+            err.contains(needle) && err.lines().count() == 1,
+            "{args:?}: {err}"
+        );
     }
     assert!(!Path::new("unused.jsonl").exists());
     let _ = std::fs::remove_dir_all(&dir);

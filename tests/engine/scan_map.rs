@@ -73,7 +73,12 @@ fn map_of(equation: &str, grid: Grid, reach: f64) -> (Vec<PointStates>, MapSumma
 
 /// `2 sqrt(q)` integrated once around the ellipse with foci `f1`, `f2`
 /// (semi-minor axis `minor`), with the sign continued node to node.
-fn ellipse_period(q: &dyn Fn(Complex64) -> Complex64, f1: Complex64, f2: Complex64, minor: f64) -> Complex64 {
+fn ellipse_period(
+    q: &dyn Fn(Complex64) -> Complex64,
+    f1: Complex64,
+    f2: Complex64,
+    minor: f64,
+) -> Complex64 {
     let centre = (f1 + f2) * 0.5;
     let half = (f2 - f1) * 0.5;
     let dir = half / half.norm();
@@ -100,12 +105,20 @@ fn ellipse_period(q: &dyn Fn(Complex64) -> Complex64, f1: Complex64, f2: Complex
 /// The period around the pair `f1`, `f2` on the thickest ellipse that keeps
 /// every point of `others` well outside (sum of focal distances above 1.2
 /// times the major axis).
-fn loop_period(q: &dyn Fn(Complex64) -> Complex64, f1: Complex64, f2: Complex64, others: &[Complex64]) -> Complex64 {
+fn loop_period(
+    q: &dyn Fn(Complex64) -> Complex64,
+    f1: Complex64,
+    f2: Complex64,
+    others: &[Complex64],
+) -> Complex64 {
     let half = 0.5 * (f2 - f1).norm();
     let mut minor = half;
     for _ in 0..20 {
         let major = (half * half + minor * minor).sqrt();
-        if others.iter().all(|s| (s - f1).norm() + (s - f2).norm() > 2.4 * major) {
+        if others
+            .iter()
+            .all(|s| (s - f1).norm() + (s - f2).norm() > 2.4 * major)
+        {
             break;
         }
         minor *= 0.5;
@@ -119,7 +132,11 @@ fn loop_period(q: &dyn Fn(Complex64) -> Complex64, f1: Complex64, f2: Complex64,
 /// determinant (+-1) under a change of basis, so its zero set, the wall,
 /// is that of `Im(Z_D conj Z_W)` whichever basis is used; the denominator
 /// never vanishes (unlike `|a| |b|` where one period passes through 0).
-fn alignment(pair: &dyn Fn(Complex64) -> [Complex64; 2], u: Complex64, reference: [Complex64; 2]) -> f64 {
+fn alignment(
+    pair: &dyn Fn(Complex64) -> [Complex64; 2],
+    u: Complex64,
+    reference: [Complex64; 2],
+) -> f64 {
     let [mut a, mut b] = pair(u);
     if (a - reference[0]).norm() > (a + reference[0]).norm() {
         a = -a;
@@ -138,8 +155,12 @@ fn distance_to_zero_set(pair: &dyn Fn(Complex64) -> [Complex64; 2], u: Complex64
     for _ in 0..4 {
         let h = 1e-6;
         let f = alignment(pair, v, reference);
-        let gx = (alignment(pair, v + c(h, 0.0), reference) - alignment(pair, v - c(h, 0.0), reference)) / (2.0 * h);
-        let gy = (alignment(pair, v + c(0.0, h), reference) - alignment(pair, v - c(0.0, h), reference)) / (2.0 * h);
+        let gx = (alignment(pair, v + c(h, 0.0), reference)
+            - alignment(pair, v - c(h, 0.0), reference))
+            / (2.0 * h);
+        let gy = (alignment(pair, v + c(0.0, h), reference)
+            - alignment(pair, v - c(0.0, h), reference))
+            / (2.0 * h);
         let g2 = gx * gx + gy * gy;
         v -= c(gx, gy) * (f / g2);
     }
@@ -185,16 +206,27 @@ fn pure_su2_map_has_two_singular_points_and_one_closed_wall_through_them() {
     assert_eq!(map.singular.len(), 2, "{:?}", map.singular);
     assert!((map.singular[0].param - c(-1.0, 0.0)).norm() < 1e-10);
     assert!((map.singular[1].param - c(1.0, 0.0)).norm() < 1e-10);
-    assert!((map.singular[0].z - c(1.0, 0.0)).norm() < 1e-6, "they meet at z = -u");
+    assert!(
+        (map.singular[0].z - c(1.0, 0.0)).norm() < 1e-6,
+        "they meet at z = -u"
+    );
 
     // One closed wall through both singular points.
     assert_eq!(map.walls.len(), 1, "{:?}", map.walls.len());
     let wall = &map.walls[0];
     assert!(wall.closed);
     for s in &map.singular {
-        assert!(wall.points.contains(&s.param), "the wall passes through {}", s.param);
+        assert!(
+            wall.points.contains(&s.param),
+            "the wall passes through {}",
+            s.param
+        );
     }
-    assert!(wall.points.len() > 40, "refined between grid points: {}", wall.points.len());
+    assert!(
+        wall.points.len() > 40,
+        "refined between grid points: {}",
+        wall.points.len()
+    );
 
     // Its points lie on the zero set of Im(Z_1 conj Z_2) for a basis of
     // periods (the loops around each branch point and the odd pole at 0,
@@ -203,9 +235,16 @@ fn pure_su2_map_has_two_singular_points_and_one_closed_wall_through_them() {
         let q = |z: Complex64| (z * z + u * z * 2.0 + 1.0) / (z * z * z);
         let r = (u * u - 1.0).sqrt();
         let (b1, b2) = (-u + r, -u - r);
-        let (near, far) = if b1.norm() < b2.norm() { (b1, b2) } else { (b2, b1) };
+        let (near, far) = if b1.norm() < b2.norm() {
+            (b1, b2)
+        } else {
+            (b2, b1)
+        };
         let zero = c(0.0, 0.0);
-        [loop_period(&q, near, zero, &[far]), loop_period(&q, far, zero, &[near])]
+        [
+            loop_period(&q, near, zero, &[far]),
+            loop_period(&q, far, zero, &[near]),
+        ]
     };
     let mut checked = 0;
     for &p in &wall.points {
@@ -225,20 +264,38 @@ fn pure_su2_map_has_two_singular_points_and_one_closed_wall_through_them() {
     let spacing = grid.spacing()[0];
     let (mut n_in, mut n_out) = (0, 0);
     for p in &points {
-        let far_from_singular = map.singular.iter().all(|s| (s.param - p.param).norm() > 2.5 * spacing);
+        let far_from_singular = map
+            .singular
+            .iter()
+            .all(|s| (s.param - p.param).norm() > 2.5 * spacing);
         if !far_from_singular || distance_to_polyline(&wall.points, p.param) < 0.5 * spacing {
             continue;
         }
         let kinds: Vec<Kind> = p.states.iter().map(|s| s.1).collect();
         if inside(&wall.points, p.param) {
             n_in += 1;
-            assert_eq!(kinds, vec![Kind::Hyper, Kind::Hyper], "inside at {}", p.param);
+            assert_eq!(
+                kinds,
+                vec![Kind::Hyper, Kind::Hyper],
+                "inside at {}",
+                p.param
+            );
         } else {
             n_out += 1;
-            let vectors: Vec<Complex64> = p.states.iter().filter(|s| s.1 == Kind::Vector).map(|s| s.0).collect();
+            let vectors: Vec<Complex64> = p
+                .states
+                .iter()
+                .filter(|s| s.1 == Kind::Vector)
+                .map(|s| s.0)
+                .collect();
             assert_eq!(vectors.len(), 1, "one W outside at {}", p.param);
             let zw = vectors[0];
-            let hypers: Vec<Complex64> = p.states.iter().filter(|s| s.1 == Kind::Hyper).map(|s| s.0).collect();
+            let hypers: Vec<Complex64> = p
+                .states
+                .iter()
+                .filter(|s| s.1 == Kind::Hyper)
+                .map(|s| s.0)
+                .collect();
             assert!(hypers.len() >= 2, "dyons outside at {}", p.param);
             for a in &hypers {
                 for b in &hypers {
@@ -270,14 +327,20 @@ fn argyres_douglas_cubic_has_singular_points_at_plus_minus_two_and_chambers_of_t
     // Chambers of 2 and of 3 hypermultiplets (the pentagon: {g1, g2} and
     // {g1, g1 + g2, g2}), separated by one closed wall.
     let sigs: Vec<[usize; 3]> = map.chambers.iter().map(|c| c.signature).collect();
-    assert!(sigs.contains(&[2, 0, 0]) && sigs.contains(&[3, 0, 0]), "{sigs:?}");
+    assert!(
+        sigs.contains(&[2, 0, 0]) && sigs.contains(&[3, 0, 0]),
+        "{sigs:?}"
+    );
     assert_eq!(map.walls.len(), 1);
     let wall = &map.walls[0];
     assert!(wall.closed);
     // The inner chamber has 2 states, the outer 3.
     let spacing = grid.spacing()[0];
     for p in &points {
-        if map.singular.iter().any(|s| (s.param - p.param).norm() < 1.5 * spacing)
+        if map
+            .singular
+            .iter()
+            .any(|s| (s.param - p.param).norm() < 1.5 * spacing)
             || distance_to_polyline(&wall.points, p.param) < 0.5 * spacing
         {
             continue;
@@ -289,9 +352,13 @@ fn argyres_douglas_cubic_has_singular_points_at_plus_minus_two_and_chambers_of_t
     // around pairs of the three zeros of z^3 - 3z + u.
     let pair = |u: Complex64| {
         let q = |z: Complex64| z * z * z - z * 3.0 + u;
-        let mut e = wallflower::algebra::Poly::new(vec![u, c(-3.0, 0.0), c(0.0, 0.0), c(1.0, 0.0)]).roots();
+        let mut e =
+            wallflower::algebra::Poly::new(vec![u, c(-3.0, 0.0), c(0.0, 0.0), c(1.0, 0.0)]).roots();
         e.sort_by(|a, b| a.re.total_cmp(&b.re));
-        [loop_period(&q, e[0], e[1], &[e[2]]), loop_period(&q, e[1], e[2], &[e[0]])]
+        [
+            loop_period(&q, e[0], e[1], &[e[2]]),
+            loop_period(&q, e[1], e[2], &[e[0]]),
+        ]
     };
     let mut checked = 0;
     for &p in &wall.points {
@@ -331,21 +398,37 @@ fn parallel_results_equal_serial_results_and_cancel_is_prompt() {
     let indices: Vec<usize> = (0..grid.len()).collect();
     let collect = |threads: usize| {
         let mut out = Vec::new();
-        scan::run(&grid, &indices, &curve_at, &settings, threads, &CancelToken::new(), &mut |r| {
-            out.push(r);
-            true
-        });
+        scan::run(
+            &grid,
+            &indices,
+            &curve_at,
+            &settings,
+            threads,
+            &CancelToken::new(),
+            &mut |r| {
+                out.push(r);
+                true
+            },
+        );
         out
     };
     let serial = collect(1);
     assert_eq!(serial.len(), grid.len());
     assert!(serial.iter().enumerate().all(|(k, r)| r.index == k));
-    assert_eq!(collect(3), serial, "three threads, same results in the same order");
+    assert_eq!(
+        collect(3),
+        serial,
+        "three threads, same results in the same order"
+    );
 
     // Cancelled mid-run: what was delivered is a prefix, and the run ends
     // soon after the request. The machine is shared, so the best of three
     // trials is held to the 50 ms target.
-    let big = Grid { n_re: 40, n_im: 40, ..grid };
+    let big = Grid {
+        n_re: 40,
+        n_im: 40,
+        ..grid
+    };
     let all: Vec<usize> = (0..big.len()).collect();
     let mut best = std::time::Duration::MAX;
     for trial in 0..3 {
@@ -369,7 +452,10 @@ fn parallel_results_equal_serial_results_and_cancel_is_prompt() {
             done.duration_since(rx.recv().expect("cancel time"))
         });
         assert!(!delivered.is_empty() && delivered.len() < big.len());
-        assert!(delivered.iter().enumerate().all(|(k, &i)| i == k), "a prefix in grid order");
+        assert!(
+            delivered.iter().enumerate().all(|(k, &i)| i == k),
+            "a prefix in grid order"
+        );
         eprintln!("cancel latency: {latency:?}");
         best = best.min(latency);
     }

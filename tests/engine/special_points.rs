@@ -69,7 +69,12 @@ fn zeros_of_order_n_and_a_simple_pole_give_their_local_wall_counts_at_exact_angl
         assert_eq!(seeds.len(), 1, "1/z");
         assert!(matches!(seeds[0].origin, Origin::Puncture { .. }));
         // w_12 = 4 z^(1/2): one ray, at 2 theta (or 2 theta + 2 pi).
-        assert_angles(&[angle_of(&seeds[0], Complex64::new(0.0, 0.0))], &[2.0 * theta], 1e-12, "1/z");
+        assert_angles(
+            &[angle_of(&seeds[0], Complex64::new(0.0, 0.0))],
+            &[2.0 * theta],
+            1e-12,
+            "1/z",
+        );
     }
 }
 
@@ -91,7 +96,11 @@ fn three_sheets_meeting_like_a_cube_root_give_eight_walls_that_close_up() {
             assert_eq!(w.multiplicity.abs(), 1);
         }
         // The loop around the point crosses all eight walls and the cut.
-        let m = jump::path_product(&c, &net.walls, &jump::loop_around(Complex64::new(0.0, 0.0), 0.3, 48));
+        let m = jump::path_product(
+            &c,
+            &net.walls,
+            &jump::loop_around(Complex64::new(0.0, 0.0), 0.3, 48),
+        );
         let d = jump::deviation_from_identity(&m);
         assert!(d < 1e-12, "theta {theta}: |M - 1| = {d}");
         assert!(net.flatness.worst < 1e-12);
@@ -162,17 +171,30 @@ fn singular_points_are_drawn_from_a_stated_resolution() {
     s.curve = Some("y^2 = z^3".into());
     let c = s.build_curve().unwrap();
     assert_eq!(c.resolutions.len(), 1);
-    assert_eq!(c.branch_points.len(), 3, "z^3 splits into three simple zeros");
+    assert_eq!(
+        c.branch_points.len(),
+        3,
+        "z^3 splits into three simple zeros"
+    );
     for bp in &c.branch_points {
         assert!(bp.simple);
-        assert!((bp.z.norm() - s.resolution * 1.0).abs() < 1e-9 * 1.0 + 1e-6, "{:?}", bp.z);
+        assert!(
+            (bp.z.norm() - s.resolution * 1.0).abs() < 1e-9 * 1.0 + 1e-6,
+            "{:?}",
+            bp.z
+        );
     }
     let net = compute(&c, 0.3, &s.settings().unwrap(), &CancelToken::new());
-    assert!(net.warnings.iter().any(|w| w.message.contains("resolution")));
+    assert!(net
+        .warnings
+        .iter()
+        .any(|w| w.message.contains("resolution")));
     assert!(net.flatness.worst < 1e-9, "{:?}", net.flatness);
     // Far out the walls follow the 5 directions of the local model of
     // z^3: 2 (theta + k pi)/5 (several walls may share a direction).
-    let dirs: Vec<f64> = (0..5).map(|k| 2.0 * (0.3 + PI * f64::from(k)) / 5.0).collect();
+    let dirs: Vec<f64> = (0..5)
+        .map(|k| 2.0 * (0.3 + PI * f64::from(k)) / 5.0)
+        .collect();
     for w in &net.walls {
         let last = w.points.last().unwrap().z;
         if last.norm() > 0.5 {
@@ -210,7 +232,10 @@ fn near_collisions_keep_the_starts_and_flatness() {
             .iter()
             .filter(|w| matches!(w.origin, Origin::BranchPoint { .. }))
             .count();
-        assert!(primary >= 3 * simple, "{primary} primary walls for {simple} points");
+        assert!(
+            primary >= 3 * simple,
+            "{primary} primary walls for {simple} points"
+        );
     }
 }
 
@@ -225,7 +250,12 @@ fn special_point_walls_rotate_with_the_curve() {
     let turned = curve(&format!("y^3 = ({} + {}i) z", c.re, c.im));
     for theta in [0.2, 1.4] {
         let n0 = compute(&base, theta, &Settings::default(), &CancelToken::new());
-        let n1 = compute(&turned, theta + a, &Settings::default(), &CancelToken::new());
+        let n1 = compute(
+            &turned,
+            theta + a,
+            &Settings::default(),
+            &CancelToken::new(),
+        );
         let want: Vec<f64> = n0.walls.iter().map(|w| w.points[1].z.arg() + a).collect();
         let got: Vec<f64> = n1.walls.iter().map(|w| w.points[1].z.arg()).collect();
         assert_angles(&got, &want, 1e-10, "rotated y^3 = z");

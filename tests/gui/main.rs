@@ -15,7 +15,7 @@ mod harness;
 
 mod explorer;
 mod files;
+mod param_map;
 mod recovery_kill;
 mod responsiveness;
 mod window_smoke;
-mod param_map;

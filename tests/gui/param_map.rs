@@ -19,7 +19,11 @@ fn clicking_the_parameter_map_sets_the_parameter() {
         reach: 6.0,
         ..Scenario::default()
     };
-    let mut h = harness_with(WallflowerApp::with_scenario(scenario, None, &AppOptions::default()));
+    let mut h = harness_with(WallflowerApp::with_scenario(
+        scenario,
+        None,
+        &AppOptions::default(),
+    ));
     wait_for_worker(&mut h);
     h.get_by_label("Parameter map").click();
     h.run_steps(2);
@@ -33,12 +37,19 @@ fn clicking_the_parameter_map_sets_the_parameter() {
         if filled >= 20 {
             break;
         }
-        assert!(start.elapsed() < Duration::from_secs(60), "only {filled} points in 60 s");
+        assert!(
+            start.elapsed() < Duration::from_secs(60),
+            "only {filled} points in 60 s"
+        );
         std::thread::sleep(Duration::from_millis(10));
     }
     // A click at u = 1 - 0.5i sets u there (to the view's pixel).
     let target = Complex64::new(1.0, -0.5);
-    let pos = h.state().param_map.screen_pos(target).expect("the view was drawn");
+    let pos = h
+        .state()
+        .param_map
+        .screen_pos(target)
+        .expect("the view was drawn");
     h.hover_at(pos);
     h.step();
     primary(&mut h, pos, true);
@@ -47,7 +58,10 @@ fn clicking_the_parameter_map_sets_the_parameter() {
     h.run_steps(2);
     let u = h.state().scenario.params["u"];
     let spacing = 4.0 / 300.0;
-    assert!((u[0] - 1.0).abs() < 2.0 * spacing && (u[1] + 0.5).abs() < 2.0 * spacing, "u = {u:?}");
+    assert!(
+        (u[0] - 1.0).abs() < 2.0 * spacing && (u[1] + 0.5).abs() < 2.0 * spacing,
+        "u = {u:?}"
+    );
     // Moving the mapped parameter keeps the map (only its marker moves).
     let (filled, _) = h.state().param_map.progress().unwrap();
     assert!(filled >= 20, "the map was not restarted");
