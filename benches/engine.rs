@@ -138,6 +138,20 @@ fn networks(c: &mut Criterion) {
     c.bench_function("rank 3, 4 branch points, reach 10, 3 generations", |b| {
         b.iter(|| compute(black_box(&four), 0.3, &s10, &CancelToken::new()))
     });
+    // A point where three sheets meet against the two simple branch points
+    // (and the joints between them) that it splits into, side by side.
+    let s8 = Settings {
+        reach: 8.0,
+        ..Settings::default()
+    };
+    let cube_root = equation("y^3 = z");
+    c.bench_function("special point y^3 = z, reach 8", |b| {
+        b.iter(|| compute(black_box(&cube_root), 0.3, &s8, &CancelToken::new()))
+    });
+    let split = equation("y^3 + 0.01*y = z");
+    c.bench_function("its split y^3 + 0.01 y = z, reach 8", |b| {
+        b.iter(|| compute(black_box(&split), 0.3, &s8, &CancelToken::new()))
+    });
     c.bench_function("curve from equation (rank 3, discriminant)", |b| {
         let p = parse_equation("y^3 - 3*z*y + z^3 - 1 = 0")
             .unwrap()

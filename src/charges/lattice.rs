@@ -502,7 +502,7 @@ impl Tracker<'_> {
             if !room.is_finite() && room != f64::INFINITY || !len.is_finite() {
                 return Err(LatticeError::Continuation(here));
             }
-            // Never clamp with bounds the wrong way round (1 - s can be tiny).
+            // Not clamp: near the end 1 - s can fall below the floor.
             let ds = (room / len.max(1e-300)).max(1e-9).min(1.0 - s);
             let a = here;
             let b = z0 + (z1 - z0) * (s + ds);

@@ -39,10 +39,77 @@ struct InspectJson {
     branch_points: Vec<BranchPointJson>,
     punctures: Vec<PunctureJson>,
     sheets: Option<SheetsJson>,
+    /// Local models at every non-simple branch point and emitting puncture
+    /// (for a resolved curve: of the singular points before the split too).
+    special_points: Vec<LocalJson>,
     /// Jump-matrix products around every joint and simple branch point of
     /// the network at the scenario's phase: largest entry of M - 1.
     flatness: FlatnessJson,
     warnings: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct OrbitJson {
+    /// Unordered pairs of sheets (1-based labels just above the point).
+    pairs: Vec<[u8; 2]>,
+    /// `r` in `y_i - y_j ~ c (z - b)^r`, as "p/q".
+    exponent: String,
+    walls: u32,
+}
+
+#[derive(Serialize)]
+struct LocalJson {
+    z: [f64; 2],
+    /// "branch_point", "puncture", or "resolved" (a singular point that
+    /// was split; its walls are those of the split points).
+    site: &'static str,
+    /// 1-based index into `branch_points` or `punctures` (none when resolved).
+    index: Option<usize>,
+    /// `smooth`, or `singular` where a cycle vanishes.
+    cover: &'static str,
+    walls: u32,
+    orbits: Vec<OrbitJson>,
+}
+
+fn local_json(
+    z: Complex64,
+    site: &'static str,
+    index: Option<usize>,
+    model: &wallflower::curve::LocalModel,
+) -> LocalJson {
+    LocalJson {
+        z: [z.re, z.im],
+        site,
+        index,
+        cover: if model.smooth { "smooth" } else { "singular" },
+        walls: model.n_walls(),
+        orbits: model
+            .orbits
+            .iter()
+            .map(|o| OrbitJson {
+                pairs: o.pairs.iter().map(|p| [p[0] + 1, p[1] + 1]).collect(),
+                exponent: o.exponent.to_string(),
+                walls: o.n_walls,
+            })
+            .collect(),
+    }
+}
+
+fn local_models(curve: &wallflower::Curve) -> Vec<LocalJson> {
+    use wallflower::curve::Site;
+    let mut out: Vec<LocalJson> = curve
+        .resolutions
+        .iter()
+        .map(|r| local_json(r.z, "resolved", None, &r.model))
+        .collect();
+    for sp in &curve.special {
+        let (site, index) = match sp.site {
+            Site::BranchPoint(i) => ("branch_point", i + 1),
+            Site::Puncture(i) => ("puncture", i + 1),
+        };
+        out.push(local_json(sp.z, site, Some(index), &sp.model));
+    }
+    out
 }
 
 #[derive(Serialize)]
@@ -110,6 +177,7 @@ pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
                 z: [z.re, z.im],
                 y: y.iter().map(|v| [v.re, v.im]).collect(),
             }),
+            special_points: local_models(curve),
             flatness,
             warnings: loaded.warnings.clone(),
         };
@@ -143,6 +211,49 @@ pub fn run(args: &InspectArgs) -> anyhow::Result<ExitCode> {
         for (idx, p) in curve.punctures.iter().enumerate() {
             let z = p.z.map_or_else(|| "infinity".to_string(), fmt_z);
             say!(out, "{:>4}  {:>26}  {:>5}", idx + 1, z, p.order);
+        }
+    }
+    let models = local_models(curve);
+    if !models.is_empty() {
+        say!(
+            out,
+            "local models (y_i - y_j ~ c (z - b)^r; walls = 2 (r + 1) per pair orbit):"
+        );
+        say!(
+            out,
+            "{:>26}  {:>16}  {:>8}  {:>5}  orbits (pairs: r)",
+            "z",
+            "point",
+            "cover",
+            "walls"
+        );
+        for m in &models {
+            let point = match (m.site, m.index) {
+                ("branch_point", Some(i)) => format!("branch point {i}"),
+                ("puncture", Some(i)) => format!("puncture {i}"),
+                _ => "resolved".to_string(),
+            };
+            let orbits: Vec<String> = m
+                .orbits
+                .iter()
+                .map(|o| {
+                    let pairs: Vec<String> = o
+                        .pairs
+                        .iter()
+                        .map(|p| format!("{}{}", p[0], p[1]))
+                        .collect();
+                    format!("{}: {}", pairs.join(" "), o.exponent)
+                })
+                .collect();
+            say!(
+                out,
+                "{:>26}  {:>16}  {:>8}  {:>5}  {}",
+                fmt_z(Complex64::new(m.z[0], m.z[1])),
+                point,
+                m.cover,
+                m.walls,
+                orbits.join("; ")
+            );
         }
     }
     say!(

@@ -21,6 +21,8 @@ use std::f64::consts::TAU;
 pub(super) struct Singularities {
     pub branch_z: Vec<Complex64>,
     pub branch_orders: Vec<u32>,
+    /// Largest distance of a merged root from its group's mean.
+    pub branch_spreads: Vec<f64>,
     pub punctures: Vec<Puncture>,
     pub notes: Vec<CurveNote>,
 }
@@ -138,11 +140,22 @@ pub(super) fn find_singularities(curve: &Curve) -> Result<Singularities, CurveEr
         .map(|&z| polish_branch_point(curve, z))
         .collect();
     let groups = cluster(&polished, CLUSTER_REL);
+    let branch_spreads = groups
+        .iter()
+        .map(|g| {
+            polished
+                .iter()
+                .map(|p| (p - g.0).norm())
+                .filter(|d| *d <= CLUSTER_REL * (1.0 + g.0.norm()))
+                .fold(0.0, f64::max)
+        })
+        .collect();
     let branch_z = groups.iter().map(|g| g.0).collect();
     let branch_orders = groups.iter().map(|g| g.1).collect();
     Ok(Singularities {
         branch_z,
         branch_orders,
+        branch_spreads,
         punctures,
         notes,
     })
@@ -393,6 +406,7 @@ pub(super) fn classify(curve: &Curve, zs: &[Complex64], orders: &[u32]) -> Vec<B
                 simple,
                 order,
                 n_sheets_meeting: n_meeting,
+                spread: 0.0,
                 series_coeff: if series_coeff.is_finite() {
                     series_coeff
                 } else {
@@ -452,7 +466,9 @@ pub(super) fn special_points(curve: &Curve) -> Vec<SpecialPoint> {
         if bp.simple {
             continue;
         }
-        if let Some(model) = super::local::local_model(curve, bp.z, &curve.monodromy_at(bp.z)) {
+        if let Some(model) =
+            super::local::local_model(curve, bp.z, bp.spread, &curve.monodromy_at(bp.z))
+        {
             out.push(SpecialPoint {
                 z: bp.z,
                 site: Site::BranchPoint(idx),
@@ -462,7 +478,7 @@ pub(super) fn special_points(curve: &Curve) -> Vec<SpecialPoint> {
     }
     for (idx, p) in curve.punctures.iter().enumerate() {
         let Some(z) = p.z else { continue };
-        if let Some(model) = super::local::local_model(curve, z, &curve.monodromy_at(z)) {
+        if let Some(model) = super::local::local_model(curve, z, 0.0, &curve.monodromy_at(z)) {
             if model.n_walls() > 0 {
                 out.push(SpecialPoint {
                     z,

@@ -108,6 +108,9 @@ pub struct LocalModel {
     /// Distance to the nearest other singular point (caps every radius
     /// used around b).
     pub room: f64,
+    /// Where the point's walls start: a small fraction of the room, and
+    /// far outside the spread of numerical roots merged into the point.
+    pub start_radius: f64,
 }
 
 impl LocalModel {
@@ -161,9 +164,21 @@ impl LocalModel {
 /// `(radius/room)^(1/p)`), large enough that the roots stay well resolved.
 const MODEL_FRACTION: f64 = 1e-7;
 
+/// Start radius of walls as a fraction of the room (as for simple branch points).
+const START_FRACTION: f64 = 1e-3;
+
+/// Radii are kept this many times the spread of merged roots.
+const SPREAD_FACTOR: f64 = 1e3;
+
 /// Builds the local model at `b` from the labelled sheets on a ray above
-/// it. `None` if the sheets cannot be continued there.
-pub fn local_model(curve: &Curve, b: Complex64, monodromy: &[usize]) -> Option<LocalModel> {
+/// it; `spread` is the size of the cluster of numerical roots merged into
+/// b. `None` if the sheets cannot be continued there.
+pub fn local_model(
+    curve: &Curve,
+    b: Complex64,
+    spread: f64,
+    monodromy: &[usize],
+) -> Option<LocalModel> {
     let k = curve.rank;
     let room = curve
         .singular_points
@@ -172,7 +187,12 @@ pub fn local_model(curve: &Curve, b: Complex64, monodromy: &[usize]) -> Option<L
         .filter(|d| *d > 1e-12 * (1.0 + b.norm()))
         .fold(curve.length_scale(), f64::min);
     let up = -CUT_DIRECTION;
-    let rho = MODEL_FRACTION * room;
+    let rho = (MODEL_FRACTION * room)
+        .max(SPREAD_FACTOR * spread)
+        .min(0.01 * room);
+    let start_radius = (START_FRACTION * room)
+        .max(SPREAD_FACTOR * spread)
+        .min(0.05 * room);
     let outer = curve.sheets_at(b + up * rho).ok()?;
     let mut budget = 4000;
     let inner = curve
@@ -236,6 +256,7 @@ pub fn local_model(curve: &Curve, b: Complex64, monodromy: &[usize]) -> Option<L
         coeffs,
         smooth,
         room,
+        start_radius,
     })
 }
 

@@ -32,6 +32,11 @@ pub struct BranchPoint {
     pub order: u32,
     /// Number of sheets that meet here (2 for a simple branch point).
     pub n_sheets_meeting: u32,
+    /// Spread of the numerical roots merged into this point (0 for one
+    /// root): below it the point's structure is not resolved, so its
+    /// local model is read off, and its walls start, well outside it.
+    #[serde(default)]
+    pub spread: f64,
     /// `c` in `y_i - y_j ~ c (z - b)^(1/2)`, for simple branch points
     /// (its sign is a convention; only `arg c mod pi` matters).
     pub series_coeff: Complex64,
@@ -290,6 +295,9 @@ impl Curve {
             .collect();
         curve.frame = branch::label_frame(&curve)?;
         curve.branch_points = branch::classify(&curve, &found.branch_z, &found.branch_orders);
+        for (bp, spread) in curve.branch_points.iter_mut().zip(&found.branch_spreads) {
+            bp.spread = *spread;
+        }
         curve.cuts = branch::cuts(&curve);
         curve.special = branch::special_points(&curve);
         Ok(curve)

@@ -384,25 +384,29 @@ pub fn flatness_checked(
         .special
         .iter()
         .filter(|s| matches!(s.site, crate::curve::Site::BranchPoint(_)) && s.model.smooth)
-        .map(|s| s.z);
+        .map(|s| {
+            (
+                s.z,
+                (3.0 * s.model.start_radius).max(r).min(0.3 * s.model.room),
+            )
+        });
     let points: Vec<(Complex64, f64)> = curve
         .branch_points
         .iter()
         .filter(|b| b.simple)
-        .map(|b| b.z)
+        .map(|b| (b.z, r.min(0.3 * curve.room_around(b.z))))
         .chain(drawn_special)
-        .map(|z| (z, r.min(0.3 * curve.room_around(z))))
         .collect();
-    let centres_all: Vec<Complex64> = joints
+    // Every loop's centre with its radius (joints: r).
+    let centres_all: Vec<(Complex64, f64)> = joints
         .iter()
-        .map(|j| j.z)
-        .chain(points.iter().map(|p| p.0))
+        .map(|j| (j.z, r))
+        .chain(points.iter().copied())
         .collect();
     // Only segments near a loop can cross it. With few loops a plain box
     // test per segment and loop is far cheaper than hashing every segment
     // of the network into the grid; with many the full grid is built.
     let grid = if centres_all.len() <= LOOPS_FOR_BOX_FILTER {
-        let reach = 1.01 * r;
         super::crossings::SegmentGrid::build_where(walls, |a, b| {
             let (lo_x, hi_x) = (a.re.min(b.re), a.re.max(b.re));
             let (lo_y, hi_y) = (a.im.min(b.im), a.im.max(b.im));
@@ -410,7 +414,8 @@ pub fn flatness_checked(
             // so that the grid decides about them as before.
             let all_finite = a.is_finite() && b.is_finite();
             !all_finite
-                || centres_all.iter().any(|c| {
+                || centres_all.iter().any(|&(c, radius)| {
+                    let reach = 1.01 * radius;
                     lo_x <= c.re + reach
                         && hi_x >= c.re - reach
                         && lo_y <= c.im + reach

@@ -286,8 +286,16 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
             }
         });
     }
+    // Singular points of the curve, drawn from their resolution: an open
+    // diamond where the split points sit.
+    for r in &curve.resolutions {
+        if let Some(center) = on_screen(r.z) {
+            branch_points.push(singular_marker(center, &colors, s));
+        }
+    }
     let legend = if opts.legend {
         let markers = Markers {
+            singular: curve.resolutions.iter().any(|r| on_screen(r.z).is_some()),
             simple_branch: net
                 .branch_points
                 .iter()
@@ -615,8 +623,22 @@ fn cuts(curve: &Curve, t: &Transform, colors: &ThemeColors, s: f32, margin: f64)
     shapes
 }
 
+/// The marker of a singular point of the curve: an open diamond around the
+/// points it was split into.
+fn singular_marker(center: [f32; 2], colors: &ThemeColors, s: f32) -> Shape {
+    Shape::Square {
+        center,
+        half: 1.6 * size::RING_RADIUS * s,
+        fill: None,
+        stroke: Some((size::RING_STROKE * s, colors.foreground)),
+        diamond: true,
+        item: Item::Decoration,
+    }
+}
+
 /// Which kinds of markers are visible, for the legend, and where they are.
 struct Markers {
+    singular: bool,
     simple_branch: bool,
     other_branch: bool,
     puncture: bool,
@@ -735,6 +757,12 @@ fn legend(
                 item: Item::Decoration,
             },
             "branch point, not simple",
+        ));
+    }
+    if markers.singular {
+        rows.push(Row::Marker(
+            singular_marker(placeholder, colors, s),
+            "singular point (drawn resolved)",
         ));
     }
     if markers.puncture {

@@ -193,7 +193,10 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
         let room = curve.distance_to_singular(z);
         let h_room = 0.5 * room / modulus(f0);
         h = h.min(h_room).min(reach - t);
-        if h.is_nan() || h <= 1e-15 * (1.0 + t) {
+        // The step underflows when it no longer moves z (not when it is
+        // small in mass: near two branch points 1e-5 apart masses are of
+        // order 1e-14 and steps rightly smaller still).
+        if h.is_nan() || h * modulus(f0) <= 1e-15 * (1.0 + modulus(z)) || h <= 1e-300 {
             return EndReason::Degenerate(format!(
                 "step size underflow at z = {:.6}{:+.6}i",
                 z.re, z.im

@@ -68,7 +68,7 @@ pub fn special_seeds(curve: &Curve, theta: f64) -> (Vec<WallSeed>, Vec<String>) 
         if sp.is_singular() {
             continue;
         }
-        let r0 = START_FRACTION * sp.model.room;
+        let r0 = sp.model.start_radius;
         let anchor = sp.z - CUT_DIRECTION * r0;
         let anchor_roots = curve.sheets_at(anchor).ok();
         let cycles = cycle_lengths(&sp.model.monodromy);

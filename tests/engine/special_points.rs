@@ -339,3 +339,127 @@ fn splitting_a_cube_root_point_converges_back_to_it() {
     }
     assert!(dist[2].1 < 0.01, "{dist:?}");
 }
+
+#[test]
+fn splitting_the_three_points_of_the_symmetric_cubic_converges_back() {
+    // y^3 + e y = z^3 - 1 splits each of the three points where all sheets
+    // meet into two simple ones; the joints and their children follow.
+    let theta = 0.35;
+    let limit_c = curve("y^3 = z^3 - 1");
+    let (limit, limit_all) = (
+        walls_inside(&limit_c, theta, 2.0),
+        walls_inside(&limit_c, theta, f64::INFINITY),
+    );
+    let mut dist = Vec::new();
+    for e in [0.03_f64, 0.01, 0.003] {
+        let c = curve(&format!("y^3 + {e}*y = z^3 - 1"));
+        let split = walls_inside(&c, theta, 2.0);
+        let split_all = walls_inside(&c, theta, f64::INFINITY);
+        dist.push((
+            e,
+            one_sided(&split, &limit_all).max(one_sided(&limit, &split_all)),
+        ));
+    }
+    for pair in dist.windows(2) {
+        assert!(pair[1].1 < 0.6 * pair[0].1, "{dist:?}");
+    }
+    assert!(dist[2].1 < 0.02, "{dist:?}");
+}
+
+/// A small deterministic generator (xorshift), so the sweep is repeatable.
+struct Rng(u64);
+
+impl Rng {
+    fn next(&mut self) -> f64 {
+        self.0 ^= self.0 << 13;
+        self.0 ^= self.0 >> 7;
+        self.0 ^= self.0 << 17;
+        (self.0 >> 11) as f64 / (1u64 << 53) as f64
+    }
+    fn point(&mut self, r: f64) -> Complex64 {
+        Complex64::new(r * (2.0 * self.next() - 1.0), r * (2.0 * self.next() - 1.0))
+    }
+}
+
+fn poly_text(roots: &[Complex64]) -> String {
+    roots
+        .iter()
+        .map(|r| format!("(z - ({} + {}i))", r.re, r.im))
+        .collect::<Vec<_>>()
+        .join("*")
+}
+
+/// One random curve with a cluster or a special point: rank 2 with a
+/// near-collision, a double zero (resolved) or a simple pole; rank 3 with
+/// points where all three sheets meet, split slightly or not at all.
+fn random_special_curve(rng: &mut Rng) -> (String, Curve) {
+    let kind = (rng.next() * 5.0) as usize;
+    let mut zeros: Vec<Complex64> = (0..2 + (rng.next() * 3.0) as usize)
+        .map(|_| rng.point(1.5))
+        .collect();
+    let text = match kind {
+        0 => {
+            // Two zeros 10^-2 .. 10^-5 apart.
+            let d = 10f64.powf(-2.0 - 3.0 * rng.next());
+            let near = zeros[0] + Complex64::from_polar(d, 6.0 * rng.next());
+            zeros.push(near);
+            format!("y^2 = {}", poly_text(&zeros))
+        }
+        1 => {
+            zeros.push(zeros[0]);
+            format!("y^2 = {}", poly_text(&zeros))
+        }
+        2 => {
+            let pole = rng.point(1.5);
+            format!(
+                "y^2 = {}/(z - ({} + {}i))",
+                poly_text(&zeros),
+                pole.re,
+                pole.im
+            )
+        }
+        3 => format!("y^3 = {}", poly_text(&zeros)),
+        _ => {
+            let e = 10f64.powf(-1.0 - 3.0 * rng.next());
+            format!("y^3 + {e}*(z + 0.3)*y = {}", poly_text(&zeros))
+        }
+    };
+    let c = curve(&text).with_singular_points_resolved(1e-3, PI);
+    (text, c)
+}
+
+#[test]
+fn flatness_holds_around_every_point_and_joint_of_500_random_special_curves() {
+    let mut rng = Rng(0x9e37_79b9_7f4a_7c15);
+    let mut settings = Settings::default();
+    settings.reach = 4.0;
+    let mut failures = Vec::new();
+    let mut loops = 0usize;
+    for case in 0..500 {
+        let (text, c) = random_special_curve(&mut rng);
+        let theta = TAU * rng.next();
+        let mut net = compute(&c, theta, &settings, &CancelToken::new());
+        // At a critical phase (a wall ends on a branch point) the loops are
+        // checked just off it, as the network itself does.
+        let critical = net
+            .walls
+            .iter()
+            .any(|w| matches!(w.end, wallflower::walls::EndReason::BranchPoint(_)));
+        if critical {
+            net = compute(&c, theta + 1e-6, &settings, &CancelToken::new());
+        }
+        loops += net.flatness.joints.len() + net.flatness.branch_points.len();
+        if net.flatness.worst > 1e-9 {
+            failures.push(format!(
+                "case {case}: {text} at {theta}: {:.1e}",
+                net.flatness.worst
+            ));
+        }
+    }
+    assert!(loops > 2000, "only {loops} loops checked");
+    assert!(
+        failures.is_empty(),
+        "{} failures: {failures:#?}",
+        failures.len()
+    );
+}
