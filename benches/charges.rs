@@ -2,8 +2,12 @@
 //! wall of marginal stability.
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use std::collections::BTreeMap;
 use std::hint::black_box;
+use wallflower::algebra::parse_equation;
 use wallflower::charges::ks::{product, KsFactor};
+use wallflower::spectrum::{find, SpectrumSettings};
+use wallflower::{CancelToken, Curve};
 
 /// Both sides of the SU(2) identity at order 12 (the weak-coupling side has
 /// 27 factors), compared exactly.
@@ -31,5 +35,30 @@ fn ks_su2_order_12(c: &mut Criterion) {
     });
 }
 
-criterion_group!(benches, ks_su2_order_12);
+/// The lattice and every state's charge (with the checks) for the spectrum
+/// of the `spectrum` bench `su2_u3_reach_8zw`, to set against that bench.
+fn lattice_and_charges(c: &mut Criterion) {
+    let eq = parse_equation("y^2 = (1 + 6 z + z^2)/z^3").unwrap();
+    let su2 = Curve::from_poly_in_y(&eq.evaluate(&BTreeMap::new()).unwrap()).unwrap();
+    let settings = SpectrumSettings {
+        reach: 8.0 * 30.561_582_312,
+        ..SpectrumSettings::default()
+    };
+    let found = find(&su2, &settings, &CancelToken::new(), &mut |_| {});
+    let mut bare = found.clone();
+    bare.lattice = None;
+    for s in &mut bare.states {
+        s.charge = None;
+    }
+    c.bench_function("lattice_and_charges_su2_u3_reach_8zw", |b| {
+        b.iter(|| {
+            let mut s = bare.clone();
+            wallflower::charges::assign(black_box(&su2), &mut s);
+            assert!(s.lattice.is_some());
+            s
+        })
+    });
+}
+
+criterion_group!(benches, ks_su2_order_12, lattice_and_charges);
 criterion_main!(benches);

@@ -276,6 +276,60 @@ pub fn span(vectors: &[Vec<i64>], dim: usize) -> (usize, u64) {
     (rank, index)
 }
 
+/// The inverse of a unimodular matrix (`None` if it is not one), by
+/// Gauss-Jordan in floating point, rounded and verified exactly.
+pub fn inverse(m: &Mat) -> Option<Mat> {
+    let n = m.len();
+    let mut a: Vec<Vec<f64>> = m
+        .iter()
+        .enumerate()
+        .map(|(i, row)| {
+            let mut r: Vec<f64> = row.iter().map(|&x| x as f64).collect();
+            r.extend((0..n).map(|j| f64::from(u8::from(i == j))));
+            r
+        })
+        .collect();
+    for col in 0..n {
+        let piv = (col..n).max_by(|&x, &y| a[x][col].abs().total_cmp(&a[y][col].abs()))?;
+        if a[piv][col].abs() < 1e-9 {
+            return None;
+        }
+        a.swap(col, piv);
+        let d = a[col][col];
+        for x in &mut a[col] {
+            *x /= d;
+        }
+        for r in 0..n {
+            if r != col {
+                let f = a[r][col];
+                if f != 0.0 {
+                    let pivot_row = a[col].clone();
+                    for (x, p) in a[r].iter_mut().zip(pivot_row) {
+                        *x -= f * p;
+                    }
+                }
+            }
+        }
+    }
+    let inv: Mat = a
+        .iter()
+        .map(|r| r[n..].iter().map(|x| x.round() as i64).collect())
+        .collect();
+    // Exact check: m inv = 1.
+    for i in 0..n {
+        for j in 0..n {
+            let mut t: i64 = 0;
+            for k in 0..n {
+                t = t.checked_add(m[i][k].checked_mul(inv[k][j])?)?;
+            }
+            if t != i64::from(i == j) {
+                return None;
+            }
+        }
+    }
+    Some(inv)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -289,6 +343,13 @@ mod tests {
                     .collect()
             })
             .collect()
+    }
+
+    #[test]
+    fn unimodular_inverse() {
+        let m = vec![vec![2, 1], vec![1, 1]];
+        assert_eq!(inverse(&m), Some(vec![vec![1, -1], vec![-1, 2]]));
+        assert_eq!(inverse(&vec![vec![2, 0], vec![0, 1]]), None);
     }
 
     #[test]

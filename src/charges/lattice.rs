@@ -54,6 +54,8 @@ pub enum LatticeError {
     NotInLattice,
     #[error("the lattice is too large ({0} classes)")]
     TooLarge(usize),
+    #[error("the singular points moved too far to continue the basis in one step")]
+    StepTooLarge,
 }
 
 /// A charge: integer coordinates in [`Lattice::basis`].
@@ -93,6 +95,8 @@ pub struct Lattice {
     kernel: Unimodular,
     rank_pi: usize,
     frobenius: Unimodular,
+    /// The curve, for continuing the basis to a nearby curve.
+    curve: Curve,
 }
 
 /// The covering graph and its cycle basis.
@@ -495,6 +499,9 @@ impl Tracker<'_> {
             }
             let here = z0 + (z1 - z0) * s;
             let room = PANEL_ROOM * self.curve.distance_to_singular(here);
+            if !room.is_finite() && room != f64::INFINITY || !len.is_finite() {
+                return Err(LatticeError::Continuation(here));
+            }
             // Not clamp: near the end 1 - s can fall below the floor.
             let ds = (room / len.max(1e-300)).max(1e-9).min(1.0 - s);
             let a = here;
@@ -614,7 +621,98 @@ impl Lattice {
             kernel,
             rank_pi,
             frobenius,
+            curve: curve.clone(),
         })
+    }
+
+    /// `H_1` coordinates of basis class `i`.
+    fn basis_h1(&self, i: usize) -> Vec<i64> {
+        let n = self.homology_rank;
+        let m = self.rank();
+        let mut x = vec![0_i64; n];
+        for k in 0..m {
+            let y = self.frobenius.u[k][i];
+            if y == 0 {
+                continue;
+            }
+            for (row, slot) in x.iter_mut().enumerate() {
+                *slot += self.kernel.u[row][self.rank_pi + k] * y;
+            }
+        }
+        x
+    }
+
+    /// The basis continued to `other`, the lattice of a nearby curve of the
+    /// same family: row i holds the coordinates in `other`'s basis of this
+    /// lattice's basis class i. The lasso representatives of this lattice
+    /// are closed curves on the other curve too, as long as no singular
+    /// point moved across them (checked: each moved less than a fifth of
+    /// its free radius); their class there follows from their cut
+    /// crossings, with the sheets matched by their values at the base point.
+    pub fn continued_to(&self, other: &Lattice) -> Result<Mat, LatticeError> {
+        let (a, b) = (&self.model, &other.model);
+        if a.points.len() != b.points.len() || a.sheets != b.sheets {
+            return Err(LatticeError::StepTooLarge);
+        }
+        for p in &a.points {
+            let moved = b
+                .points
+                .iter()
+                .map(|q| (q.z - p.z).norm())
+                .fold(f64::INFINITY, f64::min);
+            if moved > 0.2 * p.room {
+                return Err(LatticeError::StepTooLarge);
+            }
+        }
+        let base = a.lasso_geometry(0, 0, 1).base;
+        let mine = self
+            .curve
+            .sheets_at(base)
+            .map_err(|_| LatticeError::Continuation(base))?;
+        let theirs = other
+            .curve
+            .sheets_at(base)
+            .map_err(|_| LatticeError::Continuation(base))?;
+        let sigma: Vec<usize> = mine
+            .iter()
+            .map(|y| {
+                theirs
+                    .iter()
+                    .enumerate()
+                    .min_by(|x, z| (x.1 - y).norm().total_cmp(&(z.1 - y).norm()))
+                    .map_or(0, |(k, _)| k)
+            })
+            .collect();
+        let mut rows = Vec::with_capacity(self.rank());
+        for i in 0..self.rank() {
+            let h1 = self.basis_h1(i);
+            let mut chain = vec![0_i64; b.n_edges()];
+            for (c, &x) in h1.iter().enumerate() {
+                if x == 0 {
+                    continue;
+                }
+                for (e, &y) in a.cycles[c].iter().enumerate() {
+                    if y == 0 {
+                        continue;
+                    }
+                    let segs = a.lasso_segments(e, 0, 1);
+                    let mut poly: Vec<Complex64> = vec![segs[0].a];
+                    poly.extend(segs.iter().map(|s| s.b));
+                    let start = sigma[e % a.sheets];
+                    let mut part = vec![0_i64; b.n_edges()];
+                    let end = other.add_crossings(&poly, start, &mut part);
+                    let expected = sigma[a.points[e / a.sheets].perm[e % a.sheets]];
+                    if end != expected {
+                        return Err(LatticeError::StepTooLarge);
+                    }
+                    for (slot, v) in chain.iter_mut().zip(part) {
+                        *slot += x * y * v;
+                    }
+                }
+            }
+            rows.push(other.charge_of_chain(&chain)?);
+        }
+        Ok(rows)
     }
 
     /// Rank of the lattice.
@@ -865,5 +963,33 @@ mod tests {
         assert_eq!(lat.rank(), 2);
         assert_eq!(lat.elementary_divisors, vec![1]);
         assert_eq!(lat.flavour_rank, 0);
+    }
+}
+#[cfg(test)]
+mod continuation_tests {
+    use super::*;
+    use crate::algebra::parse_equation;
+
+    fn su2(u: f64) -> Curve {
+        let p = [("u".to_string(), Complex64::new(u, 0.0))].into();
+        let eq = parse_equation("y^2 = (1 + 2 u z + z^2)/z^3").unwrap();
+        Curve::from_poly_in_y(&eq.evaluate(&p).unwrap()).unwrap()
+    }
+
+    /// A small step continues the basis to itself (the same classes, whose
+    /// periods move continuously); a step that moves the branch points by
+    /// more than their free radius allows is refused, not guessed.
+    #[test]
+    fn small_steps_continue_the_basis_large_ones_are_refused() {
+        let a = Lattice::new(&su2(0.3)).unwrap();
+        for du in [1e-6, 1e-3] {
+            let b = Lattice::new(&su2(0.3 + du)).unwrap();
+            assert_eq!(a.continued_to(&b), Ok(vec![vec![1, 0], vec![0, 1]]));
+            for (x, y) in a.basis.iter().zip(&b.basis) {
+                assert!((x.z - y.z).norm() < 50.0 * du, "{} {}", x.z, y.z);
+            }
+        }
+        let far = Lattice::new(&su2(0.4)).unwrap();
+        assert_eq!(a.continued_to(&far), Err(LatticeError::StepTooLarge));
     }
 }

@@ -126,6 +126,30 @@ pub fn assign_with(
             Err(why) => uncharged.push((idx, why)),
         }
     }
+    // A state whose own cycle is null in homology has Z = 0 by Cauchy's
+    // theorem: a non-zero Z means its path was not the cycle claimed (e.g. a
+    // "closed trajectory" that did not enclose its points). Not a state.
+    let before = spectrum.states.len();
+    let mut kept = Vec::with_capacity(before);
+    for s in std::mem::take(&mut spectrum.states) {
+        if s.charge.as_ref().is_some_and(|c| c.iter().all(|&x| x == 0)) {
+            spectrum.warnings.push(format!(
+                "a {} with Z = {:.6}{:+.6}i was dropped: its cycle is null in homology",
+                match s.kind {
+                    Kind::Vector => "vector multiplet",
+                    _ => "state",
+                },
+                s.z.re,
+                s.z.im
+            ));
+        } else {
+            kept.push(s);
+        }
+    }
+    spectrum.states = kept;
+    if spectrum.states.len() != before {
+        mismatched.retain(|(i, _)| *i < spectrum.states.len());
+    }
     let gauge = lat.gauge_rank();
     let gauge_parts: Vec<Vec<i64>> = spectrum
         .states

@@ -132,7 +132,7 @@ enum Command {
     Jump(jump::JumpArgs),
     /// The spectrum over a grid of one complex parameter (a chamber map), or
     /// `scan merge DIR` to join the shares of a cluster run.
-    Scan(scan::ScanArgs),
+    Scan(Box<scan::ScanArgs>),
     /// Check a scenario: load it, build its curve and settings, report.
     Check {
         #[command(flatten)]

@@ -248,6 +248,9 @@ pub fn run(args: &ScanArgs) -> anyhow::Result<ExitCode> {
         bad_input!("--summary and --plot need the whole map: give them to `scan merge`");
     }
     check_map_args(&args.map)?;
+    if args.output.is_none() && (args.map.summary.is_some() || args.map.plot.is_some()) {
+        bad_input!("--summary and --plot read the map back: give -o FILE.jsonl");
+    }
     let threads = match args.threads {
         Some(0) => bad_input!("--threads must be at least 1"),
         Some(t) if t > 256 => bad_input!("--threads must be at most 256, got {t}"),
@@ -284,9 +287,9 @@ pub fn run(args: &ScanArgs) -> anyhow::Result<ExitCode> {
         None => {
             let mut sink =
                 |r: PointResult| emit(&point_line(&r, prepared.meta.settings.reach)).is_ok();
-            compute(&prepared, &wanted, threads, &mut sink, 0);
-            if args.map.summary.is_some() || args.map.plot.is_some() {
-                bad_input!("--summary and --plot read the map back: give -o FILE.jsonl");
+            let outcome = compute(&prepared, &wanted, threads, &mut sink, 0);
+            if outcome.stopped {
+                anyhow::bail!("the scan stopped early");
             }
             Ok(ExitCode::SUCCESS)
         }
@@ -567,8 +570,9 @@ struct SingularJson {
 
 #[derive(Serialize)]
 struct WallJson {
-    /// The charges of the two aligning states; `null` until states carry
-    /// charges (then `z` tells the pair apart).
+    /// The charges of the two aligning states, in the lattice basis of the
+    /// grid point the wall was first carried from; `null` when the finder
+    /// gave no charges (then `z` tells the pair apart).
     charges: Option<[Vec<i64>; 2]>,
     /// The two states' central charges at the first point.
     z: [[f64; 2]; 2],
@@ -618,7 +622,7 @@ fn summary_json(s: &MapSummary) -> SummaryJson {
             .walls
             .iter()
             .map(|w| WallJson {
-                charges: None,
+                charges: w.charges.clone(),
                 z: [xy(w.pair_z[0]), xy(w.pair_z[1])],
                 closed: w.closed,
                 points: w.points.iter().copied().map(xy).collect(),
@@ -700,11 +704,7 @@ fn run_merge(args: &MergeArgs) -> anyhow::Result<ExitCode> {
     }
     // Each share is in increasing grid order: merge them by always taking
     // the smallest next index (memory: one line per share).
-    let mut readers: Vec<(
-        PathBuf,
-        std::io::Lines<std::io::BufReader<std::fs::File>>,
-        Option<(usize, String)>,
-    )> = Vec::new();
+    let mut readers: Vec<Share> = Vec::new();
     for share in &shares {
         let f = std::fs::File::open(share)
             .with_context(|| format!("cannot read {}", share.display()))?;
@@ -768,6 +768,14 @@ fn run_merge(args: &MergeArgs) -> anyhow::Result<ExitCode> {
     finish_map(&prepared, &args.output, &args.map)?;
     Ok(ExitCode::SUCCESS)
 }
+
+/// A share being merged: its path, its remaining lines, and its next line
+/// with that line's grid index.
+type Share = (
+    PathBuf,
+    std::io::Lines<std::io::BufReader<std::fs::File>>,
+    Option<(usize, String)>,
+);
 
 /// A temporary file name in the folder of `path` (which must exist).
 fn temp_beside(path: &Path) -> anyhow::Result<PathBuf> {

@@ -481,19 +481,7 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
         eprintln!("warning: {}", super::one_line(w));
     }
     let reach = settings.reach;
-    let start_lattice = build(0.0)
-        .ok()
-        .and_then(|c| wallflower::charges::Lattice::new(&c).ok())
-        .map(|l| LatticeSummary {
-            basis: l.basis.iter().map(|b| b.z).collect(),
-            pairing: l.pairing.clone(),
-            flavour_rank: l.flavour_rank,
-            gauge_rank: l.gauge_rank(),
-            span_rank: 0,
-            span_index: 0,
-            worst_z_error: 0.0,
-            uncharged: 0,
-        });
+    let start_lattice = report.start_lattice.clone();
     let change_json = |c: &spectrum::Crossing| {
         let v = value_at(c.parameter);
         ChangeJson {

@@ -429,8 +429,19 @@ pub(super) fn cuts(curve: &Curve) -> Vec<Cut> {
             .map(|o| (o - s).norm())
             .fold(curve.length_scale(), f64::min);
         let on_cut = s + CUT_DIRECTION * (0.05 * room);
+        // The probes either side must not reach another cut: cuts are
+        // parallel, so keep them well inside the smallest sideways offset
+        // of another point's cut line that runs past this one (a point
+        // stacked above at the cuts' tilt puts its cut right beside ours).
+        let side = curve
+            .singular_points
+            .iter()
+            .filter(|o| (*o - s).norm() > 1e-12 * (1.0 + s.norm()))
+            .filter(|o| ((*o - s) * CUT_DIRECTION.conj()).re < 0.05 * room)
+            .map(|o| ((*o - s) * CUT_DIRECTION.conj()).im.abs())
+            .fold(0.01 * room, f64::min);
         // In w = (z - s)/d the east side of the cut is Im w > 0.
-        let east = CUT_DIRECTION * Complex64::new(0.0, 0.01 * room);
+        let east = CUT_DIRECTION * Complex64::new(0.0, 0.25 * side.max(1e-9 * room));
         let (Ok(west), Ok(right)) = (
             curve.sheets_at(on_cut - east),
             curve.sheets_at(on_cut + east),

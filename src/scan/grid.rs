@@ -164,7 +164,7 @@ mod tests {
     #[test]
     fn shards_partition_the_grid() {
         for n in [1, 2, 3, 7] {
-            let mut seen = vec![0; 50];
+            let mut seen = [0; 50];
             for k in 1..=n {
                 for i in (Shard { k, n }).indices(50) {
                     assert!((Shard { k, n }).owns(i));

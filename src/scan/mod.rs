@@ -77,6 +77,9 @@ pub fn compute_point(
     }
 }
 
+/// How often [`run`] looks at the caller's cancel token.
+pub const WATCH: std::time::Duration = std::time::Duration::from_millis(5);
+
 /// How a [`run`] ended.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct RunOutcome {
@@ -94,7 +97,10 @@ pub struct RunOutcome {
 ///
 /// Threads take the next index from a shared counter, so at any time only
 /// about `threads` results wait for their turn and memory does not grow
-/// with the grid.
+/// with the grid. Each thread polls a token of its own (the finder polls
+/// it in every inner loop, and one token shared by all threads would keep
+/// its counter's cache line bouncing between cores); the calling thread
+/// watches `cancel` every [`WATCH`] and passes a cancel on.
 pub fn run(
     grid: &Grid,
     indices: &[usize],
@@ -109,21 +115,23 @@ pub fn run(
     let stop = AtomicBool::new(false);
     let mut delivered = 0;
     let mut stopped = false;
+    let tokens: Vec<CancelToken> = (0..threads).map(|_| CancelToken::new()).collect();
+    let cancel_all = || tokens.iter().for_each(CancelToken::cancel);
     std::thread::scope(|scope| {
         let (tx, rx) = mpsc::channel::<(usize, PointResult)>();
         let mut spawned = 0;
-        for t in 0..threads {
+        for (t, token) in tokens.iter().enumerate() {
             let tx = tx.clone();
             let (next, stop) = (&next, &stop);
             let worker = move || loop {
-                if stop.load(Ordering::Relaxed) || cancel.is_cancelled() {
+                if stop.load(Ordering::Relaxed) || token.is_cancelled() {
                     return;
                 }
                 let pos = next.fetch_add(1, Ordering::Relaxed);
                 let Some(&index) = indices.get(pos) else {
                     return;
                 };
-                let result = compute_point(grid, index, curve_at, settings, cancel);
+                let result = compute_point(grid, index, curve_at, settings, token);
                 if tx.send((pos, result)).is_err() {
                     return;
                 }
@@ -149,7 +157,20 @@ pub fn run(
         // Results arrive in any order; hand them over in order.
         let mut waiting: BTreeMap<usize, PointResult> = BTreeMap::new();
         let mut head = 0;
-        for (pos, result) in rx {
+        loop {
+            let (pos, result) = match rx.recv_timeout(WATCH) {
+                Ok(got) => got,
+                Err(mpsc::RecvTimeoutError::Timeout) => {
+                    if cancel.is_cancelled() {
+                        cancel_all();
+                    }
+                    continue;
+                }
+                Err(mpsc::RecvTimeoutError::Disconnected) => break,
+            };
+            if cancel.is_cancelled() {
+                cancel_all();
+            }
             if stopped {
                 continue;
             }
@@ -158,6 +179,7 @@ pub fn run(
                 if result.cancelled || !sink(result) {
                     stopped = true;
                     stop.store(true, Ordering::Relaxed);
+                    cancel_all();
                     break;
                 }
                 head += 1;

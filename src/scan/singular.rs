@@ -108,7 +108,8 @@ fn refine(poly_at: &BranchPolyAt<'_>, p0: Complex64, z0: Complex64) -> Option<Si
             break;
         }
     }
-    if !(last_step <= 1e-11 * (1.0 + p.norm())) {
+    // (A NaN step fails this test too.)
+    if last_step.is_nan() || last_step > 1e-11 * (1.0 + p.norm()) {
         return None;
     }
     // At the limit the pair must really meet (not a drop in degree).

@@ -171,6 +171,28 @@ pub fn through_singular_points(
             w.points.push(p);
         }
     }
+    // A wall (closed, or open with the point inside) that passes within
+    // reach of a singular point goes through it: insert it at the nearest
+    // segment.
+    for w in walls.iter_mut() {
+        for sp in singular {
+            if w.points.contains(&sp.param) || w.points.len() < 2 {
+                continue;
+            }
+            let (mut best, mut at) = (f64::INFINITY, 0);
+            for (k, seg) in w.points.windows(2).enumerate() {
+                let (a, b) = (seg[0], seg[1]);
+                let t = ((sp.param - a) * (b - a).conj()).re / (b - a).norm_sqr().max(1e-300);
+                let d = (a + (b - a) * t.clamp(0.0, 1.0) - sp.param).norm();
+                if d < best {
+                    (best, at) = (d, k + 1);
+                }
+            }
+            if best <= near && at < w.points.len() {
+                w.points.insert(at, sp.param);
+            }
+        }
+    }
     // Join open walls that end at the same singular point.
     let is_singular = |z: Complex64| singular.iter().any(|s| s.param == z);
     let mut k = 0;

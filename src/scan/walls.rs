@@ -64,6 +64,9 @@ pub struct MarginalWall {
     pub points: Vec<Complex64>,
     /// The central charges of the two aligning states at `points[0]`.
     pub pair_z: [Complex64; 2],
+    /// Their charges, in the lattice basis of the grid point the first
+    /// crossing was carried from (`None` where the finder gave none).
+    pub charges: Option<[Vec<i64>; 2]>,
     /// The polyline closes on itself.
     pub closed: bool,
 }
@@ -152,7 +155,7 @@ impl Cycle {
     fn of_state(state: &BpsState, curve: &Curve, quad: &Quadratic) -> Option<Self> {
         let path = state.web.first()?.clone();
         let closed = state.kind == Kind::Vector;
-        if path.len() < if closed { 3 } else { 3 } {
+        if path.len() < 3 {
             return None;
         }
         let probe = if closed { path[0] } else { path[1] };
@@ -255,6 +258,8 @@ impl PairAt<'_> {
 /// cycles.
 struct BaseCycles {
     states: Vec<(Complex64, Cycle)>,
+    /// The charge of each state of `states`, when known.
+    charges: Vec<Option<Vec<i64>>>,
 }
 
 /// Recomputes the spectrum at `p` and keeps each state's cycle.
@@ -270,19 +275,22 @@ fn cycles_of(
     if found.cancelled {
         return None;
     }
-    let states = found
-        .states
-        .iter()
-        .filter_map(|s| Cycle::of_state(s, &curve, &quad).map(|c| (s.z, c)))
-        .collect();
-    Some(BaseCycles { states })
+    let mut states = Vec::new();
+    let mut charges = Vec::new();
+    for s in &found.states {
+        if let Some(c) = Cycle::of_state(s, &curve, &quad) {
+            states.push((s.z, c));
+            charges.push(s.charge.clone());
+        }
+    }
+    Some(BaseCycles { states, charges })
 }
 
 fn sine(a: Complex64, b: Complex64) -> f64 {
     (a * b.conj()).im / (a.norm() * b.norm()).max(1e-300)
 }
 
-/// Among the states at the edge's end `from` (the side with fewer states),
+/// Among the states at one end of an edge (the side with fewer states),
 /// the lightest pair whose alignment changes sign on the way to `to`, with
 /// their cycles carried along the edge. A state counts only if its carried
 /// Z at `to` is one of the states found there (up to sign, to 1e-6): that
@@ -290,11 +298,9 @@ fn sine(a: Complex64, b: Complex64) -> f64 {
 fn binding_pair<'a>(
     base: &BaseCycles,
     many: &PointStates,
-    from: Complex64,
     to: Complex64,
     curve_at: &'a CurveAt<'a>,
 ) -> Option<((usize, usize), PairAt<'a>)> {
-    let _ = from;
     let curve = curve_at(to).ok()?;
     let quad = Quadratic::new(curve.quadratic_differential()?);
     let carried: Vec<Option<Complex64>> = base
@@ -341,6 +347,7 @@ struct EdgeCrossing {
     base: usize,
     pair: (usize, usize),
     pair_z: [Complex64; 2],
+    charges: Option<[Vec<i64>; 2]>,
 }
 
 /// Traces the walls of marginal stability of a map. `points` holds every
@@ -406,13 +413,17 @@ pub fn trace(
             continue;
         };
         let (pf, pm) = (points[few].param, points[many].param);
-        let Some((pair, tracer)) = binding_pair(base, &points[many], pf, pm, curve_at) else {
+        let Some((pair, tracer)) = binding_pair(base, &points[many], pm, curve_at) else {
             report.edges_without_wall += 1;
             continue;
         };
         match tracer.root_on(pf, pm, tol) {
             Some(z) => {
                 let pair_z = tracer.zs(z).unwrap_or([Complex64::new(0.0, 0.0); 2]);
+                let charges = match (&base.charges[pair.0], &base.charges[pair.1]) {
+                    (Some(a), Some(b)) => Some([a.clone(), b.clone()]),
+                    _ => None,
+                };
                 crossings.insert(
                     edge,
                     EdgeCrossing {
@@ -420,6 +431,7 @@ pub fn trace(
                         base: few,
                         pair,
                         pair_z,
+                        charges,
                     },
                 );
             }
@@ -480,6 +492,7 @@ pub fn trace(
         .filter(|&e| degree(e) < 2)
         .chain(keys.iter().copied().filter(|&e| degree(e) >= 2))
         .collect();
+    let mut chains: Vec<(Vec<usize>, bool)> = Vec::new();
     for start in starts {
         if used.contains(&start) {
             continue;
@@ -505,6 +518,29 @@ pub fn trace(
                 }
             }
         }
+        chains.push((chain, closed));
+    }
+    let cell = spacing[0].hypot(spacing[1]);
+    let on_same_wall = |a: &EdgeCrossing, b: &EdgeCrossing| {
+        same_pair(a, b)
+            || tracer_of(a, &cycles_at, curve_at)
+                .and_then(|t| t.alignment(b.z))
+                .is_some_and(|s| s.abs() < 1e-6)
+    };
+    join_across_gaps(&mut chains, &crossings, 4.0 * cell, &on_same_wall);
+    // A lone crossing joined to nothing is noise of the finder near the
+    // wall, not a wall.
+    let lone = chains
+        .iter()
+        .filter(|(c, closed)| c.len() == 1 && !closed)
+        .count();
+    chains.retain(|(c, closed)| c.len() > 1 || *closed);
+    if lone > 0 {
+        report.warnings.push(format!(
+            "{lone} isolated grid edge(s) where a pair of states changes order were left out (no neighbouring crossing continues them)"
+        ));
+    }
+    for (chain, closed) in chains {
         let mut pts: Vec<Complex64> = Vec::with_capacity(2 * chain.len());
         let n = chain.len();
         let segments = if closed { n } else { n.saturating_sub(1) };
@@ -513,8 +549,13 @@ pub fn trace(
             pts.push(c.z);
             if k < segments && !cancel.is_cancelled() {
                 let d = &crossings[&chain[(k + 1) % n]];
-                if let Some(m) = midpoint(c, d, &cycles_at, curve_at, spacing, tol) {
-                    pts.push(m);
+                // One refined point between neighbours, more across a gap.
+                let pieces = ((d.z - c.z).norm() / cell).ceil().max(2.0) as usize;
+                for piece in 1..pieces {
+                    let at = c.z + (d.z - c.z) * (piece as f64 / pieces as f64);
+                    if let Some(m) = point_between(c, d, at, &cycles_at, curve_at, spacing, tol) {
+                        pts.push(m);
+                    }
                 }
             }
         }
@@ -525,39 +566,118 @@ pub fn trace(
         report.walls.push(MarginalWall {
             points: pts,
             pair_z: first.pair_z,
+            charges: first.charges.clone(),
             closed,
         });
     }
     report
 }
 
-/// One more point on the wall between two crossings: the root of the
-/// alignment on the perpendicular bisector of the segment, carried from
-/// the first crossing's grid point.
-fn midpoint(
+/// Whether two crossings are of the same pair of states (their Z agree up
+/// to sign and order within a quarter).
+fn same_pair(a: &EdgeCrossing, b: &EdgeCrossing) -> bool {
+    let close = |x: Complex64, y: Complex64| {
+        (x - y).norm().min((x + y).norm()) <= 0.25 * x.norm().max(y.norm())
+    };
+    let [a0, a1] = a.pair_z;
+    let [b0, b1] = b.pair_z;
+    (close(a0, b0) && close(a1, b1)) || (close(a0, b1) && close(a1, b0))
+}
+
+/// The pair of a crossing, carried from its grid point.
+fn tracer_of<'a>(
     c: &EdgeCrossing,
-    d: &EdgeCrossing,
     cycles_at: &HashMap<usize, Option<BaseCycles>>,
-    curve_at: &CurveAt<'_>,
-    spacing: [f64; 2],
-    tol: f64,
-) -> Option<Complex64> {
+    curve_at: &'a CurveAt<'a>,
+) -> Option<PairAt<'a>> {
     let base = cycles_at.get(&c.base)?.as_ref()?;
-    let tracer = PairAt {
+    Some(PairAt {
         cycles: [
             base.states.get(c.pair.0)?.1.clone(),
             base.states.get(c.pair.1)?.1.clone(),
         ],
         curve_at,
+    })
+}
+
+/// Joins the ends of open chains (or closes one chain) where the grid
+/// missed a crossing or two: ends closer than `gap` that belong to the
+/// same pair of states, nearest first. Between them points are refined
+/// like everywhere else.
+fn join_across_gaps(
+    chains: &mut Vec<(Vec<usize>, bool)>,
+    crossings: &HashMap<usize, EdgeCrossing>,
+    gap: f64,
+    on_same_wall: &dyn Fn(&EdgeCrossing, &EdgeCrossing) -> bool,
+) {
+    let end = |chain: &[usize], e: usize| {
+        if e == 0 {
+            chain[0]
+        } else {
+            chain[chain.len() - 1]
+        }
     };
-    let mid = (c.z + d.z) * 0.5;
+    for _ in 0..chains.len() + 1 {
+        let mut best: Option<(f64, usize, usize, usize, usize)> = None;
+        for i in 0..chains.len() {
+            for j in i..chains.len() {
+                if chains[i].1 || chains[j].1 {
+                    continue;
+                }
+                for ei in 0..2 {
+                    for ej in 0..2 {
+                        if i == j && (ei == ej || chains[i].0.len() < 4) {
+                            continue;
+                        }
+                        let a = &crossings[&end(&chains[i].0, ei)];
+                        let b = &crossings[&end(&chains[j].0, ej)];
+                        let d = (a.z - b.z).norm();
+                        if d <= gap && best.is_none_or(|x| d < x.0) && on_same_wall(a, b) {
+                            best = Some((d, i, ei, j, ej));
+                        }
+                    }
+                }
+            }
+        }
+        let Some((_, i, ei, j, ej)) = best else {
+            return;
+        };
+        if i == j {
+            chains[i].1 = true;
+            continue;
+        }
+        let (mut second, _) = chains.remove(j);
+        let first = &mut chains[i].0;
+        if ei == 0 {
+            first.reverse();
+        }
+        if ej == 1 {
+            second.reverse();
+        }
+        first.extend(second);
+    }
+}
+
+/// One more point on the wall between two crossings: the root of the
+/// alignment on the line through `at` (a point of the chord) perpendicular
+/// to the chord, carried from the first crossing's grid point.
+fn point_between(
+    c: &EdgeCrossing,
+    d: &EdgeCrossing,
+    at: Complex64,
+    cycles_at: &HashMap<usize, Option<BaseCycles>>,
+    curve_at: &CurveAt<'_>,
+    spacing: [f64; 2],
+    tol: f64,
+) -> Option<Complex64> {
+    let tracer = tracer_of(c, cycles_at, curve_at)?;
     let along = d.z - c.z;
     if along.norm() == 0.0 {
         return None;
     }
     let normal = along * Complex64::new(0.0, 1.0) / along.norm();
-    let reach = 0.5 * spacing[0].max(spacing[1]);
-    let found = tracer.root_on(mid - normal * reach, mid + normal * reach, tol)?;
+    let reach = 0.5 * spacing[0].max(spacing[1]).max(0.25 * along.norm());
+    let found = tracer.root_on(at - normal * reach, at + normal * reach, tol)?;
     // Keep it only if it lies between its neighbours.
-    ((found - mid).norm() <= 0.75 * along.norm()).then_some(found)
+    ((found - at).norm() <= 0.75 * along.norm()).then_some(found)
 }

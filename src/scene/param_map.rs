@@ -18,6 +18,7 @@ pub mod map_layer_names {
     pub const CHAMBERS: &str = "chambers";
     pub const GRID: &str = "grid";
     pub const WALLS: &str = "walls of marginal stability";
+    pub const WALL_LABELS: &str = "wall labels";
     pub const SINGULAR: &str = "singular points";
     pub const CURRENT: &str = "current point";
     pub const LEGEND: &str = "legend";
@@ -188,6 +189,35 @@ pub fn build_param_map(grid: &Grid, summary: &MapSummary, opts: &MapOptions) -> 
         })
         .collect();
     push(names::WALLS, walls);
+    // Each wall is labelled with its pair's charges at its highest point.
+    let mut labels = Vec::new();
+    for w in summary.walls.iter().filter(|_| valid) {
+        let (Some([a, b]), Some(top)) = (
+            &w.charges,
+            w.points
+                .iter()
+                .copied()
+                .max_by(|p, q| p.im.total_cmp(&q.im)),
+        ) else {
+            continue;
+        };
+        let show = |c: &[i64]| {
+            let parts: Vec<String> = c
+                .iter()
+                .map(|x| x.to_string().replace('-', "\u{2212}"))
+                .collect();
+            format!("({})", parts.join(", "))
+        };
+        let [x, y] = t.to_screen(top);
+        labels.push(Shape::Text {
+            pos: [x, y - 8.0 * s],
+            text: format!("{} \u{2225} {}", show(a), show(b)),
+            size: 12.0 * s,
+            color: colors.foreground,
+            anchor: Anchor::Middle,
+        });
+    }
+    push(names::WALL_LABELS, labels);
     let singular = summary
         .singular
         .iter()

@@ -87,6 +87,10 @@ pub struct CrossingReport {
     /// unexplained differences between neighbouring samples.
     #[serde(default)]
     pub other_changes: Vec<Crossing>,
+    /// The lattice at the start of the path; every charge in `crossings`
+    /// and `other_changes` is in its basis, continued along the path.
+    #[serde(default)]
+    pub start_lattice: Option<crate::charges::LatticeSummary>,
     /// Parameter values where the curve could not be built, with the reason,
     /// and warnings from the spectra.
     pub warnings: Vec<String>,
@@ -119,6 +123,7 @@ pub fn crossing(
         samples: Vec::new(),
         crossings: Vec::new(),
         other_changes: Vec::new(),
+        start_lattice: None,
         warnings: Vec::new(),
         cancelled: false,
     };
@@ -141,6 +146,12 @@ pub fn crossing(
         }
     };
     let mut prev: Option<(f64, Spectrum)> = None;
+    // The lattice at the start and the basis continued along the path:
+    // `to_start` maps charges at the last sample into the start's basis.
+    let mut start_lattice: Option<Lattice> = None;
+    let mut last_lattice: Option<(f64, Lattice, Mat)> = None;
+    let mut basis_lost = false;
+    let mut local_basis_changes = 0;
     for k in 0..=steps {
         if cancel.is_cancelled() {
             report.cancelled = true;
@@ -152,10 +163,44 @@ pub fn crossing(
             continue;
         };
         report.samples.push((p, spec.states.len()));
+        // Continue the basis to this sample.
+        if !basis_lost {
+            match (
+                &last_lattice,
+                build(p).ok().and_then(|c| Lattice::new(&c).ok()),
+            ) {
+                (None, Some(lat)) if start_lattice.is_none() => {
+                    let id = crate::charges::intmat::identity(lat.rank());
+                    start_lattice = Some(lat.clone());
+                    last_lattice = Some((p, lat, id));
+                }
+                (Some((q, lat_q, t_q)), Some(_)) => match continue_basis(build, lat_q, *q, p, 0) {
+                    Some((lat_p, t)) => {
+                        let t_p = mat_mul(t_q, &t);
+                        last_lattice = Some((p, lat_p, t_p));
+                    }
+                    None => basis_lost = true,
+                },
+                _ => basis_lost = true,
+            }
+            if basis_lost {
+                report.warnings.push(format!(
+                    "the lattice basis could not be continued past s = {p} (a singular point on the path?): later charges are in the basis where each change is"
+                ));
+            }
+        }
         if let Some((p0, s0)) = &prev {
-            if signature(s0) != signature(&spec) {
-                let (mut a, mut b) = (*p0, p);
-                let (mut sa, mut sb) = (s0.clone(), spec.clone());
+            // Several changes may lie between two samples: after locating
+            // one, look again between its far side and the sample.
+            let mut left: Option<(f64, Spectrum)> = Some((*p0, s0.clone()));
+            let mut found_here = 0;
+            while let Some((lp, ls)) = left.take() {
+                if signature(&ls) == signature(&spec) || found_here >= MAX_CHANGES_PER_STEP {
+                    break;
+                }
+                found_here += 1;
+                let (mut a, mut b) = (lp, p);
+                let (mut sa, mut sb) = (ls, spec.clone());
                 while (b - a).abs() > tol && !cancel.is_cancelled() {
                     let m = 0.5 * (a + b);
                     let Some(sm) = spectrum_at(m, &mut report, build) else {
@@ -170,14 +215,61 @@ pub fn crossing(
                 let mut change = Crossing {
                     parameter: 0.5 * (a + b),
                     interval: [a, b],
-                    before: sa.states,
-                    after: sb.states,
+                    before: sa.states.clone(),
+                    after: sb.states.clone(),
                     cause: Cause::Unexplained,
                     aligned: None,
                     ks: None,
                     aligned_at: None,
                 };
-                explain(&mut change, &sa.lattice, &sb.lattice, settings.reach, build);
+                // Both sides' charges in the basis at `a`, then in the start's.
+                let at_a =
+                    last_lattice
+                        .as_ref()
+                        .filter(|_| !basis_lost)
+                        .and_then(|(q, lat_q, t_q)| {
+                            let (lat_a, t_qa) = continue_basis(build, lat_q, *q, a, 0)?;
+                            Some((lat_a, mat_mul(t_q, &t_qa)))
+                        });
+                let local_a = match &at_a {
+                    Some((lat, _)) => Some(lat.clone()),
+                    None => build(a).ok().and_then(|c| Lattice::new(&c).ok()),
+                };
+                let lb_in_a = local_a.as_ref().and_then(|lat_a| {
+                    let (_, t_ab) = continue_basis(build, lat_a, a, b, 0)?;
+                    let back = crate::charges::intmat::inverse(&transpose(&t_ab))?;
+                    for st in &mut change.after {
+                        if let Some(c) = &st.charge {
+                            st.charge = Some(mat_vec(&back, c));
+                        }
+                    }
+                    let lb = sb.lattice.as_ref()?;
+                    let basis: Vec<Complex64> =
+                        t_ab.iter().map(|row| z_of(&lb.basis, row)).collect();
+                    Some(crate::charges::LatticeSummary {
+                        basis,
+                        pairing: lat_a.pairing.clone(),
+                        ..lb.clone()
+                    })
+                });
+                if lb_in_a.is_some() {
+                    explain(&mut change, &sa.lattice, &lb_in_a, settings.reach, build);
+                }
+                if let Some(to_start) = at_a
+                    .as_ref()
+                    .and_then(|(_, t0a)| crate::charges::intmat::inverse(&transpose(t0a)))
+                {
+                    for st in change.before.iter_mut().chain(change.after.iter_mut()) {
+                        if let Some(c) = &st.charge {
+                            st.charge = Some(mat_vec(&to_start, c));
+                        }
+                    }
+                    if let Cause::SingularPoint { massless: Some(m) } = &mut change.cause {
+                        *m = mat_vec(&to_start, m);
+                    }
+                } else {
+                    local_basis_changes += 1;
+                }
                 if matches!(
                     change.cause,
                     Cause::MarginalStability | Cause::SingularPoint { .. }
@@ -186,14 +278,149 @@ pub fn crossing(
                 } else {
                     report.other_changes.push(change);
                 }
+                if b != p {
+                    left = Some((b, sb));
+                }
             }
         }
         progress((k + 1) as f64 / (steps + 1) as f64);
         prev = Some((p, spec));
     }
     report.cancelled = cancel.is_cancelled();
+    if local_basis_changes > 0 {
+        report.warnings.push(format!(
+            "{local_basis_changes} change(s) carry charges in the lattice basis where they are, not the start's"
+        ));
+    }
+    merge_near_singular_points(&mut report, 1e-3 * (to - from).abs());
+    report.start_lattice = start_lattice.map(|l| crate::charges::LatticeSummary {
+        basis: l.basis.iter().map(|b| b.z).collect(),
+        pairing: l.pairing.clone(),
+        flavour_rank: l.flavour_rank,
+        gauge_rank: l.gauge_rank(),
+        span_rank: 0,
+        span_index: 0,
+        worst_z_error: 0.0,
+        uncharged: 0,
+    });
     report
 }
+
+type Mat = Vec<Vec<i64>>;
+
+fn mat_mul(a: &Mat, b: &Mat) -> Mat {
+    let n = b.first().map_or(0, Vec::len);
+    a.iter()
+        .map(|row| {
+            (0..n)
+                .map(|j| row.iter().zip(b).map(|(x, r)| x * r[j]).sum())
+                .collect()
+        })
+        .collect()
+}
+
+fn transpose(a: &Mat) -> Mat {
+    let n = a.first().map_or(0, Vec::len);
+    (0..n).map(|j| a.iter().map(|r| r[j]).collect()).collect()
+}
+
+fn mat_vec(a: &Mat, v: &[i64]) -> Vec<i64> {
+    a.iter()
+        .map(|row| row.iter().zip(v).map(|(x, y)| x * y).sum())
+        .collect()
+}
+
+/// The lattice at `to` and the basis of `from_lat` (at `from`) continued
+/// there (rows: `from_lat`'s classes in the new basis), halving the step
+/// where the singular points move too far for one.
+fn continue_basis(
+    build: &mut dyn FnMut(f64) -> Result<Curve, String>,
+    from_lat: &Lattice,
+    from: f64,
+    to: f64,
+    depth: usize,
+) -> Option<(Lattice, Mat)> {
+    let to_lat = Lattice::new(&build(to).ok()?).ok()?;
+    match from_lat.continued_to(&to_lat) {
+        Ok(t) => Some((to_lat, t)),
+        Err(crate::charges::LatticeError::StepTooLarge) if depth < 12 => {
+            let mid = 0.5 * (from + to);
+            let (mid_lat, t1) = continue_basis(build, from_lat, from, mid, depth + 1)?;
+            let (to_lat, t2) = continue_basis(build, &mid_lat, mid, to, depth + 1)?;
+            Some((to_lat, mat_mul(&t1, &t2)))
+        }
+        Err(_) => None,
+    }
+}
+
+/// Folds the changes within `window` of a singular point into it (the
+/// finder's counts are not reliable that close to a massless state): the
+/// merged crossing keeps the spectrum before the first and after the last.
+fn merge_near_singular_points(report: &mut CrossingReport, window: f64) {
+    let mut all: Vec<Crossing> = report
+        .crossings
+        .drain(..)
+        .chain(report.other_changes.drain(..))
+        .collect();
+    all.sort_by(|a, b| a.parameter.total_cmp(&b.parameter));
+    let singular: Vec<f64> = all
+        .iter()
+        .filter(|c| matches!(c.cause, Cause::SingularPoint { .. }))
+        .map(|c| c.parameter)
+        .collect();
+    let near = |c: &Crossing| {
+        !matches!(c.cause, Cause::MarginalStability)
+            && singular.iter().any(|p| (c.parameter - p).abs() <= window)
+    };
+    let mut out: Vec<Crossing> = Vec::new();
+    for c in all {
+        let merge = near(&c)
+            && out.last().is_some_and(|last| {
+                matches!(last.cause, Cause::SingularPoint { .. })
+                    && (c.parameter - last.interval[1]).abs() <= window
+            });
+        if merge {
+            let last = out.last_mut().expect("checked");
+            last.interval[1] = c.interval[1];
+            last.after = c.after;
+            if let (Cause::SingularPoint { massless: None }, Cause::SingularPoint { massless }) =
+                (&last.cause, &c.cause)
+            {
+                last.cause = Cause::SingularPoint {
+                    massless: massless.clone(),
+                };
+            }
+        } else if near(&c) && !matches!(c.cause, Cause::SingularPoint { .. }) {
+            // An unexplained change just before a singular point: it opens
+            // the singular point's entry.
+            let mut c = c;
+            let at = singular
+                .iter()
+                .copied()
+                .min_by(|a, b| (a - c.parameter).abs().total_cmp(&(b - c.parameter).abs()));
+            c.cause = Cause::SingularPoint { massless: None };
+            if let Some(p) = at {
+                c.parameter = p;
+            }
+            out.push(c);
+        } else {
+            out.push(c);
+        }
+    }
+    for c in out {
+        if matches!(
+            c.cause,
+            Cause::MarginalStability | Cause::SingularPoint { .. }
+        ) {
+            report.crossings.push(c);
+        } else {
+            report.other_changes.push(c);
+        }
+    }
+}
+
+/// Most changes located between two neighbouring samples.
+const MAX_CHANGES_PER_STEP: usize = 8;
 
 /// The Z of a charge from a lattice's basis periods.
 fn z_of(basis: &[Complex64], c: &[i64]) -> Complex64 {
@@ -230,16 +457,6 @@ fn explain(
     // parameter; the massless charge is the lightest small lattice vector.
     if let Some(massless) = singular_at(change.parameter, la, build) {
         change.cause = Cause::SingularPoint { massless };
-        return;
-    }
-    // The two sides must share the basis (no cut reordering in between).
-    let same_basis = la.pairing == lb.pairing
-        && la
-            .basis
-            .iter()
-            .zip(&lb.basis)
-            .all(|(x, y)| (x - y).norm() <= 1e-3 * (1.0 + x.norm()));
-    if !same_basis {
         return;
     }
     let charges =
@@ -415,9 +632,9 @@ fn ks_check(
 }
 
 /// Whether the curve at `p` is (nearly) singular: two branch points closer
-/// than 1e-3 of its length scale. Returns the massless charge if one of the
-/// lattice vectors with entries in -2..=2 has |Z| below 1e-3 of the basis
-/// scale.
+/// than 1e-2 of its length scale with a lattice vector (entries in -2..=2)
+/// whose |Z| is below 1e-3 of the basis scale (the massless charge, which
+/// is returned), or closer than 1e-3 of the scale.
 fn singular_at(
     p: f64,
     la: &crate::charges::LatticeSummary,
@@ -432,15 +649,15 @@ fn singular_at(
             closest = closest.min((bps[a].z - bps[b].z).norm());
         }
     }
-    let collided = closest < 1e-3 * scale || bps.iter().any(|b| !b.simple);
-    if !collided {
+    let near = closest < 1e-2 * scale || bps.iter().any(|b| !b.simple);
+    if !near {
         return None;
     }
     let basis = &la.basis;
     let size = basis.iter().map(|z| z.norm()).fold(0.0, f64::max);
     let n = basis.len();
     if n == 0 || n > 6 {
-        return Some(None);
+        return (closest < 1e-3 * scale).then_some(None);
     }
     let mut best: Option<(Vec<i64>, f64)> = None;
     let mut c = vec![-2_i64; n];
@@ -462,7 +679,12 @@ fn singular_at(
         }
         c[k] += 1;
     }
-    Some(best.filter(|b| b.1 < 1e-2 * size).map(|b| {
+    // Singular: the points nearly collide and a class is nearly massless.
+    let light = best.as_ref().is_some_and(|b| b.1 < 1e-3 * size);
+    if !light && closest >= 1e-3 * scale {
+        return None;
+    }
+    Some(best.filter(|b| b.1 < 1e-3 * size).map(|b| {
         // The sign with the first non-zero entry positive.
         let neg = b.0.iter().find(|&&x| x != 0).is_some_and(|&x| x < 0);
         b.0.into_iter().map(|x| if neg { -x } else { x }).collect()

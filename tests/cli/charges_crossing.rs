@@ -151,3 +151,34 @@ fn spectrum_json_carries_the_lattice_and_strict_fails_a_short_spectrum() {
     ]);
     assert_eq!(code, 0, "{err}");
 }
+
+/// From u = 0.3 to u = 3 the path meets the singular point u = 1, where the
+/// monopole becomes massless (Seiberg-Witten 1994; from memory). It must be
+/// reported as such, with a massless charge of the lattice, and nothing
+/// else may count as a crossing below |Z| = 100 (states passing the reach
+/// are reported apart).
+#[test]
+fn the_path_through_u_equal_one_meets_a_singular_point_and_nothing_else() {
+    let v = json(&[
+        "crossing",
+        "scenarios/su2-pure.ron",
+        "--from",
+        "u=0.3",
+        "--to",
+        "u=3",
+        "--reach",
+        "100",
+        "--json",
+    ]);
+    let changes = v["crossings"].as_array().unwrap();
+    assert_eq!(changes.len(), 1, "{:#}", v["crossings"]);
+    let c = &changes[0];
+    assert_eq!(c["cause"], "singular-point");
+    assert!((c["value"][0].as_f64().unwrap() - 1.0).abs() < 1e-3, "{c}");
+    let massless = c["massless"].as_array().unwrap();
+    assert_eq!(massless.len(), 2);
+    assert!(massless.iter().any(|x| x.as_i64().unwrap() != 0));
+    for other in v["other_changes"].as_array().unwrap() {
+        assert_eq!(other["cause"], "reach", "{other}");
+    }
+}
