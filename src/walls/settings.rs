@@ -69,7 +69,9 @@ pub struct Settings {
     /// The direction of that shift, in radians (the split points of a
     /// zero of order n sit at angles (resolution_phase + 2 pi k)/n). The
     /// picture and the massive spectrum can depend on it: it picks the
-    /// side from which the singular point is approached. Default pi.
+    /// side from which the singular point is approached. Default 2.5: an
+    /// angle off the symmetry axes of typical curves, so that phases such
+    /// as 0 and pi/2 are not the critical phase of the massless state.
     pub resolution_phase: f64,
 }
 
@@ -86,7 +88,7 @@ impl Default for Settings {
             branch_hit_radius: 1e-6,
             max_turn_rad: 0.05,
             resolution: 1e-3,
-            resolution_phase: std::f64::consts::PI,
+            resolution_phase: 2.5,
         }
     }
 }
