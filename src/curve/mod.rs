@@ -130,6 +130,10 @@ pub struct Resolution {
     pub distance: f64,
     /// The singular point's own local model, before the split.
     pub model: LocalModel,
+    /// The length scale of the curve before the split: the resolved curve
+    /// keeps it, so that bounds and views stay those of the curve as typed.
+    #[serde(default)]
+    pub scale: f64,
 }
 
 /// The Taylor coefficient `p^(n)(b) / n!`.
@@ -315,6 +319,12 @@ impl Curve {
     /// A length that sets the scale of the picture: the spread of the
     /// singular points, at least 1e-3 and at most 1e6.
     pub fn length_scale(&self) -> f64 {
+        // A resolution keeps the scale of the curve it resolves.
+        let before = self.resolutions.iter().map(|r| r.scale).fold(0.0, f64::max);
+        self.own_length_scale().max(before)
+    }
+
+    fn own_length_scale(&self) -> f64 {
         let pts = &self.singular_points;
         if pts.len() < 2 {
             return pts
@@ -407,6 +417,7 @@ impl Curve {
                 shift: e,
                 distance: delta,
                 model,
+                scale: self.length_scale(),
             });
         }
         // Lagrange: e(z) = sum_b e_b prod_{b' != b} (z - b')/(b - b').
