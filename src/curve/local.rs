@@ -74,7 +74,9 @@ fn gcd(a: u32, b: u32) -> u32 {
     }
 }
 
-fn lcm(a: u32, b: u32) -> u32 {
+/// Least common multiple (the Puiseux denominator of a pair of sheets in
+/// cycles of these lengths).
+pub(crate) fn lcm(a: u32, b: u32) -> u32 {
     a / gcd(a, b).max(1) * b
 }
 
@@ -164,8 +166,9 @@ impl LocalModel {
 /// `(radius/room)^(1/p)`), large enough that the roots stay well resolved.
 const MODEL_FRACTION: f64 = 1e-7;
 
-/// Start radius of walls as a fraction of the room (as for simple branch points).
-const START_FRACTION: f64 = 1e-3;
+/// Start distance of walls as a fraction of the room around their point,
+/// for simple branch points and special points alike.
+pub const START_FRACTION: f64 = 1e-3;
 
 /// Radii are kept this many times the spread of merged roots.
 const SPREAD_FACTOR: f64 = 1e3;
@@ -180,12 +183,7 @@ pub fn local_model(
     monodromy: &[usize],
 ) -> Option<LocalModel> {
     let k = curve.rank;
-    let room = curve
-        .singular_points
-        .iter()
-        .map(|s| (s - b).norm())
-        .filter(|d| *d > 1e-12 * (1.0 + b.norm()))
-        .fold(curve.length_scale(), f64::min);
+    let room = curve.room_around(b);
     let up = -CUT_DIRECTION;
     let rho = (MODEL_FRACTION * room)
         .max(SPREAD_FACTOR * spread)
@@ -270,7 +268,8 @@ fn find(parent: &mut [usize], x: usize) -> usize {
     r
 }
 
-fn cycle_lengths(perm: &[usize]) -> Vec<u32> {
+/// Length of the cycle of every label under `perm`.
+pub(crate) fn cycle_lengths(perm: &[usize]) -> Vec<u32> {
     (0..perm.len())
         .map(|a| {
             let mut x = perm[a];

@@ -11,7 +11,8 @@ mod local;
 mod sheets;
 
 pub use coeffs::{csqrt, CoeffEval};
-pub use local::{Exponent, LocalModel, PairOrbit};
+pub(crate) use local::{cycle_lengths, lcm};
+pub use local::{Exponent, LocalModel, PairOrbit, START_FRACTION};
 pub use sheets::{closest_pair, roots_of_monic, sort_roots, ContinuationError};
 
 use crate::algebra::{Poly, PolyInY, Rational};

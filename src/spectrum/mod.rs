@@ -311,13 +311,18 @@ fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
         spectrum.massless.push(s);
     }
     let n = spectrum.massless.len();
+    let found = if n == 0 {
+        "the finder found none of the states that become massless there".to_string()
+    } else {
+        format!("{n} state(s) become massless there and are listed apart, with Z = 0")
+    };
     let points: Vec<String> = curve
         .resolutions
         .iter()
         .map(|r| format!("{:.6}{:+.6}i", r.z.re, r.z.im))
         .collect();
     spectrum.warnings.push(format!(
-        "the curve is singular at {}: computed on a resolution (settings resolution and resolution_phase); {n} state(s) become massless there and are listed apart, with Z = 0; the massive spectrum is that of the side the resolution approaches from",
+        "the curve is singular at {}: computed on a resolution (settings resolution and resolution_phase); {found}; the massive spectrum is that of the side the resolution approaches from",
         points.join(", ")
     ));
 }

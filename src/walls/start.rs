@@ -15,14 +15,14 @@
 
 use super::crossed_cuts;
 use super::{Origin, WallPoint, WallSeed, WallType};
-use crate::curve::{csqrt, BranchPoint, Curve, Site, SpecialPoint, CUT_DIRECTION};
+use crate::curve::{
+    csqrt, cycle_lengths, lcm, BranchPoint, Curve, Site, SpecialPoint, CUT_DIRECTION,
+    START_FRACTION,
+};
 use crate::network::jump::{closing_signs, ClosingSigns};
 use crate::quad::gauss_legendre_rule;
 use num_complex::Complex64;
 use std::f64::consts::{PI, TAU};
-
-/// Start distance as a fraction of the room around the branch point.
-const START_FRACTION: f64 = 1e-3;
 
 /// Gauss-Legendre nodes for the period from the branch point. In s the
 /// integrand is analytic for |s| < (room / r0)^(1/2), about 30 at the start
@@ -39,7 +39,7 @@ pub fn primary_seeds(curve: &Curve, theta: f64) -> Vec<WallSeed> {
             continue;
         }
         // One labelling per branch point, carried round to each start.
-        let r0 = START_FRACTION * room_around(curve, bp.z);
+        let r0 = START_FRACTION * curve.room_around(bp.z);
         let anchor = bp.z - CUT_DIRECTION * r0;
         let anchor_roots = curve.sheets_at(anchor).ok();
         for n in 0..3u8 {
@@ -149,27 +149,6 @@ struct Ray {
     phi: f64,
     r0: f64,
     q: u32,
-}
-
-fn cycle_lengths(perm: &[usize]) -> Vec<u32> {
-    (0..perm.len())
-        .map(|a| {
-            let (mut x, mut n) = (perm[a], 1u32);
-            while x != a && (n as usize) <= perm.len() {
-                x = perm[x];
-                n += 1;
-            }
-            n
-        })
-        .collect()
-}
-
-fn lcm(a: u32, b: u32) -> u32 {
-    let (mut x, mut y) = (a, b);
-    while y != 0 {
-        (x, y) = (y, x % y);
-    }
-    a / x.max(1) * b
 }
 
 fn seed_from_model(
@@ -345,10 +324,6 @@ fn arc_sheets(
     Some(roots)
 }
 
-fn room_around(curve: &Curve, b: Complex64) -> f64 {
-    curve.room_around(b)
-}
-
 fn seed_for(
     curve: &Curve,
     bp: &BranchPoint,
@@ -358,7 +333,7 @@ fn seed_for(
     anchor_roots: Option<&[Complex64]>,
 ) -> Option<WallSeed> {
     let b = bp.z;
-    let r0 = START_FRACTION * room_around(curve, b);
+    let r0 = START_FRACTION * curve.room_around(b);
     let phi = (2.0 / 3.0) * (theta - bp.series_coeff.arg()) + TAU * f64::from(n) / 3.0;
     let dir = Complex64::from_polar(1.0, phi);
     let mut z0 = b + dir * r0;
@@ -477,7 +452,7 @@ mod tests {
         ] {
             let c = curve(text);
             for bp in c.branch_points.iter().filter(|b| b.simple) {
-                let r0 = START_FRACTION * room_around(&c, bp.z);
+                let r0 = START_FRACTION * c.room_around(bp.z);
                 let anchor = c.sheets_at(bp.z - CUT_DIRECTION * r0).unwrap();
                 for k in 0..24 {
                     let phi = 0.05 + TAU * f64::from(k) / 24.0;
