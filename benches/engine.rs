@@ -139,9 +139,12 @@ fn networks(c: &mut Criterion) {
         b.iter(|| compute(black_box(&four), 0.3, &s10, &CancelToken::new()))
     });
     // A point where three sheets meet against the two simple branch points
-    // (and the joints between them) that it splits into, side by side.
+    // (and the joints between them) that it splits into, side by side, in
+    // the same box: the default box follows the curve's length scale, which
+    // for the split is the tiny distance between its points.
     let s8 = Settings {
         reach: 8.0,
+        bounds: Some(wallflower::walls::Bounds::square(0.0, 0.0, 5.0)),
         ..Settings::default()
     };
     let cube_root = equation("y^3 = z");

@@ -137,6 +137,24 @@ pub struct Resolution {
     pub scale: f64,
 }
 
+/// The polynomial added to u_K's numerator by a resolution, by Lagrange:
+/// `e(z) = sum_b e_b prod_{b' != b} (z - b')/(b - b')`, so that it takes
+/// the value `e_b` at each resolved point `b`.
+fn shift_polynomial(shifts: &[Resolution]) -> Poly {
+    let mut e_poly = Poly::zero();
+    for (a, res) in shifts.iter().enumerate() {
+        let mut basis = Poly::constant(res.shift);
+        for (c, other) in shifts.iter().enumerate() {
+            if a != c {
+                let denom = res.z - other.z;
+                basis = basis.mul(&Poly::new(vec![-other.z / denom, 1.0 / denom]));
+            }
+        }
+        e_poly = e_poly.add(&basis);
+    }
+    e_poly
+}
+
 /// The Taylor coefficient `p^(n)(b) / n!`.
 fn taylor_coefficient(p: &Poly, b: Complex64, n: usize) -> Complex64 {
     let mut d = p.clone();
@@ -421,26 +439,39 @@ impl Curve {
                 scale: self.length_scale(),
             });
         }
-        // Lagrange: e(z) = sum_b e_b prod_{b' != b} (z - b')/(b - b').
-        let mut e_poly = Poly::zero();
-        for (a, res) in shifts.iter().enumerate() {
-            let mut basis = Poly::constant(res.shift);
-            for (c, other) in shifts.iter().enumerate() {
-                if a != c {
-                    let denom = res.z - other.z;
-                    basis = basis.mul(&Poly::new(vec![-other.z / denom, 1.0 / denom]));
-                }
-            }
-            e_poly = e_poly.add(&basis);
-        }
         let mut u = self.u.clone();
         u[k] = Rational {
-            num: num.add(&e_poly),
+            num: num.add(&shift_polynomial(&shifts)),
             den: self.u[k].den.clone(),
         };
         let mut curve = Self::from_monic(k, u).ok()?;
         curve.resolutions.clone_from(&shifts);
         Some((curve, shifts))
+    }
+
+    /// The coefficients of the singular curve this curve resolves (its own
+    /// when [`Curve::resolutions`] is empty): the shift taken back off.
+    pub fn unresolved_coefficients(&self) -> Vec<Rational> {
+        let mut u = self.u.clone();
+        if !self.resolutions.is_empty() {
+            let k = self.rank;
+            let e = shift_polynomial(&self.resolutions).scale(Complex64::new(-1.0, 0.0));
+            u[k] = Rational {
+                num: u[k].num.add(&e),
+                den: u[k].den.clone(),
+            };
+        }
+        u
+    }
+
+    /// `q` of the singular curve this rank-2 curve resolves (see
+    /// [`Curve::unresolved_coefficients`]).
+    pub fn unresolved_quadratic_differential(&self) -> Option<Rational> {
+        let u = self.unresolved_coefficients();
+        (self.rank == 2).then(|| {
+            let quarter = Rational::constant(Complex64::new(0.25, 0.0));
+            u[1].mul(&u[1]).mul(&quarter).sub(&u[2])
+        })
     }
 
     /// This curve, or its resolution ([`Curve::resolved`]) when it has

@@ -31,6 +31,7 @@
 //! simple webs, index unknown with a warning otherwise).
 
 pub mod crossing;
+mod limit;
 pub mod pair;
 pub mod period;
 pub mod ring;
@@ -269,6 +270,7 @@ pub fn find(
         crate::charges::assign_with(&lattice, curve, &mut spectrum);
     }
     split_massless(curve, &mut spectrum);
+    limit::to_singular_limit(curve, &mut spectrum);
     spectrum
 }
 

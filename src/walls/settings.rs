@@ -63,11 +63,16 @@ pub struct Settings {
     /// Singular points of the curve (where a cycle vanishes) are drawn
     /// from a resolution: the last coefficient's numerator is shifted so
     /// that each singular point splits into points this far apart from
-    /// it, relative to the room around it. Range [1e-8, 0.1]. Default 1e-3:
-    /// far below what a figure shows, far above rounding.
+    /// it, relative to the room around it. Range [1e-8, 0.1]. Default 1e-2:
+    /// a split a figure of the whole curve barely shows, far above
+    /// rounding, and wide enough that the spectrum finder resolves the
+    /// saddles that end in the cluster (it cannot below about 1e-3: their
+    /// capture discs shrink with the split while the phase accuracy they
+    /// need grows). Massive central charges are reported at the limit
+    /// (see `spectrum::limit`), so the split only picks the states.
     pub resolution: f64,
     /// The direction of that shift, in radians (the split points of a
-    /// zero of order n sit at angles (resolution_phase + 2 pi k)/n). The
+    /// zero of order n sit at angles resolution_phase + 2 pi k/n). The
     /// picture and the massive spectrum can depend on it: it picks the
     /// side from which the singular point is approached. Default 2.5: an
     /// angle off the symmetry axes of typical curves, so that phases such
@@ -87,7 +92,7 @@ impl Default for Settings {
             puncture_radius: 1e-3,
             branch_hit_radius: 1e-6,
             max_turn_rad: 0.05,
-            resolution: 1e-3,
+            resolution: 1e-2,
             resolution_phase: 2.5,
         }
     }

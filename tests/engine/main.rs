@@ -28,6 +28,7 @@ mod robust_sweep;
 mod samples;
 mod scan_map;
 mod scenario_files;
+mod singular_spectrum;
 mod special_points;
 mod spectrum_api;
 mod spectrum_cubic;
