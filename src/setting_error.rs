@@ -114,10 +114,10 @@ pub fn show_f64(x: f64) -> String {
     }
 }
 
-/// A range's end: powers of ten from 1e5 up and below 1e-3 as `1eN`,
+/// A range's end: powers of ten from 1e5 up and below 1e-2 as `1eN`,
 /// others as written (`0.005`, `50`).
 fn bound(x: f64) -> String {
-    let big_or_tiny = x != 0.0 && !(1e-3..1e5).contains(&x.abs());
+    let big_or_tiny = x != 0.0 && !(1e-2..1e5).contains(&x.abs());
     if big_or_tiny && x.abs().log10().fract() == 0.0 {
         format!("{x:e}")
     } else {

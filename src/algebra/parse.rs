@@ -470,7 +470,7 @@ mod tests {
             let err = parse_complex(text).expect_err(text);
             assert_eq!(err.column, column, "{text:?}: {err}");
             assert!(
-                err.message.contains(fragment),
+                err.kind.to_string().contains(fragment),
                 "{text:?}: {err} lacks {fragment:?}"
             );
         }
@@ -577,7 +577,7 @@ mod tests {
     #[test]
     fn error_display_has_column() {
         let err = parse_equation("y^2 = (").unwrap_err();
-        assert_eq!(err.to_string(), format!("column 8: {}", err.message));
+        assert_eq!(err.to_string(), format!("column 8: {}", err.kind));
     }
 
     #[test]
@@ -610,7 +610,7 @@ mod tests {
             .unwrap()
             .evaluate(&BTreeMap::new())
             .unwrap_err();
-        assert!(err.message.contains("degree in z"), "{err}");
+        assert!(err.kind.to_string().contains("degree in z"), "{err}");
     }
 
     #[test]
