@@ -15,6 +15,7 @@ pub mod network;
 pub mod quad;
 pub mod samples;
 pub mod scan;
+pub mod setting_error;
 pub mod walls;
 
 pub use cancel::CancelToken;

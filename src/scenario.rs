@@ -26,7 +26,7 @@
 //! program. Building the curve ([`Scenario::build_curve`]) is a separate
 //! step because it can fail for mathematical reasons (a degenerate curve).
 
-use crate::algebra::{parse_complex, parse_equation, Equation, ParseError};
+use crate::algebra::{parse_complex, parse_equation, Equation, ParseError, ParseErrorKind};
 use crate::curve::{Curve, CurveError};
 use crate::walls::{show_f64, Bounds, Settings};
 use num_complex::Complex64;
@@ -151,9 +151,14 @@ pub enum ScenarioError {
         column: usize,
         message: String,
     },
-    /// A problem in the equation, at a 1-based column of the `curve` text.
+    /// A problem in the equation, at a 1-based column of the `curve` text:
+    /// the parser's reason, and the message worded for a scenario.
     #[error("curve, column {column}: {message}")]
-    Equation { column: usize, message: String },
+    Equation {
+        column: usize,
+        message: String,
+        kind: ParseErrorKind,
+    },
     /// A problem with no position (a scenario built in code, or a curve
     /// that cannot be used for mathematical reasons).
     #[error("{0}")]
@@ -162,11 +167,12 @@ pub enum ScenarioError {
 
 /// One problem found by [`Scenario::problems`]: the key it is about
 /// (a dotted path such as `quadratic.zeros`, empty for the whole scenario),
-/// an optional column inside the `curve` text, and the message.
+/// the parser's error for a problem inside the `curve` text, and the
+/// message.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Problem {
     pub key: String,
-    pub curve_column: Option<usize>,
+    pub curve_error: Option<ParseError>,
     pub message: String,
 }
 
@@ -174,7 +180,7 @@ impl Problem {
     fn new(key: impl Into<String>, message: impl Into<String>) -> Self {
         Self {
             key: key.into(),
-            curve_column: None,
+            curve_error: None,
             message: message.into(),
         }
     }
@@ -342,16 +348,10 @@ impl Scenario {
                 parse_equation(text).map(|_| ())
             };
             if let Err(e) = checked {
-                // The parser words a missing parameter for the command line;
-                // in a scenario the value belongs in `params`.
-                let message = match e.message.split_once(": give its value with --set") {
-                    Some((head, _)) => format!("{head}: it has no value in params"),
-                    None => e.message,
-                };
                 out.push(Problem {
                     key: "curve".to_string(),
-                    curve_column: Some(e.column),
-                    message,
+                    message: equation_message(&e.kind),
+                    curve_error: Some(e),
                 });
             }
         }
@@ -387,16 +387,15 @@ impl Scenario {
                 ),
             ));
         }
-        if let Err(messages) = self.settings_unchecked().validate() {
-            for m in messages {
-                // Settings messages start with the field's name.
-                let key = m.split_whitespace().next().unwrap_or("").to_string();
-                let key = if TOP_KEYS.contains(&key.as_str()) {
-                    key
+        if let Err(errors) = self.settings_unchecked().validate() {
+            for e in errors {
+                // Settings a scenario cannot hold are about the whole of it.
+                let key = if TOP_KEYS.contains(&e.field) {
+                    e.field
                 } else {
-                    String::new()
+                    ""
                 };
-                out.push(Problem::new(key, m));
+                out.push(Problem::new(key, e.to_string()));
             }
         }
         if !finite2(self.view.center) {
@@ -430,10 +429,11 @@ impl Scenario {
     pub fn validate(&self) -> Result<(), ScenarioError> {
         match self.problems().into_iter().next() {
             None => Ok(()),
-            Some(p) => Err(match p.curve_column {
-                Some(column) => ScenarioError::Equation {
-                    column,
+            Some(p) => Err(match p.curve_error {
+                Some(e) => ScenarioError::Equation {
+                    column: e.column,
                     message: p.message,
+                    kind: e.kind,
                 },
                 None if p.key.is_empty() => ScenarioError::Invalid(printable(&p.message)),
                 None => ScenarioError::Invalid(printable(&format!("{}: {}", p.key, p.message))),
@@ -476,7 +476,8 @@ impl Scenario {
                     .and_then(|eq| eq.evaluate(&self.param_values()))
                     .map_err(|e| ScenarioError::Equation {
                         column: e.column,
-                        message: e.message,
+                        message: equation_message(&e.kind),
+                        kind: e.kind,
                     })?;
                 Curve::from_poly_in_y(&poly)
             }
@@ -500,7 +501,7 @@ impl Scenario {
     pub fn settings(&self) -> Result<Settings, ScenarioError> {
         let s = self.settings_unchecked();
         s.validate()
-            .map_err(|m| ScenarioError::Invalid(m.join("; ")))?;
+            .map_err(|errors| ScenarioError::Invalid(joined(&errors)))?;
         Ok(s)
     }
 
@@ -512,7 +513,7 @@ impl Scenario {
             ..crate::spectrum::SpectrumSettings::default()
         };
         s.validate()
-            .map_err(|m| ScenarioError::Invalid(m.join("; ")))?;
+            .map_err(|errors| ScenarioError::Invalid(joined(&errors)))?;
         Ok(s)
     }
 
@@ -667,14 +668,14 @@ fn locate_problem(text: &str, keys: &[KeyPos], p: &Problem) -> ScenarioError {
     } else {
         find_key(keys, &p.key).or_else(|| find_key(keys, p.key.split('.').next().unwrap_or("")))
     };
-    let offset = match (key, p.curve_column) {
+    let offset = match (key, p.curve_error.as_ref().map(|e| e.column)) {
         (Some(k), Some(col)) => curve_column_offset(text, k, col).unwrap_or(k.start),
         (Some(k), None) => k.start,
         // The start of the scenario itself.
         (None, _) => skip_trivia(text.as_bytes(), 0),
     };
     let (line, column) = line_col(text, offset);
-    let message = match (p.curve_column, p.key.as_str()) {
+    let message = match (p.curve_error.as_ref().map(|e| e.column), p.key.as_str()) {
         (Some(col), _) => format!("curve, column {col}: {}", p.message),
         (None, "") => p.message.clone(),
         (None, k) if p.message.starts_with(k) => p.message.clone(),
@@ -685,6 +686,23 @@ fn locate_problem(text: &str, keys: &[KeyPos], p: &Problem) -> ScenarioError {
         column,
         message: printable(&message),
     }
+}
+
+/// The parser's reason worded for a scenario, where a parameter's value
+/// belongs in `params` (the first missing one is the one to fix).
+fn equation_message(kind: &ParseErrorKind) -> String {
+    match kind {
+        ParseErrorKind::UnknownParameter { name, .. } => {
+            format!("unknown parameter '{name}': it has no value in params")
+        }
+        other => other.to_string(),
+    }
+}
+
+/// Setting errors as one sentence list.
+fn joined(errors: &[crate::setting_error::SettingError]) -> String {
+    let messages: Vec<String> = errors.iter().map(ToString::to_string).collect();
+    messages.join("; ")
 }
 
 /// `s` with control characters escaped (`\n`), so that a message quoting a

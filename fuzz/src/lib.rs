@@ -42,10 +42,10 @@ pub fn equation_parser(data: &[u8]) {
             "{what}: column {} outside 1..={} for {text:?}: {}",
             e.column,
             n_chars + 1,
-            e.message
+            e.kind
         );
         assert!(
-            !e.message.trim().is_empty(),
+            !e.kind.to_string().trim().is_empty(),
             "{what}: empty message for {text:?}"
         );
     };

@@ -5,6 +5,6 @@ pub mod parse;
 pub mod poly;
 pub mod rational;
 
-pub use parse::{parse_complex, parse_equation, Equation, ParseError};
+pub use parse::{parse_complex, parse_equation, Equation, ParseError, ParseErrorKind};
 pub use poly::Poly;
 pub use rational::{PolyInY, Rational};

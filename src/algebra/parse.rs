@@ -46,9 +46,13 @@ use super::rational::PolyInY;
 use num_complex::Complex64;
 use std::collections::{BTreeMap, BTreeSet};
 
+mod error;
 mod eval;
 mod lexer;
 mod syntax;
+
+use error::error;
+pub use error::{ParseError, ParseErrorKind};
 
 use eval::{check_size, Evaluator};
 use lexer::{tokenize, TokenKind};
@@ -73,22 +77,6 @@ const FUNCTION_NAMES: &[&str] = &[
     "sin", "cos", "tan", "cot", "sec", "csc", "sinh", "cosh", "tanh", "asin", "acos", "atan",
     "arcsin", "arccos", "arctan", "exp", "log", "ln", "sqrt", "abs",
 ];
-
-/// A parse or evaluation error, with the 1-based column (in characters) of
-/// the offending token in the equation text.
-#[derive(Clone, Debug, PartialEq, thiserror::Error)]
-#[error("column {column}: {message}")]
-pub struct ParseError {
-    pub column: usize,
-    pub message: String,
-}
-
-fn error<T>(column: usize, message: impl Into<String>) -> Result<T, ParseError> {
-    Err(ParseError {
-        column,
-        message: message.into(),
-    })
-}
 
 /// A parsed equation `lhs = rhs` (or a bare expression meaning `expr = 0`).
 #[derive(Clone, Debug, PartialEq)]
@@ -133,14 +121,11 @@ impl Equation {
             }
         });
         if let Some((name, column)) = missing.first() {
-            let mut message =
-                format!("unknown parameter '{name}': give its value with --set {name}=VALUE");
-            if missing.len() > 1 {
-                let others: Vec<String> =
-                    missing[1..].iter().map(|(m, _)| format!("'{m}'")).collect();
-                message.push_str(&format!(" (also missing: {})", others.join(", ")));
-            }
-            return error(*column, message);
+            let kind = ParseErrorKind::UnknownParameter {
+                name: name.clone(),
+                also_missing: missing[1..].iter().map(|(m, _)| m.clone()).collect(),
+            };
+            return error(*column, kind);
         }
 
         let evaluator = Evaluator { params };
@@ -151,12 +136,7 @@ impl Equation {
         }
         let degree = value.degree_in_y();
         if degree < 2 {
-            return error(
-                1,
-                format!(
-                    "the equation must be at least quadratic in y (its degree in y is {degree})"
-                ),
-            );
+            return error(1, ParseErrorKind::NotQuadratic(degree));
         }
         Ok(value.into_poly_in_y())
     }
@@ -177,7 +157,7 @@ impl Equation {
 pub fn parse_equation(text: &str) -> Result<Equation, ParseError> {
     let tokens = tokenize(text)?;
     if tokens.len() == 1 {
-        return error(1, "the equation is empty");
+        return error(1, ParseErrorKind::Empty);
     }
     let mut parser = Parser {
         tokens: &tokens,
@@ -188,10 +168,7 @@ pub fn parse_equation(text: &str) -> Result<Equation, ParseError> {
     let rhs = if parser.peek().kind == TokenKind::Equals {
         parser.advance();
         if parser.peek().kind == TokenKind::Equals {
-            return error(
-                parser.peek().column,
-                "write a single '=' between the two sides",
-            );
+            return error(parser.peek().column, ParseErrorKind::DoubleEquals);
         }
         Some(parser.expr()?)
     } else {
@@ -201,7 +178,7 @@ pub fn parse_equation(text: &str) -> Result<Equation, ParseError> {
     match next.kind {
         TokenKind::End => {}
         TokenKind::Equals => {
-            return error(next.column, "an equation has only one '='");
+            return error(next.column, ParseErrorKind::SecondEquals);
         }
         _ => return parser.unexpected_after_expression(),
     }
@@ -238,7 +215,7 @@ pub fn parse_equation(text: &str) -> Result<Equation, ParseError> {
 pub fn parse_complex(text: &str) -> Result<Complex64, ParseError> {
     let tokens = tokenize(text)?;
     if tokens.len() == 1 {
-        return error(1, "expected a complex number such as 0.5-2i, found nothing");
+        return error(1, ParseErrorKind::NoNumber);
     }
     let mut parser = Parser {
         tokens: &tokens,
@@ -262,17 +239,14 @@ pub fn parse_complex(text: &str) -> Result<Complex64, ParseError> {
         }
     });
     if let Some((name, column)) = first_name {
-        return error(
-            column,
-            format!("expected a complex number such as 0.5-2i, found the name '{name}'"),
-        );
+        return error(column, ParseErrorKind::NameInNumber(name));
     }
     let empty = BTreeMap::new();
     let value = Evaluator { params: &empty }.eval(&expr)?;
     // Without names the value is constant; the fallback is for safety only.
     value
         .as_constant()
-        .map_or_else(|| error(1, "expected a complex number such as 0.5-2i"), Ok)
+        .map_or_else(|| error(1, ParseErrorKind::NotConstant), Ok)
 }
 
 #[cfg(test)]
@@ -332,7 +306,7 @@ mod tests {
         let err = result.expect_err(&text);
         assert_eq!(err.column, column, "{text:?}: {err}");
         assert!(
-            err.message.contains(fragment),
+            err.kind.to_string().contains(fragment),
             "{text:?}: {err} lacks {fragment:?}"
         );
     }
@@ -496,7 +470,7 @@ mod tests {
             let err = parse_complex(text).expect_err(text);
             assert_eq!(err.column, column, "{text:?}: {err}");
             assert!(
-                err.message.contains(fragment),
+                err.kind.to_string().contains(fragment),
                 "{text:?}: {err} lacks {fragment:?}"
             );
         }
@@ -555,7 +529,7 @@ mod tests {
         check_error(
             "y^2 = z * u z",
             11,
-            "unknown parameter 'u': give its value with --set u=VALUE",
+            "unknown parameter 'u': it has no value",
         );
         check_error("y^2 = b + a + b", 7, "also missing: 'a'");
         check_error("y^2 = 2 3", 9, "write '*'");
@@ -603,7 +577,7 @@ mod tests {
     #[test]
     fn error_display_has_column() {
         let err = parse_equation("y^2 = (").unwrap_err();
-        assert_eq!(err.to_string(), format!("column 8: {}", err.message));
+        assert_eq!(err.to_string(), format!("column 8: {}", err.kind));
     }
 
     #[test]
@@ -636,7 +610,7 @@ mod tests {
             .unwrap()
             .evaluate(&BTreeMap::new())
             .unwrap_err();
-        assert!(err.message.contains("degree in z"), "{err}");
+        assert!(err.kind.to_string().contains("degree in z"), "{err}");
     }
 
     #[test]

@@ -652,7 +652,7 @@ impl WallflowerApp {
                         || self.scenario.quadratic.is_some()
                 }
                 Err(e) => {
-                    self.equation_error = Some((e.column, e.message));
+                    self.equation_error = Some((e.column, e.kind.to_string()));
                     false
                 }
             },

@@ -8,6 +8,7 @@ use clap::{Args, ValueEnum};
 use num_complex::Complex64;
 use std::path::PathBuf;
 use std::process::ExitCode;
+use wallflower::network::WarningKind;
 use wallflower::scenario::Theme;
 use wallflower::scene::{self, SceneOptions, Transform};
 use wallflower::spectrum;
@@ -139,7 +140,8 @@ pub fn figure_at(
     let warnings: Vec<String> = net
         .warnings
         .iter()
-        .filter(|w| !loaded.warnings.contains(&w.message))
+        // The loader has shown the curve's notes already.
+        .filter(|w| w.kind != WarningKind::CurveNote)
         .map(|w| super::one_line(&w.message))
         .collect();
     let view = &loaded.scenario.view;

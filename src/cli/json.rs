@@ -8,7 +8,7 @@
 use num_complex::Complex64;
 use serde::Serialize;
 use wallflower::curve::{BranchPoint, Puncture};
-use wallflower::network::Network;
+use wallflower::network::{Network, WarningKind};
 use wallflower::walls::{EndReason, Origin, Wall, WallType};
 
 fn xy(z: Complex64) -> [f64; 2] {
@@ -175,13 +175,16 @@ pub struct NetworkJson {
 }
 
 impl NetworkJson {
-    pub fn new(title: &str, rank: usize, net: &Network, extra_warnings: &[String]) -> Self {
-        let mut warnings: Vec<String> = extra_warnings.to_vec();
-        for w in &net.warnings {
-            if !warnings.contains(&w.message) {
-                warnings.push(w.message.clone());
-            }
-        }
+    /// `loaded_warnings` are the loader's (the scenario's and the curve's
+    /// notes), so the network's copies of the curve's notes are skipped.
+    pub fn new(title: &str, rank: usize, net: &Network, loaded_warnings: &[String]) -> Self {
+        let mut warnings: Vec<String> = loaded_warnings.to_vec();
+        warnings.extend(
+            net.warnings
+                .iter()
+                .filter(|w| w.kind != WarningKind::CurveNote)
+                .map(|w| w.message.clone()),
+        );
         Self {
             title: title.to_string(),
             rank,

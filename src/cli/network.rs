@@ -5,6 +5,7 @@ use super::json::NetworkJson;
 use super::source::{load, SourceArgs};
 use super::{emit, say};
 use std::process::ExitCode;
+use wallflower::network::WarningKind;
 use wallflower::{compute, CancelToken};
 
 pub fn run(args: &SourceArgs, json: bool, csv: bool) -> anyhow::Result<ExitCode> {
@@ -77,10 +78,13 @@ pub fn run(args: &SourceArgs, json: bool, csv: bool) -> anyhow::Result<ExitCode>
             );
         }
     }
-    for w in &net.warnings {
-        if !loaded.warnings.contains(&w.message) {
-            eprintln!("warning: {}", super::one_line(&w.message));
-        }
+    // The curve's notes were printed with the loader's warnings.
+    for w in net
+        .warnings
+        .iter()
+        .filter(|w| w.kind != WarningKind::CurveNote)
+    {
+        eprintln!("warning: {}", super::one_line(&w.message));
     }
     emit(&out)?;
     Ok(ExitCode::SUCCESS)

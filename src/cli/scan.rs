@@ -270,7 +270,8 @@ pub fn run(args: &ScanArgs) -> anyhow::Result<ExitCode> {
         ..SpectrumSettings::default()
     };
     if let Err(errors) = settings.validate() {
-        bad_input!("{}", errors.join("; "));
+        let messages: Vec<String> = errors.iter().map(ToString::to_string).collect();
+        bad_input!("{}", messages.join("; "));
     }
     let prepared = Prepared {
         meta: ScanMeta {

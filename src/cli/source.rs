@@ -5,7 +5,7 @@
 use super::{bad_input, BadInput};
 use clap::Args;
 use std::path::{Path, PathBuf};
-use wallflower::algebra::parse_equation;
+use wallflower::algebra::{parse_equation, ParseErrorKind};
 use wallflower::network::default_bounds;
 use wallflower::scenario::{key_position, Scenario, ScenarioError, View};
 use wallflower::{Curve, Settings};
@@ -114,7 +114,7 @@ pub fn load_given(args: &SourceArgs) -> anyhow::Result<Given> {
     };
     if let Some(eq) = &args.curve {
         if let Err(e) = parse_equation(eq) {
-            bad_input!("--curve, column {}: {}", e.column, e.message);
+            bad_input!("--curve, column {}: {}", e.column, e.kind);
         }
         scenario.curve = Some(eq.clone());
         scenario.quadratic = None;
@@ -158,8 +158,12 @@ pub fn load(args: &SourceArgs) -> anyhow::Result<Loaded> {
     let curve_label = if inline { "--curve" } else { label.as_str() };
     if let Err(e) = scenario.validate() {
         match e {
-            ScenarioError::Equation { column, message } => {
-                let hint = if message.contains("no value in params") {
+            ScenarioError::Equation {
+                column,
+                message,
+                kind,
+            } => {
+                let hint = if matches!(kind, ParseErrorKind::UnknownParameter { .. }) {
                     " (give it with --set NAME=VALUE)"
                 } else {
                     ""
@@ -171,7 +175,9 @@ pub fn load(args: &SourceArgs) -> anyhow::Result<Loaded> {
     }
     let curve = match scenario.build_curve() {
         Ok(c) => c,
-        Err(ScenarioError::Equation { column, message }) => {
+        Err(ScenarioError::Equation {
+            column, message, ..
+        }) => {
             bad_input!("{curve_label}, column {column}: {message}")
         }
         Err(e) => {
@@ -240,11 +246,7 @@ fn apply_sets(scenario: &mut Scenario, sets: &[String]) -> anyhow::Result<()> {
             );
         }
         if let Err(e) = scenario.set_param_text(name, value) {
-            bad_input!(
-                "--set {item}: column {} of the value: {}",
-                e.column,
-                e.message
-            );
+            bad_input!("--set {item}: column {} of the value: {}", e.column, e.kind);
         }
     }
     Ok(())

@@ -4,6 +4,7 @@
 pub mod crossings;
 pub mod growth;
 pub mod jump;
+mod warning;
 
 use crate::cancel::CancelToken;
 use crate::curve::{BranchPoint, Curve, Puncture, Site};
@@ -21,11 +22,7 @@ pub struct Joint {
     pub child: usize,
 }
 
-/// Something the user should know about a result.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-pub struct Warning {
-    pub message: String,
-}
+pub use warning::{Warning, WarningKind};
 
 /// Counters for benchmarks and the status bar.
 #[derive(Clone, Debug, Default, PartialEq, Serialize, Deserialize)]
@@ -108,9 +105,7 @@ fn compute_at(
     let mut warnings: Vec<Warning> = curve
         .notes
         .iter()
-        .map(|n| Warning {
-            message: n.message.clone(),
-        })
+        .map(|n| Warning::new(WarningKind::CurveNote, n.message.clone()))
         .collect();
     for (idx, bp) in curve.branch_points.iter().enumerate() {
         if bp.simple {
@@ -120,26 +115,26 @@ fn compute_at(
             .special
             .iter()
             .find(|s| s.site == Site::BranchPoint(idx));
-        let message = match model {
+        let (kind, message) = match model {
             Some(sp) if !sp.is_singular() => continue,
-            Some(_) => format!(
+            Some(_) => (WarningKind::SingularPoint, format!(
                 "branch point {} at {:.6}{:+.6}i is a singular point of the curve ({} sheets meet, discriminant order {}): a cycle vanishes there, so its walls are not determined by the point alone",
                 idx + 1,
                 bp.z.re,
                 bp.z.im,
                 bp.n_sheets_meeting,
                 bp.order
-            ),
-            None => format!(
+            )),
+            None => (WarningKind::NoLocalModel, format!(
                 "branch point {} at {:.6}{:+.6}i is not simple ({} sheets meet, order {}) and its local model could not be computed: no walls drawn from it",
                 idx + 1,
                 bp.z.re,
                 bp.z.im,
                 bp.n_sheets_meeting,
                 bp.order
-            ),
+            )),
         };
-        warnings.push(Warning { message });
+        warnings.push(Warning::new(kind, message));
     }
     let ctx = GrowContext {
         curve,
@@ -152,6 +147,7 @@ fn compute_at(
     let mut limit = GrowthLimit::None;
     for r in &curve.resolutions {
         warnings.push(Warning {
+            kind: WarningKind::Resolved,
             message: format!(
                 "the curve is singular at {:.6}{:+.6}i (a cycle vanishes there: a massless state); drawn from a resolution that splits it into points {} from it (the last coefficient's numerator shifted by {:.3e}{:+.3e}i; settings resolution and resolution_phase); other directions of approach can give other networks",
                 r.z.re,
@@ -163,7 +159,11 @@ fn compute_at(
         });
     }
     let (special, notes) = special_seeds(curve, theta);
-    warnings.extend(notes.into_iter().map(|message| Warning { message }));
+    warnings.extend(
+        notes
+            .into_iter()
+            .map(|message| Warning::new(WarningKind::SpecialStart, message)),
+    );
     let seeds = primary_seeds(curve, theta).into_iter().chain(special);
     for seed in seeds {
         if walls.len() >= settings.max_walls {
@@ -188,6 +188,7 @@ fn compute_at(
     }
     if stats.joints_on_chord > 0 {
         warnings.push(Warning {
+            kind: WarningKind::JointsOnChords,
             message: format!(
                 "{} of {} joints could not be refined onto the walls (walls crossing at a shared point): they sit where the straight chords between wall points cross, less accurately than refined joints",
                 stats.joints_on_chord,
@@ -196,9 +197,10 @@ fn compute_at(
         });
     }
     if limit == GrowthLimit::MaxWalls {
-        warnings.push(Warning {
-            message: format!("stopped at max_walls = {}", settings.max_walls),
-        });
+        warnings.push(Warning::new(
+            WarningKind::MaxWalls,
+            format!("stopped at max_walls = {}", settings.max_walls),
+        ));
     }
     // A cancelled network is partial and thrown away by its caller.
     let mut flatness = jump::Flatness::default();
@@ -212,9 +214,10 @@ fn compute_at(
         }
     }
     if limit == GrowthLimit::Cancelled {
-        warnings.push(Warning {
-            message: "cancelled: the network is partial".into(),
-        });
+        warnings.push(Warning::new(
+            WarningKind::Cancelled,
+            "cancelled: the network is partial",
+        ));
     }
     let saddle = walls.iter().enumerate().find_map(|(idx, w)| match w.end {
         crate::walls::EndReason::BranchPoint(b) => Some((idx, b, w.mass())),
@@ -232,6 +235,7 @@ fn compute_at(
             .map(|t| compute_at(curve, t, settings, cancel, false).flatness.worst);
         let worst_off = off[0].max(off[1]);
         warnings.push(Warning {
+            kind: WarningKind::CriticalPhase,
             message: format!(
                 "phase {theta} is a critical phase: wall {} (type {}) runs into branch point {} with mass {mass:.10} (a BPS state with |Z| = {mass:.10}); jump matrices are checked just off it, at phase {theta} -+ {CRITICAL_OFFSET:e}: worst deviation {worst_off:.1e}",
                 wall_idx + 1,
@@ -241,6 +245,7 @@ fn compute_at(
         });
         if worst_off > 1e-9 {
             warnings.push(Warning {
+                kind: WarningKind::NotFlat,
                 message: format!(
                     "jump matrices do not close up around some joint or branch point even just off this critical phase (worst deviation {worst_off:.1e}): treat multiplicities with care"
                 ),
@@ -248,6 +253,7 @@ fn compute_at(
         }
     } else if flatness.worst > 1e-9 {
         warnings.push(Warning {
+            kind: WarningKind::NotFlat,
             message: format!(
                 "jump matrices do not close up around some joint or branch point (worst deviation {:.1e}): treat multiplicities with care",
                 flatness.worst

@@ -337,7 +337,8 @@ fn find_states(
     lattice: Option<&crate::charges::Lattice>,
 ) -> Spectrum {
     if let Err(errors) = settings.validate() {
-        return Spectrum::empty(settings.reach, errors);
+        let messages = errors.iter().map(ToString::to_string).collect();
+        return Spectrum::empty(settings.reach, messages);
     }
     if curve.rank >= 3 {
         return web::find(curve, settings, cancel, progress);

@@ -1,5 +1,6 @@
 //! Settings of the spectrum finder, with documented ranges.
 
+use crate::setting_error::{Allowed, SettingError};
 use serde::{Deserialize, Serialize};
 
 /// How hard the finder looks, and where it stops.
@@ -58,72 +59,48 @@ impl Default for SpectrumSettings {
 }
 
 impl SpectrumSettings {
-    /// Checks every field against its documented range; each message names
-    /// the field and the range.
-    pub fn validate(&self) -> Result<(), Vec<String>> {
+    /// Checks every field against its documented range; each error names
+    /// the field, its value and the range.
+    pub fn validate(&self) -> Result<(), Vec<SettingError>> {
         let mut errors = Vec::new();
-        let mut check = |ok: bool, msg: String| {
-            if !ok {
-                errors.push(msg);
-            }
-        };
-        let within = |v: f64, lo: f64, hi: f64| v.is_finite() && v >= lo && v <= hi;
+        let mut check =
+            |field, value, allowed| SettingError::check(&mut errors, field, value, allowed);
+        check("reach", self.reach, Allowed::left_open(0.0, 1e6));
         check(
-            self.reach.is_finite() && self.reach > 0.0 && self.reach <= 1e6,
-            format!("reach must be in (0, 1e6], got {}", self.reach),
+            "theta_samples",
+            self.theta_samples as f64,
+            Allowed::closed(8.0, 1e5),
         );
         check(
-            (8..=100_000).contains(&self.theta_samples),
-            format!(
-                "theta_samples must be in [8, 100000], got {}",
-                self.theta_samples
-            ),
+            "scan_tolerance",
+            self.scan_tolerance,
+            Allowed::closed(1e-12, 1e-4),
+        );
+        check("tolerance", self.tolerance, Allowed::closed(1e-13, 1e-6));
+        check(
+            "phase_tolerance",
+            self.phase_tolerance,
+            Allowed::closed(1e-14, 1e-4),
         );
         check(
-            within(self.scan_tolerance, 1e-12, 1e-4),
-            format!(
-                "scan_tolerance must be in [1e-12, 1e-4], got {}",
-                self.scan_tolerance
-            ),
+            "step_budget",
+            self.step_budget as f64,
+            Allowed::closed(100.0, 1e7),
         );
         check(
-            within(self.tolerance, 1e-13, 1e-6),
-            format!("tolerance must be in [1e-13, 1e-6], got {}", self.tolerance),
+            "max_candidates",
+            self.max_candidates as f64,
+            Allowed::closed(1.0, 1e6),
         );
         check(
-            within(self.phase_tolerance, 1e-14, 1e-4),
-            format!(
-                "phase_tolerance must be in [1e-14, 1e-4], got {}",
-                self.phase_tolerance
-            ),
+            "max_networks",
+            self.max_networks as f64,
+            Allowed::closed(1.0, 1e6),
         );
         check(
-            (100..=10_000_000).contains(&self.step_budget),
-            format!(
-                "step_budget must be in [100, 10000000], got {}",
-                self.step_budget
-            ),
-        );
-        check(
-            (1..=1_000_000).contains(&self.max_candidates),
-            format!(
-                "max_candidates must be in [1, 1000000], got {}",
-                self.max_candidates
-            ),
-        );
-        check(
-            (1..=1_000_000).contains(&self.max_networks),
-            format!(
-                "max_networks must be in [1, 1000000], got {}",
-                self.max_networks
-            ),
-        );
-        check(
-            within(self.bounds_factor, 1.0, 1000.0),
-            format!(
-                "bounds_factor must be in [1, 1000], got {}",
-                self.bounds_factor
-            ),
+            "bounds_factor",
+            self.bounds_factor,
+            Allowed::closed(1.0, 1000.0),
         );
         if errors.is_empty() {
             Ok(())

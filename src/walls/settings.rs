@@ -98,92 +98,53 @@ impl Default for Settings {
     }
 }
 
-/// A number for a message: `1e308`, not its 309 digits.
-pub fn show_f64(x: f64) -> String {
-    if x != 0.0 && x.is_finite() && !(1e-4..1e7).contains(&x.abs()) {
-        format!("{x:e}")
-    } else {
-        format!("{x}")
-    }
-}
+pub use crate::setting_error::show_f64;
+use crate::setting_error::{Allowed, SettingError};
 
 impl Settings {
-    /// Checks every field against its documented range; the messages name
-    /// the field and the range.
-    pub fn validate(&self) -> Result<(), Vec<String>> {
+    /// Checks every field against its documented range; each error names
+    /// the field, its value and the range.
+    pub fn validate(&self) -> Result<(), Vec<SettingError>> {
         let mut errors = Vec::new();
-        let mut check = |ok: bool, msg: String| {
-            if !ok {
-                errors.push(msg);
-            }
-        };
+        let mut check =
+            |field, value, allowed| SettingError::check(&mut errors, field, value, allowed);
+        check("reach", self.reach, Allowed::left_open(0.0, 1e6));
+        check("tolerance", self.tolerance, Allowed::closed(1e-13, 1e-3));
         check(
-            self.reach.is_finite() && self.reach > 0.0 && self.reach <= 1e6,
-            format!("reach must be in (0, 1e6], got {}", show_f64(self.reach)),
+            "step_budget",
+            self.step_budget as f64,
+            Allowed::closed(10.0, 1e7),
         );
         check(
-            self.tolerance.is_finite() && (1e-13..=1e-3).contains(&self.tolerance),
-            format!(
-                "tolerance must be in [1e-13, 1e-3], got {}",
-                show_f64(self.tolerance)
-            ),
+            "max_walls",
+            self.max_walls as f64,
+            Allowed::closed(1.0, 1e6),
         );
         check(
-            (10..=10_000_000).contains(&self.step_budget),
-            format!(
-                "step_budget must be in [10, 10000000], got {}",
-                self.step_budget
-            ),
+            "max_generations",
+            f64::from(self.max_generations),
+            Allowed::AtMost(50.0),
+        );
+        check("resolution", self.resolution, Allowed::closed(1e-8, 0.1));
+        check(
+            "resolution_phase",
+            self.resolution_phase,
+            Allowed::Angle { max_abs: 1e3 },
         );
         check(
-            (1..=1_000_000).contains(&self.max_walls),
-            format!("max_walls must be in [1, 1000000], got {}", self.max_walls),
+            "puncture_radius",
+            self.puncture_radius,
+            Allowed::left_open(0.0, 0.1),
         );
         check(
-            self.max_generations <= 50,
-            format!(
-                "max_generations must be at most 50, got {}",
-                self.max_generations
-            ),
+            "branch_hit_radius",
+            self.branch_hit_radius,
+            Allowed::left_open(0.0, 1e-2),
         );
         check(
-            self.resolution.is_finite() && (1e-8..=0.1).contains(&self.resolution),
-            format!(
-                "resolution must be in [1e-8, 0.1], got {}",
-                show_f64(self.resolution)
-            ),
-        );
-        check(
-            self.resolution_phase.is_finite() && self.resolution_phase.abs() <= 1e3,
-            format!(
-                "resolution_phase must be a finite angle, got {}",
-                show_f64(self.resolution_phase)
-            ),
-        );
-        check(
-            self.puncture_radius.is_finite()
-                && self.puncture_radius > 0.0
-                && self.puncture_radius <= 0.1,
-            format!(
-                "puncture_radius must be in (0, 0.1], got {}",
-                self.puncture_radius
-            ),
-        );
-        check(
-            self.branch_hit_radius.is_finite()
-                && self.branch_hit_radius > 0.0
-                && self.branch_hit_radius <= 1e-2,
-            format!(
-                "branch_hit_radius must be in (0, 0.01], got {}",
-                self.branch_hit_radius
-            ),
-        );
-        check(
-            self.max_turn_rad.is_finite() && (0.005..=1.0).contains(&self.max_turn_rad),
-            format!(
-                "max_turn_rad must be in [0.005, 1], got {}",
-                self.max_turn_rad
-            ),
+            "max_turn_rad",
+            self.max_turn_rad,
+            Allowed::closed(0.005, 1.0),
         );
         if let Some(b) = &self.bounds {
             let finite = b
@@ -191,10 +152,13 @@ impl Settings {
                 .iter()
                 .chain(&b.max)
                 .all(|v| v.is_finite() && v.abs() < 1e12);
-            check(
-                finite && b.min[0] < b.max[0] && b.min[1] < b.max[1],
-                "bounds must be a finite rectangle with min < max".to_string(),
-            );
+            if !(finite && b.min[0] < b.max[0] && b.min[1] < b.max[1]) {
+                errors.push(SettingError {
+                    field: "bounds",
+                    value: f64::NAN,
+                    allowed: Allowed::Rectangle,
+                });
+            }
         }
         if errors.is_empty() {
             Ok(())

@@ -17,8 +17,13 @@ fn invalid_settings_are_reported_not_run() {
     };
     let errors = settings.validate().unwrap_err();
     assert_eq!(errors.len(), 2, "{errors:?}");
-    assert!(errors[0].contains("reach"));
-    assert!(errors[1].contains("theta_samples"));
+    assert_eq!(errors[0].field, "reach");
+    assert_eq!(errors[0].value, -1.0);
+    assert_eq!(errors[1].field, "theta_samples");
+    assert_eq!(
+        errors[1].to_string(),
+        "theta_samples must be in [8, 1e5], got 2"
+    );
     let spec = find(
         &curve("y^2 = z^2 - 1"),
         &settings,
@@ -26,7 +31,8 @@ fn invalid_settings_are_reported_not_run() {
         &mut |_| {},
     );
     assert!(spec.states.is_empty());
-    assert_eq!(spec.warnings, errors);
+    let messages: Vec<String> = errors.iter().map(ToString::to_string).collect();
+    assert_eq!(spec.warnings, messages);
 }
 
 /// Rank 3 is computed now (finite webs, tests/engine/spectrum_rank3.rs): no

@@ -2,8 +2,9 @@
 //! [`PolyInY`]: exact arithmetic on `num(y, z) / den(z)` with one shared
 //! denominator, with exponents and degrees capped before multiplying.
 
+use super::error::{error, ParseError, ParseErrorKind};
 use super::syntax::{Expr, Node};
-use super::{error, ParseError, MAX_DEGREE_IN_Y, MAX_DEGREE_IN_Z, MAX_EXPONENT};
+use super::{MAX_DEGREE_IN_Y, MAX_DEGREE_IN_Z, MAX_EXPONENT};
 use crate::algebra::poly::Poly;
 use crate::algebra::rational::{PolyInY, Rational};
 use num_complex::Complex64;
@@ -191,24 +192,16 @@ impl Value {
     }
 }
 
-pub(super) fn too_high_in_y(degree: usize) -> String {
-    format!("the degree in y would be {degree}, more than the {MAX_DEGREE_IN_Y} supported")
-}
-
-pub(super) fn too_high_in_z(degree: usize) -> String {
-    format!("the degree in z would be {degree}, more than the {MAX_DEGREE_IN_Z} supported")
-}
-
 /// The checks run after every operation, so that a bad input fails at the
 /// operator that made it bad.
 pub(super) fn check_size(v: &Value, column: usize) -> Result<(), ParseError> {
     let degree_y = v.degree_in_y();
     if degree_y > MAX_DEGREE_IN_Y {
-        return error(column, too_high_in_y(degree_y));
+        return error(column, ParseErrorKind::DegreeInYTooHigh(degree_y));
     }
     let degree_z = v.degree_in_z();
     if degree_z > MAX_DEGREE_IN_Z {
-        return error(column, too_high_in_z(degree_z));
+        return error(column, ParseErrorKind::DegreeInZTooHigh(degree_z));
     }
     let finite = v
         .den
@@ -217,7 +210,7 @@ pub(super) fn check_size(v: &Value, column: usize) -> Result<(), ParseError> {
         .chain(v.num.coeffs.iter().flat_map(|r| &r.num.coeffs))
         .all(|c| c.is_finite());
     if !finite || v.den.is_zero() {
-        return error(column, "a coefficient overflows (is not a finite number)");
+        return error(column, ParseErrorKind::Overflow);
     }
     Ok(())
 }
@@ -234,13 +227,13 @@ impl Evaluator<'_> {
             Node::Z => Ok(Value::z()),
             Node::Parameter(name) => match self.params.get(name) {
                 Some(value) if value.is_finite() => Ok(Value::constant(*value)),
-                Some(_) => error(
-                    e.column,
-                    format!("the parameter '{name}' is not a finite number"),
-                ),
+                Some(_) => error(e.column, ParseErrorKind::ParameterNotFinite(name.clone())),
                 None => error(
                     e.column,
-                    format!("unknown parameter '{name}': give its value with --set {name}=VALUE"),
+                    ParseErrorKind::UnknownParameter {
+                        name: name.clone(),
+                        also_missing: Vec::new(),
+                    },
                 ),
             },
             Node::Negate(inner) => Ok(self.eval(inner)?.neg()),
@@ -266,7 +259,10 @@ impl Evaluator<'_> {
                     } else {
                         let degree_y = acc.degree_in_y() + value.degree_in_y();
                         if degree_y > MAX_DEGREE_IN_Y {
-                            return error(factor.op_column, too_high_in_y(degree_y));
+                            return error(
+                                factor.op_column,
+                                ParseErrorKind::DegreeInYTooHigh(degree_y),
+                            );
                         }
                         acc.mul(&value)
                     };
@@ -292,30 +288,21 @@ impl Evaluator<'_> {
     /// at most [`MAX_EXPONENT`].
     pub(super) fn exponent(&self, e: &Expr) -> Result<i32, ParseError> {
         let Some(k) = self.eval(e)?.as_constant() else {
-            return error(
-                e.column,
-                "an exponent must be a constant integer, not an expression in y or z",
-            );
+            return error(e.column, ParseErrorKind::ExponentNotConstant);
         };
         // A little slack so that `(6/3)` or `(0.1*30)` still count as integers.
         let tolerance = 1e-9;
         if k.im.abs() > tolerance {
-            return error(e.column, format!("an exponent must be an integer, not {k}"));
+            return error(e.column, ParseErrorKind::ExponentNotInteger(k.to_string()));
         }
         if k.re.abs() > f64::from(MAX_EXPONENT) + 0.5 {
-            return error(
-                e.column,
-                format!(
-                    "the exponent {} is too large (at most {MAX_EXPONENT} in absolute value)",
-                    k.re
-                ),
-            );
+            return error(e.column, ParseErrorKind::ExponentTooLarge(k.re));
         }
         let rounded = k.re.round();
         if (k.re - rounded).abs() > tolerance {
             return error(
                 e.column,
-                format!("an exponent must be an integer, not {}", k.re),
+                ParseErrorKind::ExponentNotInteger(k.re.to_string()),
             );
         }
         // In range by the check above, so the cast is exact.
@@ -326,13 +313,10 @@ impl Evaluator<'_> {
 /// `a / b`, where `b` must be free of y and not identically zero.
 pub(super) fn divide(a: &Value, b: &Value, column: usize) -> Result<Value, ParseError> {
     if !b.is_free_of_y() {
-        return error(
-            column,
-            "division by an expression containing y (the equation must be polynomial in y)",
-        );
+        return error(column, ParseErrorKind::DivisionByY);
     }
     if b.num_in_z().is_zero() {
-        return error(column, "division by zero: the divisor vanishes identically");
+        return error(column, ParseErrorKind::DivisionByZero);
     }
     Ok(Value {
         num: times_poly(&a.num, &b.den),
@@ -346,18 +330,14 @@ fn power(base: &Value, k: i32, column: usize) -> Result<Value, ParseError> {
     let magnitude = k.unsigned_abs();
     let degree_z = base.degree_in_z() * magnitude as usize;
     if degree_z > MAX_DEGREE_IN_Z {
-        return error(column, too_high_in_z(degree_z));
+        return error(column, ParseErrorKind::DegreeInZTooHigh(degree_z));
     }
     if k < 0 {
         if !base.is_free_of_y() {
-            return error(
-                column,
-                "an expression containing y cannot have a negative power (the equation must be \
-                 polynomial in y)",
-            );
+            return error(column, ParseErrorKind::NegativePowerOfY);
         }
         if base.num_in_z().is_zero() {
-            return error(column, "zero cannot be raised to a negative power");
+            return error(column, ParseErrorKind::ZeroToNegativePower);
         }
         let num = PolyInY::from_rational(Rational::from_poly(base.den.pow(magnitude)));
         return Ok(Value {
@@ -368,7 +348,7 @@ fn power(base: &Value, k: i32, column: usize) -> Result<Value, ParseError> {
     }
     let degree_y = base.degree_in_y() * magnitude as usize;
     if degree_y > MAX_DEGREE_IN_Y {
-        return error(column, too_high_in_y(degree_y));
+        return error(column, ParseErrorKind::DegreeInYTooHigh(degree_y));
     }
     // Square-and-multiply from the top bit down, so that no intermediate
     // has a higher degree than the result (the checks above then bound

@@ -1,7 +1,8 @@
 //! Tokens of an equation: numbers, imaginary numbers, names, operators and
 //! parentheses, each with its 1-based column.
 
-use super::{error, ParseError, MAX_LENGTH};
+use super::error::{error, ParseError, ParseErrorKind};
+use super::MAX_LENGTH;
 
 #[derive(Clone, Debug, PartialEq)]
 pub(super) enum TokenKind {
@@ -46,10 +47,7 @@ pub(super) fn is_name_char(c: char) -> bool {
 /// column just past the text.
 pub(super) fn tokenize(text: &str) -> Result<Vec<Token>, ParseError> {
     if text.chars().count() > MAX_LENGTH {
-        return error(
-            MAX_LENGTH + 1,
-            format!("the text is too long (more than {MAX_LENGTH} characters)"),
-        );
+        return error(MAX_LENGTH + 1, ParseErrorKind::TooLong);
     }
     let chars: Vec<char> = text.chars().collect();
     let mut tokens = Vec::new();
@@ -85,7 +83,7 @@ pub(super) fn tokenize(text: &str) -> Result<Vec<Token>, ParseError> {
             '+' => TokenKind::Plus,
             '-' => TokenKind::Minus,
             '*' if chars.get(pos + 1) == Some(&'*') => {
-                return error(column, "'**' is not an operator; write powers with '^'");
+                return error(column, ParseErrorKind::DoubleStar);
             }
             '*' => TokenKind::Star,
             '/' => TokenKind::Slash,
@@ -93,8 +91,8 @@ pub(super) fn tokenize(text: &str) -> Result<Vec<Token>, ParseError> {
             '(' => TokenKind::LParen,
             ')' => TokenKind::RParen,
             '=' => TokenKind::Equals,
-            '.' => return error(column, "expected a digit after '.'"),
-            _ => return error(column, unexpected_character(c)),
+            '.' => return error(column, ParseErrorKind::DigitAfterDot),
+            _ => return error(column, ParseErrorKind::UnexpectedCharacter(c)),
         };
         tokens.push(Token {
             kind,
@@ -109,19 +107,6 @@ pub(super) fn tokenize(text: &str) -> Result<Vec<Token>, ParseError> {
         text: String::new(),
     });
     Ok(tokens)
-}
-
-pub(super) fn unexpected_character(c: char) -> String {
-    // Characters that typeset maths often pastes in; say what to type.
-    let hint = match c {
-        '\u{2212}' | '\u{2013}' | '\u{2014}' => " (use the ASCII '-')",
-        '\u{d7}' | '\u{b7}' | '\u{22c5}' => " (use '*')",
-        '\u{f7}' => " (use '/')",
-        '\u{b2}' | '\u{b3}' => " (write powers with '^')",
-        ',' => " (decimals use '.')",
-        _ => "",
-    };
-    format!("unexpected character {c:?}{hint}")
 }
 
 /// Reads `digits [. digits] [e [+-] digits] [i]` starting at `start`, and
@@ -153,18 +138,15 @@ pub(super) fn lex_number(chars: &[char], start: usize) -> Result<(Token, usize),
         }
     }
     if chars.get(pos) == Some(&'.') {
-        return error(
-            pos + 1,
-            "unexpected '.': a number has at most one decimal point",
-        );
+        return error(pos + 1, ParseErrorKind::TwoDecimalPoints);
     }
     let text: String = chars[start..pos].iter().collect();
     let value: f64 = match text.parse() {
         Ok(v) => v,
-        Err(_) => return error(start + 1, format!("'{text}' is not a number")),
+        Err(_) => return error(start + 1, ParseErrorKind::NotANumber(text)),
     };
     if !value.is_finite() {
-        return error(start + 1, format!("the number '{text}' is too large"));
+        return error(start + 1, ParseErrorKind::NumberTooLarge(text));
     }
     // `3i` is imaginary, but in `3in` the letters form a name of their own.
     let imaginary =

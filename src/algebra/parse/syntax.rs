@@ -2,8 +2,9 @@
 //! stay shallow) and the recursive-descent parser that builds it from
 //! tokens, with the grammar of the parent module.
 
+use super::error::{error, ParseError, ParseErrorKind};
 use super::lexer::{Token, TokenKind};
-use super::{error, ParseError, FUNCTION_NAMES, MAX_NESTING};
+use super::{FUNCTION_NAMES, MAX_NESTING};
 use num_complex::Complex64;
 
 #[derive(Clone, Debug, PartialEq)]
@@ -94,13 +95,7 @@ impl<'t> Parser<'t> {
     pub(super) fn enter(&mut self, column: usize) -> Result<(), ParseError> {
         self.depth += 1;
         if self.depth > MAX_NESTING {
-            return error(
-                column,
-                format!(
-                    "the expression is nested too deeply (more than {MAX_NESTING} levels of \
-                     parentheses, signs and powers)"
-                ),
-            );
+            return error(column, ParseErrorKind::TooDeep);
         }
         Ok(())
     }
@@ -114,14 +109,13 @@ impl<'t> Parser<'t> {
     pub(super) fn unexpected_after_expression<T>(&self) -> Result<T, ParseError> {
         let next = self.peek();
         if next.kind == TokenKind::RParen {
-            return error(next.column, "unexpected ')' without a matching '('");
+            return error(next.column, ParseErrorKind::UnmatchedClose);
         }
         error(
             next.column,
-            format!(
-                "unexpected {}, expected an operator or the end",
-                next.describe()
-            ),
+            ParseErrorKind::ExpectedOperator {
+                found: next.describe(),
+            },
         )
     }
 
@@ -188,10 +182,9 @@ impl<'t> Parser<'t> {
                 TokenKind::Number { .. } => {
                     return error(
                         next.column,
-                        format!(
-                            "missing operator before the {} (write '*' to multiply by a number)",
-                            next.describe()
-                        ),
+                        ParseErrorKind::MissingOperator {
+                            found: next.describe(),
+                        },
                     );
                 }
                 _ => break,
@@ -265,13 +258,7 @@ impl<'t> Parser<'t> {
                 "z" => Node::Z,
                 "i" => Node::Constant(Complex64::new(0.0, 1.0)),
                 f if FUNCTION_NAMES.contains(&f) => {
-                    return error(
-                        column,
-                        format!(
-                            "'{f}' is a function, and functions are not supported: the equation \
-                             must be polynomial in y and rational in z"
-                        ),
-                    );
+                    return error(column, ParseErrorKind::Function(f.to_string()));
                 }
                 _ => Node::Parameter(name.clone()),
             },
@@ -283,7 +270,9 @@ impl<'t> Parser<'t> {
                 if close.kind != TokenKind::RParen {
                     return error(
                         close.column,
-                        format!("expected ')' to close '(' at column {column}"),
+                        ParseErrorKind::Unclosed {
+                            open_column: column,
+                        },
                     );
                 }
                 self.advance();
@@ -294,10 +283,9 @@ impl<'t> Parser<'t> {
             _ => {
                 return error(
                     column,
-                    format!(
-                        "unexpected {}, expected a number, name or '('",
-                        token.describe()
-                    ),
+                    ParseErrorKind::ExpectedOperand {
+                        found: token.describe(),
+                    },
                 );
             }
         };
