@@ -61,6 +61,22 @@ pub enum LatticeError {
 /// A charge: integer coordinates in [`Lattice::basis`].
 pub type Charge = Vec<i64>;
 
+/// One wall of a finite web as the lattice lifts it: the wall's chain is
+/// its path on sheet `sheets[0]` minus the same path on `sheets[1]` (so its
+/// period is `int (y_i - y_j) dz`). Where the path leaves or runs into a
+/// branch point, the two lifts are joined by a small circle about it.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct LiftedEdge {
+    /// The path travelled, without the branch points at its ends.
+    pub points: Vec<Complex64>,
+    /// Labels of the wall's pair `i, j` at `points[0]`.
+    pub sheets: [usize; 2],
+    /// The branch point the path leaves from, if any.
+    pub from: Option<Complex64>,
+    /// The branch point the path runs into, if any.
+    pub to: Option<Complex64>,
+}
+
 /// A singular point as the lattice sees it.
 #[derive(Clone, Debug)]
 struct Point {
@@ -863,6 +879,81 @@ impl Lattice {
             return Err(LatticeError::NotClosed);
         }
         self.oriented(self.charge_of_chain(&chain)?, z_hint)
+    }
+
+    /// The charge of a finite web: the sum of the lifts of its walls. At a
+    /// joint the lifts of the parents and the child meet on equal sheets
+    /// (types ij + jk -> ik), so the chain closes on the cover when the web
+    /// is read right; a chain that does not close is refused, not guessed.
+    pub fn web_charge(
+        &self,
+        edges: &[LiftedEdge],
+        z_hint: Complex64,
+    ) -> Result<Charge, LatticeError> {
+        let n = self.model.n_edges();
+        let mut chain = vec![0_i64; n];
+        for e in edges {
+            let (Some(&first), Some(&last)) = (e.points.first(), e.points.last()) else {
+                return Err(LatticeError::NotClosed);
+            };
+            let [i, j] = e.sheets;
+            if i >= self.model.sheets || j >= self.model.sheets || i == j {
+                return Err(LatticeError::NotClosed);
+            }
+            let i_end = self.add_crossings(&e.points, i, &mut chain);
+            let mut on_j = vec![0_i64; n];
+            let j_end = self.add_crossings(&e.points, j, &mut on_j);
+            for (c, o) in chain.iter_mut().zip(on_j) {
+                *c -= o;
+            }
+            // Back on j to the start, round the branch point onto i; at the
+            // far end from i round onto j.
+            if let Some(b) = e.from {
+                self.join_round(b, first, j, i, &mut chain)?;
+            }
+            if let Some(b) = e.to {
+                self.join_round(b, last, i_end, j_end, &mut chain)?;
+            }
+        }
+        self.oriented(self.charge_of_chain(&chain)?, z_hint)
+    }
+
+    /// Adds circles about the branch point `centre`, through `at`, until the
+    /// label `from` has become `to`. Any number of turns that does so gives
+    /// the same class: a full cycle of turns bounds the disc over the point.
+    fn join_round(
+        &self,
+        centre: Complex64,
+        at: Complex64,
+        from: usize,
+        to: usize,
+        chain: &mut [i64],
+    ) -> Result<(), LatticeError> {
+        let r = (at - centre).norm();
+        let nearest_other = self
+            .model
+            .points
+            .iter()
+            .map(|p| (p.z - centre).norm())
+            .filter(|&d| d > 1e-9 * (1.0 + centre.norm()))
+            .fold(f64::INFINITY, f64::min);
+        // The circle must enclose its own point only.
+        if !(r > 0.0 && r < 0.9 * nearest_other) {
+            return Err(LatticeError::NotClosed);
+        }
+        let circle = Self::circle_points(centre, at);
+        let mut label = from;
+        for _ in 0..self.model.sheets {
+            if label == to {
+                return Ok(());
+            }
+            label = self.add_crossings(&circle, label, chain);
+        }
+        if label == to {
+            Ok(())
+        } else {
+            Err(LatticeError::NotClosed)
+        }
     }
 
     /// The charge of a ring domain: the closed polyline `pts` lifted to the

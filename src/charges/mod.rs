@@ -13,7 +13,7 @@ pub mod intmat;
 pub mod ks;
 pub mod lattice;
 
-pub use lattice::{Charge, Lattice, LatticeError};
+pub use lattice::{Charge, Lattice, LatticeError, LiftedEdge};
 
 use crate::curve::Curve;
 use crate::spectrum::{BpsState, Kind, Spectrum};
@@ -53,6 +53,9 @@ impl LatticeSummary {
 
 /// The sheets of a state's cycle and its path, when the engine can lift it.
 fn state_charge(curve: &Curve, lat: &Lattice, s: &BpsState) -> Result<Charge, String> {
+    if !s.lift.is_empty() {
+        return lat.web_charge(&s.lift, s.z).map_err(|e| e.to_string());
+    }
     match s.kind {
         Kind::Vector => {
             let pts = s.web.first().ok_or("no closed trajectory")?;

@@ -112,6 +112,10 @@ pub struct BpsState {
     /// cycle (`None` when it could not be lifted; a warning says why).
     #[serde(default)]
     pub charge: Option<Vec<i64>>,
+    /// The state's cycle as paths on labelled sheets, for webs found at
+    /// rank >= 3 (empty otherwise: saddles and rings are lifted from `web`).
+    #[serde(skip)]
+    pub lift: Vec<crate::charges::LiftedEdge>,
 }
 
 /// Counters of the work done.
@@ -242,7 +246,7 @@ const MAX_REFINE: usize = 6;
 /// Lattice candidates have gauge coordinates in `-LATTICE_BOX..=LATTICE_BOX`.
 const LATTICE_BOX: i64 = 6;
 
-fn gcd_all(v: &[i64]) -> i64 {
+pub(crate) fn gcd_all(v: &[i64]) -> i64 {
     fn gcd(a: i64, b: i64) -> i64 {
         if b == 0 {
             a.abs()
@@ -341,7 +345,7 @@ fn find_states(
         return Spectrum::empty(settings.reach, messages);
     }
     if curve.rank >= 3 {
-        return web::find(curve, settings, cancel, progress);
+        return web::find(curve, settings, cancel, progress, lattice);
     }
     let mut warnings: Vec<String> = Vec::new();
     let Some(q) = curve.quadratic_differential() else {
@@ -671,6 +675,7 @@ impl<'a> Finder<'a> {
             web: vec![loop_points],
             z_error,
             charge: None,
+            lift: Vec::new(),
         };
         self.add_lattice_candidates(&state);
         self.states.push(state);
@@ -723,6 +728,7 @@ impl<'a> Finder<'a> {
                         .norm()
                         .min((z_quad + pass.z_wall).norm()),
                     charge: None,
+            lift: Vec::new(),
                 });
             }
             theta = theta_new;

@@ -76,6 +76,7 @@ use super::{
     SpectrumSettings, SpectrumStats, CANDIDATE_MATCH, MAX_REFINE,
 };
 use crate::cancel::CancelToken;
+use crate::charges::{intmat, Lattice, LiftedEdge};
 use crate::curve::Curve;
 use crate::network::{self, growth, GrowthLimit, Network};
 use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Origin, Settings, Wall};
@@ -110,6 +111,13 @@ const QUICK_FRACTION: f64 = 0.25;
 /// relative at the scan's tolerance), so this is loose; the quadrature
 /// then gives the charge to 1e-10.
 const WEB_MATCH: f64 = 3e-3;
+
+/// Lattice candidates at rank >= 3 have gauge coordinates in
+/// `-WEB_LATTICE_BOX..=WEB_LATTICE_BOX` (each costs a network, so the box
+/// is smaller than rank 2's).
+const WEB_LATTICE_BOX: i64 = 2;
+/// Lattice candidates are tried up to this gauge rank (5^6 charges).
+const MAX_LATTICE_GAUGE: usize = 6;
 
 /// Per-web warnings shown one by one up to this many, then counted.
 const NOTES_SHOWN: usize = 6;
@@ -149,6 +157,7 @@ pub(super) fn find(
     settings: &SpectrumSettings,
     cancel: &CancelToken,
     progress: &mut dyn FnMut(f64),
+    lattice: Option<&Lattice>,
 ) -> Spectrum {
     let mut warnings = Vec::new();
     for (idx, bp) in curve.branch_points.iter().enumerate() {
@@ -168,6 +177,9 @@ pub(super) fn find(
     }
     let mut finder = WebFinder::new(curve, settings, cancel);
     finder.run(progress);
+    if let Some(lat) = lattice {
+        finder.lattice_candidates(lat);
+    }
     finder.into_spectrum(warnings)
 }
 
@@ -196,6 +208,18 @@ enum EdgeEnd {
     Joint(Complex64),
 }
 
+/// One wall of a web, as far as the web uses it.
+struct WebEdge {
+    /// `int (y_i - y_j) dz` from its start to where the web uses it.
+    z: Complex64,
+    /// The polyline to draw.
+    line: Vec<Complex64>,
+    /// Its soliton counts along the way.
+    counts: Vec<i64>,
+    /// The same path on labelled sheets.
+    lift: LiftedEdge,
+}
+
 /// A web found at a phase.
 struct Web {
     /// The independent quadrature's charge.
@@ -205,6 +229,8 @@ struct Web {
     /// Branch points at its ends, sorted.
     endpoints: Vec<usize>,
     polylines: Vec<Vec<Complex64>>,
+    /// Its walls on labelled sheets, for its charge.
+    lift: Vec<LiftedEdge>,
     /// Why its index cannot be decided (empty for a simple web).
     problems: Vec<String>,
 }
@@ -397,6 +423,55 @@ impl<'a> WebFinder<'a> {
         }
         self.drain_queue();
         progress(1.0);
+    }
+
+    /// Candidates from the charge lattice, when the webs the scan found do
+    /// not span its gauge part: every primitive charge with gauge
+    /// coordinates in `-WEB_LATTICE_BOX..=WEB_LATTICE_BOX` and `|Z|` below
+    /// the reach, lightest first, each confirmed or excluded on the whole
+    /// network at its own phase. Webs whose phases crowd together (near a
+    /// wall of marginal stability) are found this way; none is reported
+    /// unconfirmed.
+    fn lattice_candidates(&mut self, lat: &Lattice) {
+        let gauge = lat.gauge_rank();
+        if gauge == 0 || gauge > MAX_LATTICE_GAUGE || self.stop() {
+            return;
+        }
+        let charges: Vec<Vec<i64>> = self
+            .states
+            .iter()
+            .filter_map(|s| lat.web_charge(&s.lift, s.z).ok())
+            .map(|c| c[..gauge].to_vec())
+            .collect();
+        let (rank, index) = intmat::span(&charges, gauge);
+        if rank == gauge && index == 1 {
+            return;
+        }
+        let reach = self.settings.reach;
+        let mut found: Vec<(f64, Complex64)> = Vec::new();
+        let mut c = vec![-WEB_LATTICE_BOX; gauge];
+        loop {
+            let first = c.iter().find(|&&x| x != 0).copied().unwrap_or(0);
+            if first > 0 && super::gcd_all(&c) == 1 {
+                let mut full = c.clone();
+                full.resize(lat.rank(), 0);
+                let z = lat.central_charge(&full);
+                if z.norm() < reach && z.norm() > 0.0 && !self.known(z, None) {
+                    found.push((z.norm(), z));
+                }
+            }
+            let Some(k) = (0..gauge).find(|&k| c[k] < WEB_LATTICE_BOX) else {
+                break;
+            };
+            for x in &mut c[..k] {
+                *x = -WEB_LATTICE_BOX;
+            }
+            c[k] += 1;
+        }
+        // Heaviest pushed first: the queue pops the lightest first.
+        found.sort_by(|a, b| b.0.total_cmp(&a.0));
+        self.queue.extend(found.into_iter().map(|(_, z)| (z, None)));
+        self.drain_queue();
     }
 
     /// Whether a candidate was tried or found already: same charge (up to
@@ -698,6 +773,7 @@ impl<'a> WebFinder<'a> {
                     web: web.polylines,
                     z_error,
                     charge: None,
+                    lift: web.lift,
                 };
                 (state, web.problems.join("; "))
             })
@@ -751,27 +827,29 @@ impl<'a> WebFinder<'a> {
         }
         let mut z = Complex64::new(0.0, 0.0);
         let mut polylines = Vec::new();
+        let mut lift = Vec::new();
         for &(w, end) in &edges {
             let wall = &net.walls[w];
-            let (charge, line, counts) = self.edge(wall, end)?;
-            if counts.iter().any(|mu| mu.abs() != 1) {
+            let e = self.edge(wall, end)?;
+            if e.counts.iter().any(|mu| mu.abs() != 1) {
                 problems.push("a wall of the web carries more than one soliton".to_string());
             }
-            z += charge;
-            polylines.push(line);
+            z += e.z;
+            polylines.push(e.line);
+            lift.push(e.lift);
         }
         Some(Web {
             z,
             z_wall: pass.w,
             endpoints,
             polylines,
+            lift,
             problems,
         })
     }
 
-    /// One wall of a web: `int (y_i - y_j) dz` from its start to where the
-    /// web uses it, the polyline to draw, and its soliton counts there.
-    fn edge(&self, wall: &Wall, end: EdgeEnd) -> Option<(Complex64, Vec<Complex64>, Vec<i64>)> {
+    /// One wall of a web as far as the web uses it (see [`WebEdge`]).
+    fn edge(&self, wall: &Wall, end: EdgeEnd) -> Option<WebEdge> {
         let pts: Vec<Complex64> = wall.points.iter().map(|p| p.z).collect();
         let primary = match wall.origin {
             Origin::BranchPoint { index, .. } => Some(self.curve.branch_points.get(index)?.z),
@@ -793,6 +871,16 @@ impl<'a> WebFinder<'a> {
         };
         path.extend(end_z);
         let start = *path.first()?;
+        let kind = wall.kind_at(first.min(last));
+        let lift = LiftedEdge {
+            points: path.clone(),
+            sheets: [usize::from(kind.i), usize::from(kind.j)],
+            from: primary,
+            to: match end {
+                EdgeEnd::Branch { to, .. } => Some(self.curve.branch_points[to].z),
+                EdgeEnd::Joint(_) => None,
+            },
+        };
         let mut pair = self.labelled_pair(wall, first.min(last), start)?;
         let mut total = Complex64::new(0.0, 0.0);
         if let Some(b) = primary {
@@ -814,7 +902,12 @@ impl<'a> WebFinder<'a> {
         let counts = (0..=last.min(pts.len() - 1))
             .map(|i| wall.multiplicity_at(i))
             .collect();
-        Some((total, line, counts))
+        Some(WebEdge {
+            z: total,
+            line,
+            counts,
+            lift,
+        })
     }
 
     fn into_spectrum(self, mut warnings: Vec<String>) -> Spectrum {
