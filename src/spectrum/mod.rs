@@ -728,7 +728,7 @@ impl<'a> Finder<'a> {
                         .norm()
                         .min((z_quad + pass.z_wall).norm()),
                     charge: None,
-            lift: Vec::new(),
+                    lift: Vec::new(),
                 });
             }
             theta = theta_new;

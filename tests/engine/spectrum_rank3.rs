@@ -188,6 +188,7 @@ fn check_states(label: &str, curve: &Curve, sp: &Spectrum, max_z_error: f64) {
         "{label}: no states: {:?}",
         sp.warnings
     );
+    check_charges(label, sp);
     for (n, s) in sp.states.iter().enumerate() {
         let indep = web_charge(curve, s);
         let rel = (indep - s.z).norm().min((indep + s.z).norm()) / s.abs;
@@ -263,6 +264,33 @@ fn check_states(label: &str, curve: &Curve, sp: &Spectrum, max_z_error: f64) {
             "{label}: state {n}: closest approach {at:e} at the phase, {before:e} and {after:e} beside it"
         );
     }
+}
+
+/// The self-check of every spectrum: each state has a charge from its own
+/// web, its Z is the charge's combination of the basis periods (periods by
+/// quadrature round the singular points, a computation independent of the
+/// web's) to 1e-8, and the charges span the gauge lattice.
+fn check_charges(label: &str, sp: &Spectrum) {
+    let lat = sp.lattice.as_ref().expect("a lattice");
+    for (n, s) in sp.states.iter().enumerate() {
+        let q = s
+            .charge
+            .as_ref()
+            .unwrap_or_else(|| panic!("{label}: state {n} has no charge: {:?}", sp.warnings));
+        let z: Complex64 = q.iter().zip(&lat.basis).map(|(&x, b)| b * x as f64).sum();
+        assert!(
+            (z - s.z).norm() < 1e-8 * (1.0 + s.abs),
+            "{label}: state {n}: Z {} vs its charge's period {z}",
+            s.z
+        );
+    }
+    assert!(
+        lat.spans_gauge(),
+        "{label}: charges span rank {} (index {}) of {}",
+        lat.span_rank,
+        lat.span_index,
+        lat.gauge_rank
+    );
 }
 
 fn print(label: &str, sp: &Spectrum) {
@@ -658,4 +686,45 @@ fn network_budget_stops_with_a_warning() {
     cancel.cancel();
     let sp = find(&cv, &SpectrumSettings::default(), &cancel, &mut |_| {});
     assert!(sp.cancelled && sp.states.is_empty());
+}
+
+/// Pure SU(3)-type curve y^3 + u y / z^2 + (1 + v z + z^2) / z^4 = 0 near
+/// its strong-coupling point (u = 0.3 + 0.2i, v = 0.4 - 0.1i): six
+/// hypermultiplets whose charges span the whole rank-4 gauge lattice
+/// (N(N - 1) = 6 for SU(N), Alim-Cecotti-Cordova-Espahbodi-Rastogi-Vafa
+/// 2011, "BPS quivers and spectra of complete N=2 quantum field theories";
+/// from memory). The pairing on that lattice has Pfaffian 3: the Dirac
+/// pairing of pure SU(N) between electric and magnetic charges is the
+/// Cartan matrix of A_(N-1), of determinant N (a fact of the trade).
+#[test]
+fn pure_su3_near_strong_coupling_has_six_hypers_spanning_the_lattice() {
+    let cv = curve_with(
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        &[("u", c(0.3, 0.2)), ("v", c(0.4, -0.1))],
+    );
+    let sp = spectrum(&cv, 20.0);
+    print("pure SU(3)", &sp);
+    assert_eq!(sp.states.len(), 6, "{:?}", sp.warnings);
+    for s in &sp.states {
+        assert_eq!((s.kind, s.omega), (Kind::Hyper, Some(1)));
+    }
+    check_charges("pure SU(3)", &sp);
+    let lat = sp.lattice.as_ref().unwrap();
+    assert_eq!((lat.gauge_rank, lat.flavour_rank), (4, 0));
+    // Pfaffian of a 4x4 antisymmetric form.
+    let m = &lat.pairing;
+    let pf = m[0][1] * m[2][3] - m[0][2] * m[1][3] + m[0][3] * m[1][2];
+    assert_eq!(pf.abs(), 3, "pairing {m:?}");
+    // Six distinct charges up to sign.
+    let charges: Vec<&Vec<i64>> = sp
+        .states
+        .iter()
+        .map(|s| s.charge.as_ref().unwrap())
+        .collect();
+    for a in 0..6 {
+        for b in 0..a {
+            let neg: Vec<i64> = charges[b].iter().map(|x| -x).collect();
+            assert!(charges[a] != charges[b] && *charges[a] != neg);
+        }
+    }
 }
