@@ -484,9 +484,17 @@ fn explain(
         return;
     }
     // A wall: two states of `before` with non-zero pairing whose Z cross
-    // alignment between the two ends.
+    // alignment between the two ends. Of several such pairs (the states of
+    // a plane of charges all align at once), the generators are the pair
+    // whose cone holds every charge that changes strictly inside; then the
+    // lightest pair (the deepest KS check), then the closest to alignment.
+    let changed: Vec<Vec<i64>> = only_before
+        .iter()
+        .chain(&only_after)
+        .map(|c| c.to_vec())
+        .collect();
     let n = change.before.len();
-    let mut best: Option<(usize, usize, f64)> = None;
+    let mut best: Option<(usize, usize, (bool, f64, f64))> = None;
     for i in 0..n {
         for j in i + 1..n {
             let (Some(ci), Some(cj)) = (&change.before[i].charge, &change.before[j].charge) else {
@@ -502,9 +510,16 @@ fn explain(
             // Parallel Z (not antiparallel) with the sign changing.
             let parallel = (z_of(&la.basis, ci) * z_of(&la.basis, cj).conj()).re > 0.0;
             if fa * fb <= 0.0 && parallel {
-                let size = fa.abs() + fb.abs();
-                if best.is_none_or(|b| size < b.2) {
-                    best = Some((i, j, size));
+                let explains = changed
+                    .iter()
+                    .all(|c| cone_coordinates(ci, cj, c).is_some_and(|[a, b]| a >= 1 && b >= 1));
+                let heaviest = z_of(&la.basis, ci).norm().max(z_of(&la.basis, cj).norm());
+                let rank = (!explains, heaviest, fa.abs() + fb.abs());
+                let better = |b: &(usize, usize, (bool, f64, f64))| {
+                    rank.partial_cmp(&b.2) == Some(std::cmp::Ordering::Less)
+                };
+                if best.as_ref().is_none_or(better) {
+                    best = Some((i, j, rank));
                 }
             }
         }
@@ -518,6 +533,46 @@ fn explain(
     change.aligned = Some([i, j]);
     change.aligned_at = locate_alignment(change.interval, &g1, &g2, la, build);
     change.ks = ks_check(change, &g1, &g2, la, lb, reach);
+}
+
+/// Coordinates `(a, b)` with `c = +-(a g1 + b g2)`, `a, b >= 0`, when `c`
+/// lies in the cone of `g1` and `g2` (up to sign).
+fn cone_coordinates(g1: &[i64], g2: &[i64], c: &[i64]) -> Option<[i64; 2]> {
+    for sign in [1_i64, -1] {
+        let cc: Vec<i64> = c.iter().map(|x| sign * x).collect();
+        if let Some([a, b]) = plane_coordinates(g1, g2, &cc) {
+            if a >= 0 && b >= 0 && a + b > 0 {
+                return Some([a, b]);
+            }
+        }
+    }
+    None
+}
+
+/// Exact integer coordinates `(a, b)` of `c = a g1 + b g2`, if any.
+fn plane_coordinates(g1: &[i64], g2: &[i64], c: &[i64]) -> Option<[i64; 2]> {
+    let d = g1.len();
+    if g2.len() != d || c.len() != d {
+        return None;
+    }
+    // Two coordinates where g1, g2 are independent.
+    for r in 0..d {
+        for s in r + 1..d {
+            let det = g1[r] * g2[s] - g1[s] * g2[r];
+            if det == 0 {
+                continue;
+            }
+            let an = c[r] * g2[s] - c[s] * g2[r];
+            let bn = g1[r] * c[s] - g1[s] * c[r];
+            if an % det != 0 || bn % det != 0 {
+                return None;
+            }
+            let (a, b) = (an / det, bn / det);
+            let ok = (0..d).all(|k| a * g1[k] + b * g2[k] == c[k]);
+            return ok.then_some([a, b]);
+        }
+    }
+    None
 }
 
 /// Bisection on the misalignment of `g1`, `g2` with lattices built at
@@ -570,57 +625,33 @@ fn ks_check(
     if order == 0 {
         return None;
     }
-    // Coordinates (a, b) of c = a g1 + b g2 (exact, or None).
-    let coords = |c: &[i64]| -> Option<[i64; 2]> {
-        // Two coordinates where g1, g2 are independent.
-        let d = g1.len();
-        for r in 0..d {
-            for s in r + 1..d {
-                let det = g1[r] * g2[s] - g1[s] * g2[r];
-                if det == 0 {
-                    continue;
-                }
-                let an = c[r] * g2[s] - c[s] * g2[r];
-                let bn = g1[r] * c[s] - g1[s] * c[r];
-                if an % det != 0 || bn % det != 0 {
-                    return None;
-                }
-                let (a, b) = (an / det, bn / det);
-                let ok = (0..d).all(|k| a * g1[k] + b * g2[k] == c[k]);
-                return ok.then_some([a, b]);
-            }
-        }
-        None
-    };
-    let side = |states: &[BpsState], basis: &[Complex64]| -> Vec<PhasedFactor> {
+    let side = |states: &[BpsState], basis: &[Complex64]| -> Option<Vec<PhasedFactor>> {
         let z1 = z_of(basis, g1);
-        states
-            .iter()
-            .filter_map(|s| {
-                let c = s.charge.as_ref()?;
-                let omega = s.omega?;
-                for sign in [1_i64, -1] {
-                    let cc: Vec<i64> = c.iter().map(|x| sign * x).collect();
-                    if let Some([a, b]) = coords(&cc) {
-                        if a >= 0 && b >= 0 && a + b > 0 {
-                            // arg Z relative to Z_g1: continuous near the wall.
-                            let arg_z = (z_of(basis, &cc) / z1).arg();
-                            return Some(PhasedFactor {
-                                factor: KsFactor {
-                                    charge: [a, b],
-                                    omega,
-                                },
-                                arg_z,
-                            });
-                        }
-                    }
-                }
-                None
-            })
-            .collect()
+        let mut out = Vec::new();
+        for s in states {
+            let Some(c) = s.charge.as_ref() else {
+                continue;
+            };
+            let Some([a, b]) = cone_coordinates(g1, g2, c) else {
+                continue;
+            };
+            // A state in the cone with an unknown index: no check.
+            let omega = s.omega?;
+            let cc: Vec<i64> = g1.iter().zip(g2).map(|(x, y)| a * x + b * y).collect();
+            // arg Z relative to Z_g1: continuous near the wall.
+            let arg_z = (z_of(basis, &cc) / z1).arg();
+            out.push(PhasedFactor {
+                factor: KsFactor {
+                    charge: [a, b],
+                    omega,
+                },
+                arg_z,
+            });
+        }
+        Some(out)
     };
-    let before = side(&change.before, &la.basis);
-    let after = side(&change.after, &lb.basis);
+    let before = side(&change.before, &la.basis)?;
+    let after = side(&change.after, &lb.basis)?;
     let holds = match (
         phase_ordered_product(&before, m, order),
         phase_ordered_product(&after, m, order),

@@ -182,3 +182,60 @@ fn the_path_through_u_equal_one_meets_a_singular_point_and_nothing_else() {
         assert_eq!(other["cause"], "reach", "{other}");
     }
 }
+
+/// A pure SU(3)-type curve on the path u = 0.3 + 0.2i -> 3 + 0.2i (v =
+/// 0.4 - 0.1i) leaves the strong-coupling chamber through a wall where
+/// two hypermultiplets align and their bound state g1 + g2 decays (the
+/// pentagon identity, Kontsevich-Soibelman 2008): the change must name a
+/// pair whose sum is the state that changes, and the KS products on the
+/// two sides must agree exactly, to an order that sees the bound state.
+#[test]
+fn a_rank_three_wall_passes_the_ks_check() {
+    let v = json(&[
+        "crossing",
+        "--curve",
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        "--set",
+        "v=0.4-0.1i",
+        "--from",
+        "u=0.3+0.2i",
+        "--to",
+        "u=3+0.2i",
+        "--reach",
+        "12",
+        "--json",
+    ]);
+    let changes = v["crossings"].as_array().unwrap();
+    assert!(!changes.is_empty(), "{v}");
+    let charge = |s: &serde_json::Value| -> Vec<i64> {
+        s["charge"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|x| x.as_i64().unwrap())
+            .collect()
+    };
+    for c in changes {
+        assert_eq!(c["cause"], "marginal-stability", "{c}");
+        assert_eq!(c["ks"]["holds"], true, "{c}");
+        assert!(c["ks"]["order"].as_u64().unwrap() >= 2, "{c}");
+        let before: Vec<Vec<i64>> = c["before"].as_array().unwrap().iter().map(charge).collect();
+        let after: Vec<Vec<i64>> = c["after"].as_array().unwrap().iter().map(charge).collect();
+        let [i, j] = [0, 1].map(|k| c["aligned"][k].as_u64().unwrap() as usize);
+        let sum: Vec<i64> = before[i]
+            .iter()
+            .zip(&before[j])
+            .map(|(a, b)| a + b)
+            .collect();
+        let neg: Vec<i64> = sum.iter().map(|x| -x).collect();
+        let has = |v: &[Vec<i64>]| v.contains(&sum) || v.contains(&neg);
+        assert!(
+            has(&before) != has(&after),
+            "g1 + g2 = {sum:?} must change: {c}"
+        );
+        // The aligned pair itself survives on both sides.
+        for g in [&before[i], &before[j]] {
+            assert!(after.contains(g), "{g:?} is lost: {c}");
+        }
+    }
+}
