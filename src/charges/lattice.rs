@@ -139,6 +139,12 @@ const PANEL_ROOM: f64 = 0.25;
 const CIRCLE_PANELS: usize = 48;
 /// Vertices of a circle in a lasso representative.
 const CIRCLE_VERTICES: usize = 48;
+/// In one continuation step a singular point moves at most this fraction
+/// of its distance to the nearest other one.
+const MAX_MOVE: f64 = 0.2;
+/// Transported lassos circle their point at this fraction of the distance
+/// to the nearest other one.
+const LASSO_WIDE: f64 = 0.4;
 /// Most classes the lattice handles (the pairing is counted geometrically).
 const MAX_CLASSES: usize = 200;
 
@@ -363,6 +369,58 @@ impl Model {
     /// Where the lasso of representative `slot` (of `n_slots`) around point
     /// p leaves the top line, and where it meets its circle; the circle's
     /// radius.
+    /// Distance from `z` to the nearest other singular point.
+    fn nearest_other(&self, z: Complex64) -> f64 {
+        self.points
+            .iter()
+            .map(|q| (q.z - z).norm())
+            .filter(|&d| d > 0.0)
+            .fold(f64::INFINITY, f64::min)
+    }
+
+    /// The lasso of edge `e` as a closed polyline, carried along while the
+    /// singular points move by `moves` (old, new position): an isotopy of
+    /// the plane that drags every curve with the points. Its circle is
+    /// widened to `LASSO_WIDE` of the distance to the nearest other point
+    /// (same class: the annulus between holds no point), so no point leaves
+    /// or enters it in a short step; where a point crosses one of its
+    /// descents (the point passes the line above another along the cuts,
+    /// as points of a moving curve keep doing), the descent is pushed ahead
+    /// of the point by a small bump round its new position.
+    fn transported_lasso(
+        &self,
+        e: usize,
+        moves: &[(Complex64, Complex64)],
+    ) -> Result<Vec<Complex64>, LatticeError> {
+        let p = e / self.sheets;
+        let centre = self.points[p].z;
+        let g = self.lasso_geometry(p, 0, 1);
+        let wide = (LASSO_WIDE * self.nearest_other(centre)).max(g.radius);
+        let offset = (g.foot - centre).norm();
+        let up = -CUT_DIRECTION;
+        let meet = g.foot + up * (wide * wide - offset * offset).max(0.0).sqrt();
+        let others: Vec<(Complex64, Complex64)> = moves
+            .iter()
+            .enumerate()
+            .filter(|&(q, _)| q != p)
+            .map(|(_, &m)| m)
+            .collect();
+        let mut poly = vec![g.base, g.corner];
+        push_pushed_segment(&mut poly, g.corner, meet, &others, moves)?;
+        let phi0 = (meet - centre).arg();
+        for m in 1..=CIRCLE_VERTICES {
+            let phi = phi0 + TAU * m as f64 / CIRCLE_VERTICES as f64;
+            poly.push(centre + Complex64::from_polar(wide, phi));
+        }
+        // The polygon's last vertex is `meet` again (to rounding).
+        if let Some(last) = poly.last_mut() {
+            *last = meet;
+        }
+        push_pushed_segment(&mut poly, meet, g.corner, &others, moves)?;
+        poly.push(g.base);
+        Ok(poly)
+    }
+
     fn lasso_geometry(&self, p: usize, slot: usize, n_slots: usize) -> LassoGeometry {
         let pt = &self.points[p];
         let f = (slot + 1) as f64 / (n_slots + 1) as f64;
@@ -378,6 +436,7 @@ impl Model {
         LassoGeometry {
             base,
             corner,
+            foot,
             meet,
             radius,
         }
@@ -415,9 +474,80 @@ impl Model {
     }
 }
 
+/// Appends the segment `a -> b` (without `a`, with `b`) to `poly`, with a
+/// bump round the new position of every point whose move crosses it, on
+/// the far side, so that the point stays on the side it came from.
+fn push_pushed_segment(
+    poly: &mut Vec<Complex64>,
+    a: Complex64,
+    b: Complex64,
+    crossing: &[(Complex64, Complex64)],
+    all: &[(Complex64, Complex64)],
+) -> Result<(), LatticeError> {
+    let d = b - a;
+    let len = d.norm();
+    if len == 0.0 {
+        poly.push(b);
+        return Ok(());
+    }
+    let t = d / len;
+    let mut bumps: Vec<(f64, [Complex64; 4])> = Vec::new();
+    for &(from, to) in crossing {
+        let m = to - from;
+        let denom = cross(d, m);
+        if denom == 0.0 {
+            continue;
+        }
+        let w = from - a;
+        let u = cross(w, m) / denom;
+        let v = cross(w, d) / denom;
+        if !((0.0..=1.0).contains(&u) && (0.0..=1.0).contains(&v)) {
+            continue;
+        }
+        // The bump: out past the new position and back, r wide along the
+        // segment, clear of every other point.
+        let along = ((to - a) * t.conj()).re;
+        let x = a + t * along;
+        let out = to - x;
+        let depth = out.norm();
+        let n = if depth > 0.0 {
+            out / depth
+        } else {
+            // Exactly on the line: push to the side the point moved to.
+            let s = if cross(d, m) > 0.0 { 1.0 } else { -1.0 };
+            t * Complex64::new(0.0, s)
+        };
+        let clear = all
+            .iter()
+            .map(|&(_, z)| (z - to).norm())
+            .filter(|&dd| dd > 0.0)
+            .fold(f64::INFINITY, f64::min);
+        let r = 0.25 * clear;
+        if depth + r > 0.5 * clear || along - r < 0.0 || along + r > len {
+            return Err(LatticeError::StepTooLarge);
+        }
+        let h = n * (depth + r);
+        bumps.push((along, [x - t * r, x - t * r + h, x + t * r + h, x + t * r]));
+    }
+    bumps.sort_by(|p, q| p.0.total_cmp(&q.0));
+    for w in bumps.windows(2) {
+        // Two bumps overlapping along the segment: take a smaller step.
+        if w[1].0 - w[0].0 < (w[0].1[3] - w[0].1[0]).norm() + (w[1].1[3] - w[1].1[0]).norm() {
+            return Err(LatticeError::StepTooLarge);
+        }
+    }
+    for (_, pts) in bumps {
+        poly.extend(pts);
+    }
+    poly.push(b);
+    Ok(())
+}
+
 struct LassoGeometry {
     base: Complex64,
     corner: Complex64,
+    /// The point beside the singular point that the descent aims at.
+    foot: Complex64,
     meet: Complex64,
     radius: f64,
 }
@@ -660,25 +790,30 @@ impl Lattice {
 
     /// The basis continued to `other`, the lattice of a nearby curve of the
     /// same family: row i holds the coordinates in `other`'s basis of this
-    /// lattice's basis class i. The lasso representatives of this lattice
-    /// are closed curves on the other curve too, as long as no singular
-    /// point moved across them (checked: each moved less than a fifth of
-    /// its free radius); their class there follows from their cut
-    /// crossings, with the sheets matched by their values at the base point.
+    /// lattice's basis class i. The lasso representatives of this lattice,
+    /// carried along with the moving points (see
+    /// [`Model::transported_lasso`]), are closed curves on the other curve;
+    /// their class there follows from their cut crossings, with the sheets
+    /// matched by their values at the base point. Each point may move at
+    /// most `MAX_MOVE` of its distance to the nearest other one.
     pub fn continued_to(&self, other: &Lattice) -> Result<Mat, LatticeError> {
         let (a, b) = (&self.model, &other.model);
         if a.points.len() != b.points.len() || a.sheets != b.sheets {
             return Err(LatticeError::StepTooLarge);
         }
+        // Each point's new position: the nearest one of the other curve.
+        let mut moves = Vec::with_capacity(a.points.len());
         for p in &a.points {
-            let moved = b
+            let to = b
                 .points
                 .iter()
-                .map(|q| (q.z - p.z).norm())
-                .fold(f64::INFINITY, f64::min);
-            if moved > 0.2 * p.room {
+                .map(|q| q.z)
+                .min_by(|x, y| (x - p.z).norm().total_cmp(&(y - p.z).norm()))
+                .ok_or(LatticeError::StepTooLarge)?;
+            if (to - p.z).norm() > MAX_MOVE * a.nearest_other(p.z) {
                 return Err(LatticeError::StepTooLarge);
             }
+            moves.push((p.z, to));
         }
         let base = a.lasso_geometry(0, 0, 1).base;
         let mine = self
@@ -711,9 +846,7 @@ impl Lattice {
                     if y == 0 {
                         continue;
                     }
-                    let segs = a.lasso_segments(e, 0, 1);
-                    let mut poly: Vec<Complex64> = vec![segs[0].a];
-                    poly.extend(segs.iter().map(|s| s.b));
+                    let poly = a.transported_lasso(e, &moves)?;
                     let start = sigma[e % a.sheets];
                     let mut part = vec![0_i64; b.n_edges()];
                     let end = other.add_crossings(&poly, start, &mut part);
@@ -1080,7 +1213,9 @@ mod continuation_tests {
                 assert!((x.z - y.z).norm() < 50.0 * du, "{} {}", x.z, y.z);
             }
         }
-        let far = Lattice::new(&su2(0.4)).unwrap();
+        // The branch points move by about 0.5 there, more than a fifth of
+        // their distance to the puncture at z = 0.
+        let far = Lattice::new(&su2(0.8)).unwrap();
         assert_eq!(a.continued_to(&far), Err(LatticeError::StepTooLarge));
     }
 }

@@ -306,7 +306,8 @@ pub fn crossing(
     report
 }
 
-type Mat = Vec<Vec<i64>>;
+/// An integer matrix, by rows.
+pub type Mat = Vec<Vec<i64>>;
 
 fn mat_mul(a: &Mat, b: &Mat) -> Mat {
     let n = b.first().map_or(0, Vec::len);
@@ -331,8 +332,19 @@ fn mat_vec(a: &Mat, v: &[i64]) -> Vec<i64> {
 }
 
 /// The lattice at `to` and the basis of `from_lat` (at `from`) continued
-/// there (rows: `from_lat`'s classes in the new basis), halving the step
-/// where the singular points move too far for one.
+/// along the path `build` parametrises (rows: `from_lat`'s classes in the
+/// new basis), halving the step where the singular points move too far for
+/// one. `None` where it cannot be continued (a singular point on the path).
+pub fn continued_basis(
+    build: &mut dyn FnMut(f64) -> Result<Curve, String>,
+    from_lat: &Lattice,
+    from: f64,
+    to: f64,
+) -> Option<(Lattice, Mat)> {
+    continue_basis(build, from_lat, from, to, 0)
+}
+
+/// [`continued_basis`] at recursion depth `depth`.
 fn continue_basis(
     build: &mut dyn FnMut(f64) -> Result<Curve, String>,
     from_lat: &Lattice,

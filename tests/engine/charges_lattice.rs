@@ -24,6 +24,7 @@ use std::f64::consts::PI;
 use wallflower::algebra::parse_equation;
 use wallflower::charges::Lattice;
 use wallflower::quad::gauss_legendre_unit;
+use wallflower::spectrum::crossing::continued_basis;
 use wallflower::spectrum::{find, Kind, Spectrum, SpectrumSettings};
 use wallflower::{CancelToken, Curve};
 
@@ -279,4 +280,107 @@ fn harmonic_oscillator_state_is_the_flavour_class() {
     );
     assert!((l.basis[0].norm() - PI * e).abs() < 1e-9);
     assert_self_check(&s);
+}
+
+/// The SU(2) curve at a complex u.
+fn su2_curve(u: Complex64) -> Curve {
+    let p = [("u".to_string(), u)].into();
+    let eq = parse_equation("y^2 = (1 + 2 u z + z^2)/z^3").unwrap();
+    Curve::from_poly_in_y(&eq.evaluate(&p).unwrap()).unwrap()
+}
+
+/// The charges of the u = 0 states (g1, g2), and the weak-coupling
+/// spectrum at u = 3 with its charges carried back into the u = 0 basis
+/// along the polyline 0 -> `via` -> 3.
+fn weak_coupling_in_strong_basis(via: Complex64) -> (Vec<Vec<i64>>, Vec<(Kind, Vec<i64>)>) {
+    let (a, b) = (Complex64::new(0.0, 0.0), Complex64::new(3.0, 0.0));
+    let at = move |s: f64| {
+        if s <= 0.5 {
+            a + (via - a) * (2.0 * s)
+        } else {
+            via + (b - via) * (2.0 * s - 1.0)
+        }
+    };
+    let mut build = |s: f64| Ok(su2_curve(at(s)));
+    let lat0 = Lattice::new(&su2_curve(a)).unwrap();
+    let (_, t) = continued_basis(&mut build, &lat0, 0.0, 1.0).expect("a path avoiding u = +-1");
+    // Rows of t are the start's classes in the end's basis, so a charge at
+    // the end has start coordinates (t^T)^-1 times its own.
+    let n = t.len();
+    let tt: Vec<Vec<i64>> = (0..n).map(|j| (0..n).map(|i| t[i][j]).collect()).collect();
+    let back = wallflower::charges::intmat::inverse(&tt).expect("unimodular");
+    let strong: Vec<Vec<i64>> = su2(0.0, 20.0)
+        .states
+        .iter()
+        .map(|s| s.charge.clone().unwrap())
+        .collect();
+    let settings = SpectrumSettings {
+        reach: 60.0,
+        ..SpectrumSettings::default()
+    };
+    let weak = find(&su2_curve(b), &settings, &CancelToken::new(), &mut |_| {});
+    assert_self_check(&weak);
+    let weak = weak
+        .states
+        .iter()
+        .map(|s| {
+            let c = wallflower::charges::intmat::mat_vec(&back, s.charge.as_ref().unwrap());
+            (s.kind, c.unwrap())
+        })
+        .collect();
+    (strong, weak)
+}
+
+fn scaled_sum(a: i64, x: &[i64], b: i64, y: &[i64]) -> Vec<i64> {
+    x.iter().zip(y).map(|(p, q)| a * p + b * q).collect()
+}
+
+fn up_to_sign(x: &[i64], y: &[i64]) -> bool {
+    x == y || x.iter().zip(y).all(|(p, q)| *p == -q)
+}
+
+/// Pure SU(2) at weak coupling (u = 3) seen in the strong-coupling basis
+/// (the two states g1, g2 at u = 0), continued along a path below the
+/// singular point u = 1: the W boson is g1 + g2 and every dyon is
+/// (n + 1) g1 + n g2 or n g1 + (n + 1) g2 (Seiberg-Witten 1994, Bilal-Ferrari
+/// 1996; the charges in this form are a fact of the trade). Continued above
+/// u = 1 instead, the two paths differ by the loop round u = 1, whose
+/// monodromy is the Picard-Lefschetz map gamma -> gamma + <gamma, delta>
+/// delta of the vanishing cycle delta (one of g1, g2; |<W, delta>| = 2).
+#[test]
+fn weak_coupling_charges_in_the_strong_coupling_basis() {
+    let (strong, below) = weak_coupling_in_strong_basis(Complex64::new(0.0, -1.5));
+    let (g1, g2) = (&strong[0], &strong[1]);
+    let w_below = &below.iter().find(|(k, _)| *k == Kind::Vector).unwrap().1;
+    assert!(
+        up_to_sign(w_below, &scaled_sum(1, g1, 1, g2)),
+        "W {w_below:?}, g1 {g1:?}, g2 {g2:?}"
+    );
+    let hypers: Vec<&Vec<i64>> = below
+        .iter()
+        .filter(|(k, _)| *k == Kind::Hyper)
+        .map(|(_, c)| c)
+        .collect();
+    assert!(hypers.len() >= 3, "{below:?}");
+    for h in &hypers {
+        let in_tower = (0..20).any(|n| {
+            up_to_sign(h, &scaled_sum(n + 1, g1, n, g2))
+                || up_to_sign(h, &scaled_sum(n, g1, n + 1, g2))
+        });
+        assert!(
+            in_tower,
+            "dyon {h:?} is not (n+1) g1 + n g2 or n g1 + (n+1) g2"
+        );
+    }
+    let (_, above) = weak_coupling_in_strong_basis(Complex64::new(0.0, 1.5));
+    let w_above = &above.iter().find(|(k, _)| *k == Kind::Vector).unwrap().1;
+    let lat0 = Lattice::new(&su2_curve(Complex64::new(0.0, 0.0))).unwrap();
+    let picard_lefschetz = [g1, g2].iter().any(|d| {
+        let k = lat0.pair(w_below, d);
+        k.abs() == 2
+            && (up_to_sign(w_above, &scaled_sum(1, w_below, k, d))
+                || up_to_sign(w_above, &scaled_sum(1, w_below, -k, d)))
+    });
+    assert!(picard_lefschetz, "W below {w_below:?}, above {w_above:?}");
+    assert!(!up_to_sign(w_above, w_below));
 }
