@@ -30,6 +30,7 @@
 //! trees of walls through joints closed at a branch point; index 1 for
 //! simple webs, index unknown with a warning otherwise).
 
+pub mod annulus;
 pub mod crossing;
 mod limit;
 pub mod pair;

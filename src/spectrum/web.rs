@@ -69,6 +69,7 @@
 //! point. Webs ending on branch points that are not simple are not sought
 //! (warned).
 
+use super::annulus;
 use super::pair::{Pair, PairQuadrature};
 use super::saddle::{capture_radii, direction_hint};
 use super::{
@@ -177,6 +178,7 @@ pub(super) fn find(
     }
     let mut finder = WebFinder::new(curve, settings, cancel);
     finder.run(progress);
+    finder.rings();
     if let Some(lat) = lattice {
         finder.lattice_candidates(lat);
     }
@@ -423,6 +425,97 @@ impl<'a> WebFinder<'a> {
         }
         self.drain_queue();
         progress(1.0);
+    }
+
+    /// Ring domains about the punctures (see [`super::annulus`]): vector
+    /// multiplets, with their index left unknown.
+    fn rings(&mut self) {
+        let reach = self.settings.reach;
+        for cand in annulus::circle_candidates(self.curve, &self.quad, reach) {
+            if self.stop() {
+                return;
+            }
+            // Tried as a web is not tried as a ring: only a state of the
+            // same charge makes the ring known. A web of index unknown with
+            // the ring's charge is the edge of the ring domain: a closed
+            // trajectory makes it the vector multiplet.
+            let same = self
+                .states
+                .iter()
+                .position(|s| same_up_to_sign(s.z, cand.z, CANDIDATE_MATCH));
+            if same.is_some_and(|k| self.states[k].kind != Kind::Other) {
+                continue;
+            }
+            self.stats.candidates_tried += 1;
+            let settings = Settings {
+                tolerance: self.settings.tolerance,
+                step_budget: self.settings.step_budget,
+                bounds: Some(self.bounds),
+                max_turn_rad: 0.2,
+                ..Settings::default()
+            };
+            let Some((mut line, sheets)) =
+                annulus::closed_loop(self.curve, &cand, &settings, self.bounds, self.cancel)
+            else {
+                continue;
+            };
+            if let Some(k) = same {
+                let web = &mut self.states[k];
+                web.kind = Kind::Vector;
+                web.web.push(line);
+                self.unknown_notes.push(format!(
+                    "the web with |Z| = {:.6} at phase {:.6} bounds a ring domain of closed trajectories: a vector multiplet, index unknown (-2 unless walls of another pair cross the ring)",
+                    web.abs, web.phase
+                ));
+                continue;
+            }
+            line.push(line[0]);
+            // Independent check: the period along the trajectory's own
+            // polyline against the circle's.
+            let z_error = self
+                .curve
+                .sheets_at(line[0])
+                .ok()
+                .and_then(|l| {
+                    let pair = Pair {
+                        a: l[sheets[0]],
+                        b: l[sheets[1]],
+                    };
+                    self.quad.polyline(&line, pair)
+                })
+                .map_or(f64::INFINITY, |(along, _)| {
+                    (along - cand.z).norm().min((along + cand.z).norm())
+                });
+            let phase = phase_mod_pi(cand.z.arg()) + 0.0;
+            let z = Complex64::from_polar(cand.z.norm(), phase);
+            self.unknown_notes.push(format!(
+                "the ring domain with |Z| = {:.6} at phase {phase:.6} (a vector multiplet) has index unknown: -2 unless walls of another pair cross its annulus",
+                z.norm()
+            ));
+            if z_error > WARN_Z_ERROR * z.norm() {
+                self.error_notes.push(format!(
+                    "the ring domain with |Z| = {:.6}: its trajectory's period differs from the circle's by {z_error:.1e}",
+                    z.norm()
+                ));
+            }
+            self.states.push(BpsState {
+                z,
+                abs: z.norm(),
+                phase,
+                kind: Kind::Vector,
+                omega: None,
+                endpoints: Vec::new(),
+                web: vec![line.clone()],
+                z_error,
+                charge: None,
+                lift: vec![LiftedEdge {
+                    points: line,
+                    sheets,
+                    from: None,
+                    to: None,
+                }],
+            });
+        }
     }
 
     /// Candidates from the charge lattice, when the webs the scan found do

@@ -728,3 +728,83 @@ fn pure_su3_near_strong_coupling_has_six_hypers_spanning_the_lattice() {
         }
     }
 }
+
+/// Pure SU(3)-type curve at weak coupling (u = 8, v = 3i): the W bosons are
+/// three vector multiplets (rings of closed trajectories about z = 0) whose
+/// charges are the positive roots a1, a2 and a1 + a2: electric charges, so
+/// they pair to zero with each other, and Z of the third is the sum of the
+/// other two (facts of the trade). Each SU(2) subgroup repeats the SU(2)
+/// tower: some dyons differ by exactly one W boson's charge. Z of the
+/// heaviest (a web at the ring's edge, by the web quadrature) equals the sum
+/// of the two lighter ones (circle periods): two independent quadratures.
+#[test]
+fn pure_su3_weak_coupling_w_bosons_are_the_positive_roots() {
+    let cv = curve_with(
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        &[("u", c(8.0, 0.0)), ("v", c(0.0, 3.0))],
+    );
+    let sp = spectrum(&cv, 35.5);
+    print("pure SU(3), weak coupling", &sp);
+    check_charges("pure SU(3), weak coupling", &sp);
+    let lat = sp.lattice.as_ref().unwrap();
+    let pair = |a: &[i64], b: &[i64]| -> i64 {
+        (0..a.len())
+            .map(|i| {
+                (0..b.len())
+                    .map(|j| a[i] * lat.pairing[i][j] * b[j])
+                    .sum::<i64>()
+            })
+            .sum()
+    };
+    let w: Vec<&BpsState> = sp
+        .states
+        .iter()
+        .filter(|s| s.kind == Kind::Vector)
+        .collect();
+    assert_eq!(w.len(), 3, "{:?}", sp.warnings);
+    let q: Vec<&Vec<i64>> = w.iter().map(|s| s.charge.as_ref().unwrap()).collect();
+    for a in 0..3 {
+        // A ring's two periods agree to rounding; a web bounding a ring
+        // carries its integrator's error (warned above 1e-6).
+        assert!(
+            w[a].z_error < 1e-5 * w[a].abs,
+            "ring {a}: {:e}",
+            w[a].z_error
+        );
+        for b in 0..3 {
+            assert_eq!(pair(q[a], q[b]), 0, "W charges {q:?}");
+        }
+    }
+    // The heaviest is the sum of the two lighter ones, up to signs.
+    let mut by_mass: Vec<usize> = (0..3).collect();
+    by_mass.sort_by(|&a, &b| w[a].abs.total_cmp(&w[b].abs));
+    let [l1, l2, h] = [by_mass[0], by_mass[1], by_mass[2]];
+    let sum_is =
+        |s1: i64, s2: i64| (0..q[h].len()).all(|k| q[h][k] == s1 * q[l1][k] + s2 * q[l2][k]);
+    assert!(
+        [(1, 1), (1, -1), (-1, 1), (-1, -1)]
+            .iter()
+            .any(|&(s1, s2)| sum_is(s1, s2)),
+        "W charges {q:?}"
+    );
+    assert!((w[h].abs - w[l1].abs - w[l2].abs).abs() < 1e-8 * w[h].abs);
+    // SU(2) towers: hypers h, h' with h' - h = +-W for the two lighter W.
+    let hypers: Vec<&Vec<i64>> = sp
+        .states
+        .iter()
+        .filter(|s| s.kind == Kind::Hyper)
+        .map(|s| s.charge.as_ref().unwrap())
+        .collect();
+    for &k in &[l1, l2] {
+        let step = hypers.iter().any(|x| {
+            hypers.iter().any(|y| {
+                [1_i64, -1].iter().any(|&s| {
+                    [1_i64, -1]
+                        .iter()
+                        .any(|&t| (0..x.len()).all(|m| s * y[m] - t * x[m] == q[k][m]))
+                })
+            })
+        });
+        assert!(step, "no two dyons differ by W {:?}", q[k]);
+    }
+}
