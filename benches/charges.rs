@@ -60,5 +60,35 @@ fn lattice_and_charges(c: &mut Criterion) {
     });
 }
 
-criterion_group!(benches, ks_su2_order_12, lattice_and_charges);
+/// The same for the six webs of the `spectrum` bench
+/// `pure_su3_strong_reach_20` (rank 4, charges from the webs' lifts).
+fn lattice_and_charges_rank3(c: &mut Criterion) {
+    let eq = parse_equation("y^3 + (0.3+0.2i)*y/z^2 + (1 + (0.4-0.1i)*z + z^2)/z^4 = 0").unwrap();
+    let su3 = Curve::from_poly_in_y(&eq.evaluate(&BTreeMap::new()).unwrap()).unwrap();
+    let settings = SpectrumSettings {
+        reach: 20.0,
+        ..SpectrumSettings::default()
+    };
+    let found = find(&su3, &settings, &CancelToken::new(), &mut |_| {});
+    let mut bare = found.clone();
+    bare.lattice = None;
+    for s in &mut bare.states {
+        s.charge = None;
+    }
+    c.bench_function("lattice_and_charges_pure_su3_strong_reach_20", |b| {
+        b.iter(|| {
+            let mut s = bare.clone();
+            wallflower::charges::assign(black_box(&su3), &mut s);
+            assert!(s.lattice.as_ref().is_some_and(|l| l.spans_gauge()));
+            s
+        })
+    });
+}
+
+criterion_group!(
+    benches,
+    ks_su2_order_12,
+    lattice_and_charges,
+    lattice_and_charges_rank3
+);
 criterion_main!(benches);

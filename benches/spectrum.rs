@@ -3,7 +3,8 @@
 //! a dyon tower) to reach 8 |Z_W|, target under 1 s; a generic quartic to
 //! reach 10, target under 300 ms. Also the finite webs of the three-sheet
 //! scenario y^3 - 3 a z y + z^3 - 1 = 0 (a = 0.5) to reach 8 (no target
-//! yet; reported).
+//! yet; reported), and a pure SU(3)-type curve near strong coupling to
+//! reach 20 (six webs; reported).
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use std::collections::BTreeMap;
@@ -76,6 +77,23 @@ fn spectrum(c: &mut Criterion) {
             find(
                 black_box(&quartic),
                 &quartic_settings,
+                &CancelToken::new(),
+                &mut |_| {},
+            )
+        })
+    });
+    // Pure SU(3)-type curve near its strong-coupling point: six webs, the
+    // rank-4 lattice and its candidates.
+    let su3 = curve("y^3 + (0.3+0.2i)*y/z^2 + (1 + (0.4-0.1i)*z + z^2)/z^4 = 0");
+    let su3_settings = SpectrumSettings {
+        reach: 20.0,
+        ..SpectrumSettings::default()
+    };
+    group.bench_function("pure_su3_strong_reach_20", |b| {
+        b.iter(|| {
+            find(
+                black_box(&su3),
+                &su3_settings,
                 &CancelToken::new(),
                 &mut |_| {},
             )
