@@ -177,23 +177,7 @@ fn pair(s: &Spectrum, a: usize, b: usize) -> i64 {
     t
 }
 
-/// Every state has a charge, Z is the sum of its basis periods to 1e-8 and
-/// the charges span the gauge lattice.
-fn assert_self_check(s: &Spectrum) {
-    let l = s.lattice.as_ref().expect("a lattice");
-    assert!(
-        s.states.iter().all(|st| st.charge.is_some()),
-        "{:?}",
-        s.warnings
-    );
-    assert!(l.worst_z_error < 1e-8, "worst Z error {}", l.worst_z_error);
-    assert!(
-        l.spans_gauge(),
-        "span rank {} index {}",
-        l.span_rank,
-        l.span_index
-    );
-}
+use crate::support::assert_self_check;
 
 #[test]
 fn su2_strong_coupling_is_the_kronecker_quiver_with_two_arrows() {

@@ -39,6 +39,7 @@ fn approaching(delta: f64, phase: f64) -> Vec<(Kind, Complex64)> {
     let e = Complex64::from_polar(delta * delta, 2.0 * phase);
     let eq = format!("y^2 = ((z+1)^2 - ({:.17}{:+.17}i))/z^3", e.re, e.im);
     let sp = spectrum(&curve(&eq), 20.0);
+    crate::support::assert_self_check(&sp);
     sp.states
         .iter()
         .filter(|s| s.abs > 1.0)

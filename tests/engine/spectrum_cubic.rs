@@ -17,7 +17,7 @@ use wallflower::spectrum::{crossing, find, same_up_to_sign, Kind, SpectrumSettin
 use wallflower::CancelToken;
 
 use crate::support::quadrature::straight_period;
-use crate::support::{c, curve_with};
+use crate::support::{assert_self_check, c, curve_with};
 
 /// The pentagon sample's curve at parameter u.
 fn cubic(u: Complex64) -> wallflower::Curve {
@@ -40,6 +40,7 @@ fn z_cubed_minus_one_has_three_equal_hypers() {
         ..SpectrumSettings::default()
     };
     let spec = find(&CUBIC.curve(), &settings, &CancelToken::new(), &mut |_| {});
+    assert_self_check(&spec);
     assert_eq!(spec.states.len(), hypers, "{:#?}", spec.states);
     assert_eq!(spec.count(Kind::Hyper), hypers);
     for s in &spec.states {

@@ -32,6 +32,7 @@ fn oscillator_has_one_hypermultiplet_of_mass_pi() {
     );
     assert_eq!(last, 1.0);
     assert!(spec.warnings.is_empty(), "{:?}", spec.warnings);
+    crate::support::assert_self_check(&spec);
     assert_eq!(spec.states.len(), 1, "{:#?}", spec.states);
     let s = &spec.states[0];
     assert_eq!(s.kind, Kind::Hyper);

@@ -19,7 +19,7 @@ use wallflower::samples::{Sample, SU2_STRONG, SU2_WEAK};
 use wallflower::spectrum::{same_up_to_sign, Kind, Spectrum};
 
 use crate::support::quadrature::{between_zeros, loop_integral};
-use crate::support::{c, spectrum};
+use crate::support::{assert_self_check, c, spectrum};
 
 /// 2 sqrt(q) with q = (1 + 2 u z + z^2) / z^3, from the formula.
 fn two_sqrt_q(u: f64, z: Complex64) -> Complex64 {
@@ -30,6 +30,7 @@ fn two_sqrt_q(u: f64, z: Complex64) -> Complex64 {
 fn su2_spectrum(sample: &Sample, reach: f64) -> Spectrum {
     let spec = spectrum(&sample.curve(), reach);
     assert!(spec.warnings.is_empty(), "{:?}", spec.warnings);
+    assert_self_check(&spec);
     spec
 }
 

@@ -12,10 +12,12 @@ use crate::support::{c, spectrum};
 
 /// The spectrum of q = prod (z - zeros).
 fn spectrum_of_zeros(zeros: &[Complex64], reach: f64) -> Spectrum {
-    spectrum(
+    let sp = spectrum(
         &Curve::from_quadratic(c(1.0, 0.0), zeros, &[]).unwrap(),
         reach,
-    )
+    );
+    crate::support::assert_self_check(&sp);
+    sp
 }
 
 fn check(zeros: &[Complex64], reach: f64, map: Complex64, factor: Complex64) {

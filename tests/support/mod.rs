@@ -45,6 +45,35 @@ pub fn spectrum(curve: &Curve, reach: f64) -> Spectrum {
     find(curve, &settings, &CancelToken::new(), &mut |_| {})
 }
 
+/// The self-check every spectrum test runs: each state has a charge from
+/// its own cycle, its Z is the charge's combination of the lattice's basis
+/// periods to 1e-8 (periods by quadrature round the singular points, an
+/// independent computation), and the charges span the gauge lattice.
+pub fn assert_self_check(sp: &Spectrum) {
+    let lat = sp.lattice.as_ref().expect("a charge lattice");
+    for (n, s) in sp.states.iter().enumerate() {
+        let q = s
+            .charge
+            .as_ref()
+            .unwrap_or_else(|| panic!("state {} has no charge: {:?}", n + 1, sp.warnings));
+        let z: Complex64 = q.iter().zip(&lat.basis).map(|(&x, b)| b * x as f64).sum();
+        assert!(
+            (z - s.z).norm() < 1e-8 * (1.0 + s.abs),
+            "state {}: Z {} vs its charge's period {z}",
+            n + 1,
+            s.z
+        );
+    }
+    assert!(
+        lat.spans_gauge(),
+        "the charges span rank {} (index {}) of {}: {:?}",
+        lat.span_rank,
+        lat.span_index,
+        lat.gauge_rank,
+        sp.warnings
+    );
+}
+
 /// Runs the built binary; returns (exit status, stdout, stderr). A panic
 /// of the binary fails the calling test whatever it expects.
 pub fn run(args: &[&str]) -> (i32, String, String) {
