@@ -7,7 +7,7 @@
 
 mod branch;
 mod coeffs;
-mod local;
+pub(crate) mod local;
 mod sheets;
 
 pub use coeffs::{csqrt, CoeffEval};

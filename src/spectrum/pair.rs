@@ -180,4 +180,65 @@ impl<'a> PairQuadrature<'a> {
             .all(|r| (r - mean).norm() >= 10.0 * gap);
         (shrinks && others_far && total.is_finite()).then_some(-total * delta)
     }
+
+    /// [`Self::to_branch_point`] for a point where `q` or more sheets meet
+    /// (q the lcm of the cycle lengths of its monodromy), by
+    /// `z = b + s^q (z0 - b)`: every sheet is analytic in s there, so
+    ///
+    /// ```text
+    /// int_z0^b (y_a - y_b) dz = -int_0^1 (y_a - y_b)(z(s)) q s^(q-1) (z0 - b) ds
+    /// ```
+    ///
+    /// is a smooth integral. The two sheets are followed from the previous
+    /// nodes by linear extrapolation in s. `None` unless the pair really
+    /// meets at b: its gap shrinks far below its size at z0 while the sheets
+    /// that do not meet there stay away.
+    pub fn to_special_point(
+        &self,
+        z0: Complex64,
+        start: Pair,
+        b: Complex64,
+        q: u32,
+    ) -> Option<Complex64> {
+        if q <= 2 {
+            return self.to_branch_point(z0, start, b);
+        }
+        let delta = z0 - b;
+        let qf = f64::from(q);
+        let mut total = Complex64::new(0.0, 0.0);
+        // The last two nodes (s, pair), newest first.
+        let mut prev: (f64, Pair) = (1.0, start);
+        let mut older: Option<(f64, Pair)> = None;
+        let mut last_roots = Vec::new();
+        for &(s, w) in self.endpoint_rule.iter().rev() {
+            let roots = self.curve.roots_unordered(b + delta * s.powi(q as i32));
+            let guess = |pick_a: bool| {
+                let (s1, p1) = prev;
+                let y1 = if pick_a { p1.a } else { p1.b };
+                match older {
+                    Some((s2, p2)) => {
+                        let y2 = if pick_a { p2.a } else { p2.b };
+                        y1 + (y1 - y2) * ((s - s1) / (s1 - s2))
+                    }
+                    None => y1,
+                }
+            };
+            let pair = pick(&roots, guess(true), guess(false))?;
+            total += pair.diff() * (qf * s.powi(q as i32 - 1)) * w;
+            older = Some(prev);
+            prev = (s, pair);
+            last_roots = roots;
+        }
+        let pair = prev.1;
+        let gap = pair.diff().norm();
+        let shrinks = gap <= 0.05 * start.diff().norm();
+        let mean = (pair.a + pair.b) * 0.5;
+        // Sheets meeting at b too shrink towards the pair; the others stay
+        // away from it.
+        let others_ok = last_roots
+            .iter()
+            .filter(|r| **r != pair.a && **r != pair.b)
+            .all(|r| (r - mean).norm() >= 10.0 * gap || (r - mean).norm() <= 2.0 * gap);
+        (shrinks && others_ok && total.is_finite()).then_some(-total * delta)
+    }
 }

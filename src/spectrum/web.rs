@@ -78,9 +78,12 @@ use super::{
 };
 use crate::cancel::CancelToken;
 use crate::charges::{intmat, Lattice, LiftedEdge};
-use crate::curve::Curve;
+use crate::curve::local::{cycle_lengths, lcm};
+use crate::curve::{Curve, Site};
 use crate::network::{self, growth, GrowthLimit, Network};
-use crate::walls::{grow_wall, primary_seeds, Bounds, GrowContext, Origin, Settings, Wall};
+use crate::walls::{
+    grow_wall, primary_seeds, special_seeds, Bounds, GrowContext, Origin, Settings, Wall,
+};
 use num_complex::Complex64;
 use std::f64::consts::PI;
 
@@ -161,17 +164,18 @@ pub(super) fn find(
     lattice: Option<&Lattice>,
 ) -> Spectrum {
     let mut warnings = Vec::new();
+    let ramification = ramification(curve);
     for (idx, bp) in curve.branch_points.iter().enumerate() {
-        if !bp.simple {
+        if ramification[idx] == 0 {
             warnings.push(format!(
-                "branch point {} is not simple ({} sheets meet, order {}): webs ending on it are not sought",
+                "branch point {} is not simple ({} sheets meet, order {}) and the cover is singular there: webs ending on it are not sought",
                 idx + 1,
                 bp.n_sheets_meeting,
                 bp.order
             ));
         }
     }
-    if !curve.branch_points.iter().any(|bp| bp.simple) {
+    if ramification.iter().all(|&q| q == 0) {
         // No walls start anywhere: no webs to look for.
         progress(1.0);
         return Spectrum::empty(settings.reach, warnings);
@@ -183,6 +187,31 @@ pub(super) fn find(
         finder.lattice_candidates(lat);
     }
     finder.into_spectrum(warnings)
+}
+
+/// For each branch point, the q of the substitution `z = b + s^q (z0 - b)`
+/// that makes every sheet analytic in s there: 2 at a simple branch point,
+/// the lcm of the monodromy's cycle lengths at a smooth special point, 0
+/// where the cover is singular (no walls start there; no webs are sought).
+fn ramification(curve: &Curve) -> Vec<u32> {
+    curve
+        .branch_points
+        .iter()
+        .enumerate()
+        .map(|(idx, bp)| {
+            if bp.simple {
+                return 2;
+            }
+            curve
+                .special
+                .iter()
+                .find(|sp| sp.site == Site::BranchPoint(idx))
+                .filter(|sp| sp.model.smooth)
+                .map_or(0, |sp| {
+                    cycle_lengths(&sp.model.monodromy).into_iter().fold(1, lcm)
+                })
+        })
+        .collect()
 }
 
 /// A wall passing through the capture disc of a branch point where its own
@@ -244,6 +273,8 @@ struct WebFinder<'a> {
     quad: PairQuadrature<'a>,
     bounds: Bounds,
     radii: Vec<f64>,
+    /// Per branch point: see [`ramification`].
+    ramification: Vec<u32>,
     states: Vec<BpsState>,
     /// Candidates already confirmed or rejected, with their branch points:
     /// webs of equal charge through other branch points are other states
@@ -310,6 +341,7 @@ impl<'a> WebFinder<'a> {
             quad: PairQuadrature::new(curve),
             bounds: finder_bounds(curve, settings),
             radii: capture_radii(curve),
+            ramification: ramification(curve),
             states: Vec::new(),
             tried: Vec::new(),
             queue: Vec::new(),
@@ -370,7 +402,9 @@ impl<'a> WebFinder<'a> {
             bounds: self.bounds,
             cancel: self.cancel,
         };
-        let mut walls: Vec<Wall> = primary_seeds(self.curve, theta)
+        let mut seeds = primary_seeds(self.curve, theta);
+        seeds.extend(special_seeds(self.curve, theta).0);
+        let mut walls: Vec<Wall> = seeds
             .into_iter()
             .filter(|seed| {
                 matches!(seed.origin, Origin::BranchPoint { index, .. } if bps.contains(&index))
@@ -640,7 +674,7 @@ impl<'a> WebFinder<'a> {
                 Origin::Puncture { .. } | Origin::Joint { .. } => None,
             };
             for (to, bp) in self.curve.branch_points.iter().enumerate() {
-                if !bp.simple || own == Some(to) {
+                if self.ramification[to] == 0 || own == Some(to) {
                     continue;
                 }
                 let r = self.radii[to];
@@ -695,9 +729,7 @@ impl<'a> WebFinder<'a> {
                 pair
             }
         };
-        let tail = self
-            .quad
-            .to_branch_point(z_k, pair, self.curve.branch_points[to].z)?;
+        let tail = self.tail(z_k, pair, to)?;
         let w = Complex64::from_polar(wall.points[k].mass, theta) + tail;
         w.is_finite().then_some(Pass {
             wall: w_idx,
@@ -707,6 +739,14 @@ impl<'a> WebFinder<'a> {
             k,
             w,
         })
+    }
+
+    /// `int (y_i - y_j) dz` from `z0` straight into branch point `to`, when
+    /// the pair meets there.
+    fn tail(&self, z0: Complex64, pair: Pair, to: usize) -> Option<Complex64> {
+        let b = self.curve.branch_points.get(to)?.z;
+        self.quad
+            .to_special_point(z0, pair, b, self.ramification[to])
     }
 
     /// The wall's two sheets at `z`, whose labels are those of the wall's
@@ -918,6 +958,12 @@ impl<'a> WebFinder<'a> {
         if endpoints.len() < n_ends {
             problems.push("the web reaches one branch point twice".to_string());
         }
+        if endpoints.iter().any(|&e| self.ramification[e] > 2) {
+            problems.push(
+                "the web ends on a point where more than two sheets meet (its index is not the simple web's)"
+                    .to_string(),
+            );
+        }
         let mut z = Complex64::new(0.0, 0.0);
         let mut polylines = Vec::new();
         let mut lift = Vec::new();
@@ -944,10 +990,14 @@ impl<'a> WebFinder<'a> {
     /// One wall of a web as far as the web uses it (see [`WebEdge`]).
     fn edge(&self, wall: &Wall, end: EdgeEnd) -> Option<WebEdge> {
         let pts: Vec<Complex64> = wall.points.iter().map(|p| p.z).collect();
-        let primary = match wall.origin {
-            Origin::BranchPoint { index, .. } => Some(self.curve.branch_points.get(index)?.z),
+        let origin = match wall.origin {
+            Origin::BranchPoint { index, .. } => Some(index),
             Origin::Puncture { .. } => return None,
             Origin::Joint { .. } => None,
+        };
+        let primary = match origin {
+            Some(index) => Some(self.curve.branch_points.get(index)?.z),
+            None => None,
         };
         let first = usize::from(primary.is_some());
         let (last, end_z, draw_last) = match end {
@@ -976,16 +1026,14 @@ impl<'a> WebFinder<'a> {
         };
         let mut pair = self.labelled_pair(wall, first.min(last), start)?;
         let mut total = Complex64::new(0.0, 0.0);
-        if let Some(b) = primary {
-            total -= self.quad.to_branch_point(start, pair, b)?;
+        if let Some(index) = origin {
+            total -= self.tail(start, pair, index)?;
         }
         let (along, pair_end) = self.quad.polyline(&path, pair)?;
         total += along;
         pair = pair_end;
         if let EdgeEnd::Branch { to, .. } = end {
-            total +=
-                self.quad
-                    .to_branch_point(*path.last()?, pair, self.curve.branch_points[to].z)?;
+            total += self.tail(*path.last()?, pair, to)?;
         }
         let mut line: Vec<Complex64> = pts[..=draw_last.min(pts.len() - 1)].to_vec();
         match end {

@@ -808,3 +808,101 @@ fn pure_su3_weak_coupling_w_bosons_are_the_positive_roots() {
         assert!(step, "no two dyons differ by W {:?}", q[k]);
     }
 }
+
+/// `sqrt 3 |int_1^w (z^3 - 1)^(1/3) dz|` (w = e^(2 pi i / 3)), the saddle
+/// between two of the curve's points, by a quadrature of this test's own:
+/// z = 1 + (w - 1) t, each half of [0, 1] with t = s^3 (resp. 1 - t = s^3)
+/// towards its end, where the integrand vanishes like t^(1/3); the cube
+/// root followed by continuity out from the midpoint. The sheets differ by
+/// a factor 1 - w^k of modulus sqrt 3.
+fn cube_root_saddle() -> f64 {
+    let w = Complex64::from_polar(1.0, 2.0 * PI / 3.0);
+    let rule = gauss_legendre_unit(40);
+    let root_near = |z: Complex64, prev: Complex64| -> Complex64 {
+        let v = z * z * z - 1.0;
+        (0..3)
+            .map(|m| Complex64::from_polar(v.norm().cbrt(), (v.arg() + 2.0 * PI * m as f64) / 3.0))
+            .min_by(|a, b| (a - prev).norm().total_cmp(&(b - prev).norm()))
+            .unwrap()
+    };
+    let y_mid = root_near(1.0 + (w - 1.0) * 0.5, c(0.0, 0.0));
+    let big_s = 0.5f64.cbrt();
+    let mut sum = c(0.0, 0.0);
+    for toward_one in [false, true] {
+        let mut prev = y_mid;
+        for &(x, wt) in rule.iter().rev() {
+            let s = x * big_s;
+            let t = if toward_one {
+                1.0 - s * s * s
+            } else {
+                s * s * s
+            };
+            let y = root_near(1.0 + (w - 1.0) * t, prev);
+            prev = y;
+            // dt = 3 s^2 ds, ds = S dx.
+            sum += y * (3.0 * s * s * big_s * wt);
+        }
+    }
+    3f64.sqrt() * (sum * (w - 1.0)).norm()
+}
+
+/// The Z3-symmetric curve y^3 = z^3 - 1: all three branch points are points
+/// where the three sheets meet (y ~ (z - b)^(1/3)). Its webs end on them:
+/// the lightest states are the saddles between two of them, |Z| equal to
+/// the test's own quadrature of the segment's period, at phases multiples
+/// of pi/3 (the symmetry (z, y) -> (w z, w y) multiplies y dz by w^2); every
+/// state is charged, Z = its charge's periods, and the charges span the
+/// gauge lattice. Their index is not decided (warned).
+#[test]
+fn symmetric_cube_root_points_have_their_webs() {
+    let cv = crate::support::curve("y^3 = z^3 - 1");
+    let sp = spectrum(&cv, 8.0);
+    print("y^3 = z^3 - 1", &sp);
+    assert!(sp.states.len() >= 6, "{:?}", sp.warnings);
+    check_charges("y^3 = z^3 - 1", &sp);
+    let lightest = sp
+        .states
+        .iter()
+        .map(|s| s.abs)
+        .fold(f64::INFINITY, f64::min);
+    let expected = cube_root_saddle();
+    assert!(
+        (lightest - expected).abs() < 1e-8 * expected,
+        "lightest |Z| {lightest} vs quadrature {expected}"
+    );
+    let light: Vec<&BpsState> = sp
+        .states
+        .iter()
+        .filter(|s| (s.abs - expected).abs() < 1e-8 * expected)
+        .collect();
+    for k in 0..3 {
+        let phase = PI * k as f64 / 3.0;
+        assert!(
+            light.iter().any(|s| (s.phase - phase).abs() < 1e-8),
+            "no saddle at phase {phase}"
+        );
+    }
+    for s in &sp.states {
+        assert_eq!((s.kind, s.omega), (Kind::Other, None));
+    }
+    assert!(sp
+        .warnings
+        .iter()
+        .any(|w| w.contains("more than two sheets meet")));
+}
+
+/// The pure SU(3)-type curve at u = 0 (v = 0.5), where every branch point
+/// is a point where the three sheets meet: the same six states as near
+/// strong coupling (their charges span the rank-4 gauge lattice), found by
+/// webs ending on those points.
+#[test]
+fn pure_su3_at_u_zero_has_six_states() {
+    let cv = curve_with(
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        &[("u", c(0.0, 0.0)), ("v", c(0.5, 0.0))],
+    );
+    let sp = spectrum(&cv, 20.0);
+    print("pure SU(3) at u = 0", &sp);
+    assert_eq!(sp.states.len(), 6, "{:?}", sp.warnings);
+    check_charges("pure SU(3) at u = 0", &sp);
+}
