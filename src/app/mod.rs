@@ -1,18 +1,28 @@
 //! The window (feature "gui"): an eframe shell around [`WallflowerApp`],
-//! whose `ui` can also be driven without eframe (egui_kittest tests).
+//! whose `logic` and `ui` can also be driven without eframe (egui_kittest
+//! tests call both, in eframe's order).
 //!
-//! Code map:
-//! - `explorer`: the state, the frame, command handling (undo snapshots
-//!   are taken there), worker sync, files, title, screenshot.
-//! - `canvas`: plane <-> screen transform, grid, gestures, hit tests.
-//! - `paint`: the shared scene -> egui shapes (the painter adapter).
-//! - `panels`: file/export bar, curve editor, phase control, status bar.
-//! - `inspector`: walls and joints tables, jump matrix.
-//! - `spectrum_view`: the central-charge plane of the BPS states.
-//! - `param_map`: the parameter-plane view (a chamber map filled in the background).
-//! - `worker`: the background thread. `command`, `history`: edits and undo.
-//! - `files`: atomic saves, recovery file, recent list. `jump`: the
-//!   network's jump matrices, formatted for the inspector.
+//! Code map (each module imports only those above it in this list, so
+//! there are no circles):
+//! - `command`: the vocabulary (commands, selection, tools); `history`:
+//!   undo snapshots.
+//! - `document`: what is saved and undone, and how edits change it.
+//! - `worker`: background threads; `job`: one computation kept in step
+//!   with its input (generation, staleness, newest result).
+//! - `screen`: plane <-> screen transforms; `view_state`: what is shown
+//!   and the widgets' gesture state.
+//! - `files`: atomic saves, recovery file, recent list; `file_state`: the
+//!   document's file, dirty state and autosave.
+//! - `export`: export settings and figures; `param_map`: the
+//!   parameter-plane scan and its panel; `frame_stats`: frame timings.
+//! - `state`: [`WallflowerApp`], the parts above put together, and what
+//!   can be read off them.
+//! - `paint`: the shared scene -> egui shapes (the one painter adapter).
+//! - `canvas`, `panels`, `inspector` (with `spectrum_view`, the
+//!   central-charge plane; `jump`, matrix formatting): read the state,
+//!   return commands.
+//! - `handler`: applies commands (undo snapshots are taken there).
+//! - `explorer`: the frame (`logic`, then `ui`).
 //!
 //! A screenshot for tests and README pictures: `AppOptions::screenshot`,
 //! or the `WALLFLOWER_SCREENSHOT=FILE.png` environment variable read by
@@ -24,20 +34,30 @@
 
 mod canvas;
 pub mod command;
+pub mod document;
 mod explorer;
-mod export;
+pub mod export;
+pub mod file_state;
 pub mod files;
+pub mod frame_stats;
+mod handler;
 mod history;
 mod inspector;
+pub mod job;
 pub mod jump;
 mod paint;
 mod panels;
-mod param_map;
+pub mod param_map;
+pub mod screen;
 mod spectrum_view;
+pub mod state;
+pub mod view_state;
 mod worker;
 
-pub use canvas::{Hit, ScreenTransform};
-pub use explorer::{Tool, WallSort, WallflowerApp};
+pub use command::{Tool, WallSort};
+pub use screen::ScreenTransform;
+pub use state::WallflowerApp;
+pub use view_state::Hit;
 
 use anyhow::Context as _;
 use eframe::egui;
@@ -138,9 +158,13 @@ pub fn run_with(opts: AppOptions) -> anyhow::Result<()> {
 struct Shell(WallflowerApp);
 
 impl eframe::App for Shell {
-    fn ui(&mut self, ui: &mut egui::Ui, frame: &mut eframe::Frame) {
+    fn logic(&mut self, ctx: &egui::Context, frame: &mut eframe::Frame) {
         self.0.frame_stats.integration_frame_ms =
             frame.info().cpu_usage.map(|s| f64::from(s) * 1e3);
+        self.0.logic(ctx);
+    }
+
+    fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
         self.0.ui(ui);
     }
 }

@@ -3,10 +3,11 @@
 //! background thread computes the spectrum point by point (on one thread,
 //! so the network worker keeps a core); clicking sets the parameter, and
 //! the current value is marked. The map is recomputed when anything but
-//! the mapped parameter's value changes.
+//! the mapped parameter's value changes. [`ParamMap::tick`] (the frame's
+//! logic) starts and polls the scan; [`panel`] draws it and returns
+//! commands.
 
 use super::command::Command;
-use super::explorer::WallflowerApp;
 use super::paint::paint_layer;
 use crate::algebra::parse_equation;
 use crate::cancel::CancelToken;
@@ -67,9 +68,11 @@ pub struct ParamMap {
     pub param: Option<String>,
     /// Where the map is centred (set when a job starts; "Recentre" moves it).
     centre: Option<Complex64>,
+    /// Centre on the current value at the next tick.
+    pub recentre: bool,
     job: Option<MapJob>,
     /// Where the view was drawn in the last frame (for hit tests).
-    view_rect: Option<egui::Rect>,
+    pub view_rect: Option<egui::Rect>,
 }
 
 impl ParamMap {
@@ -177,76 +180,40 @@ fn start_job(scenario: &Scenario, param: &str, centre: Complex64, ctx: &egui::Co
     }
 }
 
-impl WallflowerApp {
-    /// The parameter-plane panel (right of the canvas), or its toggle.
-    pub(super) fn param_map_panel(&mut self, ui: &mut egui::Ui) {
-        let names = self.scenario.parameter_names();
-        if names.is_empty() {
-            self.param_map.job = None;
+impl ParamMap {
+    /// Keeps the scan in step with `scenario`: starts one when the map is
+    /// open and its key changed (or on "Recentre"), stops it when the map
+    /// is closed, and takes in the points computed since the last frame.
+    pub fn tick(&mut self, scenario: &Scenario, ctx: &egui::Context) {
+        let names = scenario.parameter_names();
+        if names.is_empty() || !self.open {
+            self.job = None; // cancels and joins the thread
             return;
         }
-        let ctx = ui.ctx().clone();
-        let mut open = self.param_map.open;
-        egui::Panel::right("param_map")
-            .resizable(false)
-            .show(ui, |ui| {
-                let label = if open {
-                    "Hide parameter map"
-                } else {
-                    "Parameter map"
-                };
-                if ui.button(label).clicked() {
-                    open = !open;
-                }
-                if open {
-                    self.param_map_contents(ui, &names, &ctx);
-                }
-            });
-        self.param_map.open = open;
-        if !open {
-            self.param_map.job = None;
-        }
-    }
-
-    fn param_map_contents(&mut self, ui: &mut egui::Ui, names: &[String], ctx: &egui::Context) {
-        let map = &mut self.param_map;
-        let mut param = map
+        let param = self
             .param
             .clone()
             .filter(|p| names.contains(p))
             .unwrap_or_else(|| names[0].clone());
-        if names.len() > 1 {
-            egui::ComboBox::from_label("parameter")
-                .selected_text(param.clone())
-                .show_ui(ui, |ui| {
-                    for n in names {
-                        ui.selectable_value(&mut param, n.clone(), n);
-                    }
-                });
-        }
-        map.param = Some(param.clone());
-        let value = self
-            .scenario
-            .params
-            .get(&param)
-            .map_or(Complex64::new(0.0, 0.0), |v| Complex64::new(v[0], v[1]));
-        let recentre = ui.button("Recentre on the current value").clicked();
-        let key = job_key(&self.scenario, &param);
-        let stale = map
+        self.param = Some(param.clone());
+        let value = param_value(scenario, &param);
+        let key = job_key(scenario, &param);
+        let stale = self
             .job
             .as_ref()
             .is_none_or(|j| j.key != key || j.param != param);
-        if stale || recentre {
-            let centre = if recentre || map.centre.is_none() || stale && map.job.is_none() {
+        if stale || self.recentre {
+            let centre = if self.recentre || self.centre.is_none() || stale && self.job.is_none() {
                 value
             } else {
-                map.centre.unwrap_or(value)
+                self.centre.unwrap_or(value)
             };
-            map.centre = Some(centre);
-            map.job = None; // cancels and joins the old thread
-            map.job = Some(start_job(&self.scenario, &param, centre, ctx));
+            self.centre = Some(centre);
+            self.job = None;
+            self.job = Some(start_job(scenario, &param, centre, ctx));
         }
-        let Some(job) = map.job.as_mut() else {
+        self.recentre = false;
+        let Some(job) = self.job.as_mut() else {
             return;
         };
         while let Ok(update) = job.rx.try_recv() {
@@ -261,47 +228,115 @@ impl WallflowerApp {
                 Update::Walls(w) => job.walls = w,
             }
         }
-        let (chambers, chamber_of) = chambers(&job.grid, &job.points);
-        let summary = MapSummary {
-            singular: job.singular.clone(),
-            walls: job.walls.clone(),
-            chambers,
-            chamber_of,
-            warnings: Vec::new(),
-        };
-        let mut opts = MapOptions::new(VIEW_PX, VIEW_PX, self.scenario.theme);
-        opts.param_name = param.clone();
-        opts.current = Some(value);
-        let scene = build_param_map(&job.grid, &summary, &opts);
-        let (rect, response) =
-            ui.allocate_exact_size(egui::vec2(VIEW_PX, VIEW_PX), egui::Sense::click());
-        map.view_rect = Some(rect);
-        let painter = ui.painter_at(rect);
-        for layer in &scene.layers {
-            paint_layer(&painter, layer, rect.min.to_vec2());
-        }
-        if response.clicked() {
-            if let Some(pos) = response.interact_pointer_pos() {
-                let t = map_transform(&job.grid, VIEW_PX, VIEW_PX);
-                let p = t.to_plane([pos.x - rect.min.x, pos.y - rect.min.y]);
-                self.commands
-                    .push(Command::SetParam(param.clone(), [p.re, p.im]));
-                self.commands.push(Command::EndInteraction);
-            }
-        }
-        let status = if job.filled < job.grid.len() {
-            format!("computing: {} of {} points", job.filled, job.grid.len())
-        } else if job.walls.is_empty() && job.singular.is_empty() {
-            format!("{} points", job.grid.len())
-        } else {
-            format!(
-                "{} points, {} wall(s), {} singular point(s)",
-                job.grid.len(),
-                job.walls.len(),
-                job.singular.len()
-            )
-        };
-        ui.label(status);
-        ui.label("Click to set the parameter.");
     }
+}
+
+fn param_value(scenario: &Scenario, param: &str) -> Complex64 {
+    scenario
+        .params
+        .get(param)
+        .map_or(Complex64::new(0.0, 0.0), |v| Complex64::new(v[0], v[1]))
+}
+
+/// The parameter-plane panel (right of the canvas), or its toggle; `None`
+/// when the curve has no parameters. Returns where the map was drawn.
+pub fn panel(
+    ui: &mut egui::Ui,
+    map: &ParamMap,
+    scenario: &Scenario,
+    out: &mut Vec<Command>,
+) -> Option<egui::Rect> {
+    let names = scenario.parameter_names();
+    if names.is_empty() {
+        return None;
+    }
+    let mut drawn = None;
+    egui::Panel::right("param_map")
+        .resizable(false)
+        .show(ui, |ui| {
+            let label = if map.open {
+                "Hide parameter map"
+            } else {
+                "Parameter map"
+            };
+            if ui.button(label).clicked() {
+                out.push(Command::ShowParamMap(!map.open));
+            }
+            if map.open {
+                drawn = contents(ui, map, &names, scenario, out);
+            }
+        });
+    drawn
+}
+
+fn contents(
+    ui: &mut egui::Ui,
+    map: &ParamMap,
+    names: &[String],
+    scenario: &Scenario,
+    out: &mut Vec<Command>,
+) -> Option<egui::Rect> {
+    let current = map
+        .param
+        .clone()
+        .filter(|p| names.contains(p))
+        .unwrap_or_else(|| names[0].clone());
+    if names.len() > 1 {
+        let mut param = current.clone();
+        egui::ComboBox::from_label("parameter")
+            .selected_text(param.clone())
+            .show_ui(ui, |ui| {
+                for n in names {
+                    ui.selectable_value(&mut param, n.clone(), n);
+                }
+            });
+        if param != current {
+            out.push(Command::SetMapParam(param));
+        }
+    }
+    if ui.button("Recentre on the current value").clicked() {
+        out.push(Command::RecentreMap);
+    }
+    let job = map.job.as_ref().filter(|j| j.param == current)?;
+    let (chambers, chamber_of) = chambers(&job.grid, &job.points);
+    let summary = MapSummary {
+        singular: job.singular.clone(),
+        walls: job.walls.clone(),
+        chambers,
+        chamber_of,
+        warnings: Vec::new(),
+    };
+    let mut opts = MapOptions::new(VIEW_PX, VIEW_PX, scenario.theme);
+    opts.param_name = current.clone();
+    opts.current = Some(param_value(scenario, &current));
+    let scene = build_param_map(&job.grid, &summary, &opts);
+    let (rect, response) =
+        ui.allocate_exact_size(egui::vec2(VIEW_PX, VIEW_PX), egui::Sense::click());
+    let painter = ui.painter_at(rect);
+    for layer in &scene.layers {
+        paint_layer(&painter, layer, rect.min.to_vec2());
+    }
+    if response.clicked() {
+        if let Some(pos) = response.interact_pointer_pos() {
+            let t = map_transform(&job.grid, VIEW_PX, VIEW_PX);
+            let p = t.to_plane([pos.x - rect.min.x, pos.y - rect.min.y]);
+            out.push(Command::SetParam(current.clone(), [p.re, p.im]));
+            out.push(Command::EndInteraction);
+        }
+    }
+    let status = if job.filled < job.grid.len() {
+        format!("computing: {} of {} points", job.filled, job.grid.len())
+    } else if job.walls.is_empty() && job.singular.is_empty() {
+        format!("{} points", job.grid.len())
+    } else {
+        format!(
+            "{} points, {} wall(s), {} singular point(s)",
+            job.grid.len(),
+            job.walls.len(),
+            job.singular.len()
+        )
+    };
+    ui.label(status);
+    ui.label("Click to set the parameter.");
+    Some(rect)
 }

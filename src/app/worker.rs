@@ -1,7 +1,8 @@
 //! Background workers: named threads own all engine work for the window
 //! (one for the network at the current phase, one for the BPS spectrum).
-//! The UI sends `(generation, scenario snapshot)` jobs and never waits; it
-//! polls finished results once per frame.
+//! The app sends `(generation, input snapshot)` requests and never waits;
+//! it polls finished results once per frame (see [`super::job::Job`],
+//! which keeps the bookkeeping).
 //!
 //! Stale work is cancelled through the job's [`CancelToken`], which the
 //! integrator checks inside its loops. When several jobs are queued the
@@ -18,10 +19,10 @@ use std::sync::{Arc, Mutex};
 use std::thread::JoinHandle;
 use std::time::Instant;
 
-/// A request for the network of one scenario.
-pub struct Job {
+/// A request: compute the answer for one input.
+pub struct Request<I> {
     pub generation: u64,
-    pub scenario: Scenario,
+    pub input: I,
     pub cancel: CancelToken,
 }
 
@@ -41,13 +42,13 @@ pub struct JobResult<T> {
     pub compute_ms: f64,
 }
 
-/// The work a worker does for one scenario.
-pub type ComputeFn<T> = fn(&Scenario, &CancelToken) -> Result<Arc<T>, String>;
+/// The work a worker does for one input.
+pub type ComputeFn<I, T> = fn(&I, &CancelToken) -> Result<Arc<T>, String>;
 
 /// Handle to the worker thread. Dropping it cancels the running job,
 /// closes the channel and joins the thread.
-pub struct Worker<T> {
-    jobs: Option<Sender<Job>>,
+pub struct Worker<T, I = Scenario> {
+    jobs: Option<Sender<Request<I>>>,
     results: Receiver<JobResult<T>>,
     thread: Option<JoinHandle<()>>,
     /// The context to wake when a result is ready; set on the first frame
@@ -56,10 +57,10 @@ pub struct Worker<T> {
     in_flight: Option<CancelToken>,
 }
 
-impl<T: Send + Sync + 'static> Worker<T> {
-    /// A thread named `name` that runs `compute` on each job.
-    pub fn spawn(name: &str, compute: ComputeFn<T>) -> Self {
-        let (job_tx, job_rx) = mpsc::channel::<Job>();
+impl<T: Send + Sync + 'static, I: Send + 'static> Worker<T, I> {
+    /// A thread named `name` that runs `compute` on each request.
+    pub fn spawn(name: &str, compute: ComputeFn<I, T>) -> Self {
+        let (job_tx, job_rx) = mpsc::channel::<Request<I>>();
         let (res_tx, res_rx) = mpsc::channel::<JobResult<T>>();
         let repaint: Arc<Mutex<Option<egui::Context>>> = Arc::new(Mutex::new(None));
         let repaint_in_thread = Arc::clone(&repaint);
@@ -87,7 +88,7 @@ impl<T: Send + Sync + 'static> Worker<T> {
 
     /// Queues a job; with `cancel_running` the job being computed (if any)
     /// is told to stop, because its answer is no longer wanted.
-    pub fn submit(&mut self, generation: u64, scenario: Scenario, cancel_running: bool) {
+    pub fn submit(&mut self, generation: u64, input: I, cancel_running: bool) {
         if cancel_running {
             if let Some(token) = self.in_flight.take() {
                 token.cancel();
@@ -98,9 +99,9 @@ impl<T: Send + Sync + 'static> Worker<T> {
         if let Some(tx) = &self.jobs {
             // A send error means the thread is gone; the status bar then
             // keeps saying "computing", which is the honest answer.
-            let _ = tx.send(Job {
+            let _ = tx.send(Request {
                 generation,
-                scenario,
+                input,
                 cancel,
             });
         }
@@ -116,7 +117,7 @@ impl<T: Send + Sync + 'static> Worker<T> {
     }
 }
 
-impl<T> Drop for Worker<T> {
+impl<T, I> Drop for Worker<T, I> {
     fn drop(&mut self) {
         if let Some(token) = self.in_flight.take() {
             token.cancel();
@@ -128,11 +129,11 @@ impl<T> Drop for Worker<T> {
     }
 }
 
-fn worker_loop<T>(
-    jobs: &Receiver<Job>,
+fn worker_loop<T, I>(
+    jobs: &Receiver<Request<I>>,
     results: &Sender<JobResult<T>>,
     repaint: &Arc<Mutex<Option<egui::Context>>>,
-    compute: ComputeFn<T>,
+    compute: ComputeFn<I, T>,
 ) {
     while let Ok(mut job) = jobs.recv() {
         // Skip to the newest queued job: older ones are stale.
@@ -146,7 +147,7 @@ fn worker_loop<T>(
         // An engine panic must not leave the window saying "computing"
         // forever: it becomes an error message and the thread lives on.
         let outcome = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
-            compute(&job.scenario, &job.cancel)
+            compute(&job.input, &job.cancel)
         }))
         .unwrap_or_else(|payload| {
             let why = payload

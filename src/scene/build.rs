@@ -88,6 +88,8 @@ mod size {
     pub const WALL: f32 = 1.8;
     pub const WALL_HIGHLIGHT: f32 = 4.0;
     pub const WEB: f32 = 8.0;
+    /// The halo under the selected wall.
+    pub const HALO: f32 = 7.0;
     pub const CUT: f32 = 1.0;
     pub const GRID: f32 = 1.0;
     pub const AXIS: f32 = 1.2;
@@ -192,7 +194,7 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
             Vec::new()
         },
     );
-    push(layer_names::WEB, web(opts, &clip, s));
+    push(layer_names::WEB, highlights(net, opts, &colors, &clip, s));
     let runs = wall_runs(curve, net, opts, &clip, s);
     let mut wall_shapes: Vec<Shape> = Vec::new();
     let mut highlighted: Vec<Shape> = Vec::new();
@@ -232,13 +234,7 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
         .iter()
         .enumerate()
         .filter_map(|(idx, j)| {
-            on_screen(j.z).map(|center| Shape::Circle {
-                center,
-                radius: size::JOINT_RADIUS * s,
-                fill: Some(colors.background),
-                stroke: Some((size::JOINT_STROKE * s, colors.foreground)),
-                item: Item::Joint(idx),
-            })
+            on_screen(j.z).map(|c| marker(Marker::Joint, c, &colors, s, Item::Joint(idx)))
         })
         .collect();
     let mut punctures: Vec<Shape> = Vec::new();
@@ -247,14 +243,13 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
             continue;
         };
         let half = size::PUNCTURE_HALF * s;
-        punctures.push(Shape::Square {
+        punctures.push(marker(
+            Marker::Puncture,
             center,
-            half,
-            fill: Some(colors.background),
-            stroke: Some((size::PUNCTURE_STROKE * s, colors.foreground)),
-            diamond: false,
-            item: Item::Puncture(idx),
-        });
+            &colors,
+            s,
+            Item::Puncture(idx),
+        ));
         punctures.push(Shape::Text {
             pos: [center[0] + half + 2.0 * s, center[1] - half - 1.0 * s],
             text: p.order.to_string(),
@@ -268,29 +263,24 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
         let Some(center) = on_screen(bp.z) else {
             continue;
         };
-        branch_points.push(if bp.simple {
-            Shape::Circle {
-                center,
-                radius: size::BRANCH_RADIUS * s,
-                fill: Some(colors.foreground),
-                stroke: Some((1.0 * s, colors.background)),
-                item: Item::BranchPoint(idx),
-            }
+        let kind = if bp.simple {
+            Marker::BranchPoint
         } else {
-            Shape::Circle {
-                center,
-                radius: size::RING_RADIUS * s,
-                fill: Some(colors.background),
-                stroke: Some((size::RING_STROKE * s, colors.foreground)),
-                item: Item::BranchPoint(idx),
-            }
-        });
+            Marker::NonSimpleBranchPoint
+        };
+        branch_points.push(marker(kind, center, &colors, s, Item::BranchPoint(idx)));
     }
     // Singular points of the curve, drawn from their resolution: an open
     // diamond where the split points sit.
     for r in &curve.resolutions {
         if let Some(center) = on_screen(r.z) {
-            branch_points.push(singular_marker(center, &colors, s));
+            branch_points.push(marker(
+                Marker::SingularPoint,
+                center,
+                &colors,
+                s,
+                Item::Decoration,
+            ));
         }
     }
     let legend = if opts.legend {
@@ -354,37 +344,68 @@ struct Run {
     pieces: Vec<Vec<[f64; 2]>>,
 }
 
-/// Okabe-Ito orange at 60% opacity, the window's selection colour.
-const WEB_COLOR: Rgba = Rgba([0xE6, 0x9F, 0x00, 150]);
-
-/// The highlighted web: wide translucent orange (the window's selection
-/// colour) under the walls, so that the walls along it stay readable.
-fn web(opts: &SceneOptions, clip: &ClipRect, s: f32) -> Vec<Shape> {
-    let t = &opts.transform;
+/// The highlights under the walls: the selected BPS state's web, wide in
+/// the translucent selection colour, and a faint halo along the selected
+/// wall, so that the walls along them stay readable.
+fn highlights(
+    net: &Network,
+    opts: &SceneOptions,
+    colors: &ThemeColors,
+    clip: &ClipRect,
+    s: f32,
+) -> Vec<Shape> {
+    let halo = opts.highlight.and_then(|i| net.walls.get(i)).map(|w| {
+        (
+            w.points.iter().map(|p| p.z).collect::<Vec<_>>(),
+            size::HALO,
+            colors.halo,
+        )
+    });
+    let webs = opts
+        .web
+        .iter()
+        .map(|line| (line.clone(), size::WEB, colors.web));
     let mut shapes = Vec::new();
-    for line in &opts.web {
-        let screen: Vec<[f64; 2]> = line
-            .iter()
-            .filter(|z| z.is_finite())
-            .map(|z| {
-                let q = t.to_screen(*z);
-                [f64::from(q[0]), f64::from(q[1])]
-            })
-            .collect();
-        for piece in clip_polyline(&screen, clip) {
-            let piece = thin(&piece, size::THIN_STEP);
-            if piece.len() >= 2 {
-                shapes.push(Shape::Polyline {
-                    points: piece.iter().map(|p| [p[0] as f32, p[1] as f32]).collect(),
-                    width: size::WEB * s,
-                    color: WEB_COLOR,
-                    dashed: false,
-                    item: Item::Decoration,
-                });
-            }
-        }
+    for (line, width, color) in webs.chain(halo) {
+        shapes.extend(plane_polyline(
+            &line,
+            &opts.transform,
+            clip,
+            width * s,
+            color,
+        ));
     }
     shapes
+}
+
+/// A polyline of the plane as clipped, thinned pieces in pixels.
+pub(super) fn plane_polyline(
+    line: &[Complex64],
+    t: &Transform,
+    clip: &ClipRect,
+    width: f32,
+    color: Rgba,
+) -> Vec<Shape> {
+    let screen: Vec<[f64; 2]> = line
+        .iter()
+        .filter(|z| z.is_finite())
+        .map(|z| {
+            let q = t.to_screen(*z);
+            [f64::from(q[0]), f64::from(q[1])]
+        })
+        .collect();
+    clip_polyline(&screen, clip)
+        .iter()
+        .map(|piece| thin(piece, size::THIN_STEP))
+        .filter(|piece| piece.len() >= 2)
+        .map(|piece| Shape::Polyline {
+            points: piece.iter().map(|p| [p[0] as f32, p[1] as f32]).collect(),
+            width,
+            color,
+            dashed: false,
+            item: Item::Decoration,
+        })
+        .collect()
 }
 
 /// Splits every wall where its type changes (at a cut; the cut point is
@@ -623,16 +644,58 @@ fn cuts(curve: &Curve, t: &Transform, colors: &ThemeColors, s: f32, margin: f64)
     shapes
 }
 
-/// The marker of a singular point of the curve: an open diamond around the
-/// points it was split into.
-fn singular_marker(center: [f32; 2], colors: &ThemeColors, s: f32) -> Shape {
-    Shape::Square {
+/// The kinds of point markers, on the canvas and in the legend.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Marker {
+    /// A simple branch point: a filled dot.
+    BranchPoint,
+    /// A branch point where more sheets meet or the order is higher: a ring.
+    NonSimpleBranchPoint,
+    /// A singular point of the curve: an open diamond around the points it
+    /// was split into.
+    SingularPoint,
+    /// An open square.
+    Puncture,
+    /// A small ring.
+    Joint,
+}
+
+/// The one marker function: the shape of a `kind` marker at `center`, at
+/// size factor `s`, standing for `item`.
+pub fn marker(kind: Marker, center: [f32; 2], colors: &ThemeColors, s: f32, item: Item) -> Shape {
+    let ring = |radius: f32, stroke: f32| Shape::Circle {
         center,
-        half: 1.6 * size::RING_RADIUS * s,
-        fill: None,
-        stroke: Some((size::RING_STROKE * s, colors.foreground)),
-        diamond: true,
-        item: Item::Decoration,
+        radius: radius * s,
+        fill: Some(colors.background),
+        stroke: Some((stroke * s, colors.foreground)),
+        item,
+    };
+    match kind {
+        Marker::BranchPoint => Shape::Circle {
+            center,
+            radius: size::BRANCH_RADIUS * s,
+            fill: Some(colors.foreground),
+            stroke: Some((1.0 * s, colors.background)),
+            item,
+        },
+        Marker::NonSimpleBranchPoint => ring(size::RING_RADIUS, size::RING_STROKE),
+        Marker::Joint => ring(size::JOINT_RADIUS, size::JOINT_STROKE),
+        Marker::SingularPoint => Shape::Square {
+            center,
+            half: 1.6 * size::RING_RADIUS * s,
+            fill: None,
+            stroke: Some((size::RING_STROKE * s, colors.foreground)),
+            diamond: true,
+            item,
+        },
+        Marker::Puncture => Shape::Square {
+            center,
+            half: size::PUNCTURE_HALF * s,
+            fill: Some(colors.background),
+            stroke: Some((size::PUNCTURE_STROKE * s, colors.foreground)),
+            diamond: false,
+            item,
+        },
     }
 }
 
@@ -723,7 +786,7 @@ fn legend(
     enum Row {
         Wall(WallType),
         Web,
-        Marker(Shape, &'static str),
+        Marker(Marker, &'static str),
     }
     let mut rows: Vec<Row> = kinds.values().map(|k| Row::Wall(*k)).collect();
     if opts.web.iter().any(|line| line.len() >= 2) {
@@ -734,61 +797,25 @@ fn legend(
     let pad = 0.7 * text_size;
     let sample = 2.0 * text_size;
     let gap = 0.5 * text_size;
-    let placeholder = [0.0, 0.0];
-    if markers.simple_branch {
-        rows.push(Row::Marker(
-            Shape::Circle {
-                center: placeholder,
-                radius: size::BRANCH_RADIUS * s,
-                fill: Some(colors.foreground),
-                stroke: None,
-                item: Item::Decoration,
-            },
-            "branch point",
-        ));
-    }
-    if markers.other_branch {
-        rows.push(Row::Marker(
-            Shape::Circle {
-                center: placeholder,
-                radius: size::RING_RADIUS * s,
-                fill: Some(colors.background),
-                stroke: Some((size::RING_STROKE * s, colors.foreground)),
-                item: Item::Decoration,
-            },
+    let shown = [
+        (markers.simple_branch, Marker::BranchPoint, "branch point"),
+        (
+            markers.other_branch,
+            Marker::NonSimpleBranchPoint,
             "branch point, not simple",
-        ));
-    }
-    if markers.singular {
-        rows.push(Row::Marker(
-            singular_marker(placeholder, colors, s),
+        ),
+        (
+            markers.singular,
+            Marker::SingularPoint,
             "singular point (drawn resolved)",
-        ));
-    }
-    if markers.puncture {
-        rows.push(Row::Marker(
-            Shape::Square {
-                center: placeholder,
-                half: size::PUNCTURE_HALF * s,
-                fill: Some(colors.background),
-                stroke: Some((size::PUNCTURE_STROKE * s, colors.foreground)),
-                diamond: false,
-                item: Item::Decoration,
-            },
-            "puncture (pole order)",
-        ));
-    }
-    if markers.joint {
-        rows.push(Row::Marker(
-            Shape::Circle {
-                center: placeholder,
-                radius: size::JOINT_RADIUS * s,
-                fill: Some(colors.background),
-                stroke: Some((size::JOINT_STROKE * s, colors.foreground)),
-                item: Item::Decoration,
-            },
-            "joint",
-        ));
+        ),
+        (markers.puncture, Marker::Puncture, "puncture (pole order)"),
+        (markers.joint, Marker::Joint, "joint"),
+    ];
+    for (visible, kind, text) in shown {
+        if visible {
+            rows.push(Row::Marker(kind, text));
+        }
     }
     if rows.is_empty() {
         return Vec::new();
@@ -828,18 +855,13 @@ fn legend(
             Row::Web => shapes.push(Shape::Polyline {
                 points: vec![[x0, mid_y], [x0 + sample, mid_y]],
                 width: size::WEB * s,
-                color: WEB_COLOR,
+                color: colors.web,
                 dashed: false,
                 item: Item::Decoration,
             }),
-            Row::Marker(shape, _) => {
+            Row::Marker(kind, _) => {
                 let c = [x0 + sample / 2.0, mid_y];
-                let mut shape = shape.clone();
-                match &mut shape {
-                    Shape::Circle { center, .. } | Shape::Square { center, .. } => *center = c,
-                    _ => {}
-                }
-                shapes.push(shape);
+                shapes.push(marker(*kind, c, colors, s, Item::Decoration));
             }
         }
         shapes.push(Shape::Text {

@@ -85,8 +85,8 @@ pub fn wall_dashed(kind: WallType, rank: usize) -> bool {
 /// The colour of a BPS state of `kind` in the central-charge plane:
 /// bluish green for hypermultiplets, reddish purple for vector multiplets,
 /// the foreground colour for states of unknown index (their diamond marker
-/// tells them apart as well). Orange stays free for the selection, which
-/// the canvas highlights in orange too.
+/// tells them apart as well). Orange stays free for the selection
+/// ([`ThemeColors::selection`]).
 pub fn state_color(kind: Kind, theme: Theme) -> Rgba {
     match kind {
         Kind::Hyper => Rgba::rgb(0x00, 0x9E, 0x73),
@@ -112,6 +112,24 @@ pub struct ThemeColors {
     /// The legend's box.
     pub legend_fill: Rgba,
     pub legend_stroke: Rgba,
+    /// What is selected: a BPS state's ring in the central-charge plane.
+    pub selection: Rgba,
+    /// The selected state's web on the canvas: the selection colour,
+    /// translucent, so that the walls along it stay readable.
+    pub web: Rgba,
+    /// The halo under the selected wall: the foreground, faint.
+    pub halo: Rgba,
+    /// Ticks at the critical phases on the phase slider.
+    pub critical_phase: Rgba,
+}
+
+/// Okabe-Ito orange: the selection on both themes.
+const ORANGE: Rgba = Rgba::rgb(0xE6, 0x9F, 0x00);
+/// Okabe-Ito vermillion.
+const VERMILLION: Rgba = Rgba::rgb(0xD5, 0x5E, 0x00);
+
+const fn with_alpha(c: Rgba, alpha: u8) -> Rgba {
+    Rgba([c.0[0], c.0[1], c.0[2], alpha])
 }
 
 /// Neutral colours for `theme`.
@@ -126,6 +144,10 @@ pub fn theme_colors(theme: Theme) -> ThemeColors {
             foreground: Rgba::rgb(0x00, 0x00, 0x00),
             legend_fill: Rgba([0xFF, 0xFF, 0xFF, 0xE6]),
             legend_stroke: Rgba::rgb(0xC8, 0xC8, 0xC8),
+            selection: ORANGE,
+            web: with_alpha(ORANGE, 150),
+            halo: Rgba([0x00, 0x00, 0x00, 50]),
+            critical_phase: VERMILLION,
         },
         Theme::Projector => ThemeColors {
             background: Rgba::rgb(0x15, 0x17, 0x1C),
@@ -136,6 +158,10 @@ pub fn theme_colors(theme: Theme) -> ThemeColors {
             foreground: Rgba::rgb(0xF2, 0xF2, 0xF2),
             legend_fill: Rgba([0x15, 0x17, 0x1C, 0xE6]),
             legend_stroke: Rgba::rgb(0x44, 0x49, 0x54),
+            selection: ORANGE,
+            web: with_alpha(ORANGE, 150),
+            halo: Rgba([0xF2, 0xF2, 0xF2, 50]),
+            critical_phase: VERMILLION,
         },
     }
 }
@@ -170,6 +196,16 @@ mod tests {
             wall_color(WallType::new(1, 0), 2, Theme::Paper),
             Rgba::rgb(0xD5, 0x5E, 0x00)
         );
+    }
+
+    #[test]
+    fn the_halo_is_the_foreground_made_faint() {
+        for theme in [Theme::Paper, Theme::Projector] {
+            let c = theme_colors(theme);
+            assert_eq!(c.halo.0[..3], c.foreground.0[..3]);
+            assert!(c.halo.opacity() < 0.25);
+            assert_eq!(c.web.0[..3], c.selection.0[..3]);
+        }
     }
 
     #[test]
