@@ -12,9 +12,11 @@ use super::file_state::{FileState, AUTOSAVE_AFTER};
 use super::files::{self, StateDir};
 use super::frame_stats::FrameStats;
 use super::job::{Job, Polled};
+use super::options::AppOptions;
+use super::screenshot::save_color_image;
 use super::state::{ScreenshotJob, WallflowerApp, LIVE_SPECTRUM_MS};
 use super::view_state::{DragState, Interaction, ViewState};
-use super::{canvas, inspector, panels, param_map, worker, AppOptions};
+use super::{canvas, inspector, panels, param_map, worker};
 use crate::scenario::Scenario;
 use crate::scene::{Theme, View};
 use eframe::egui;
@@ -329,7 +331,7 @@ impl WallflowerApp {
             let done = Arc::clone(&job.done);
             let ctx2 = ctx.clone();
             ctx.request_screenshot(move |img| {
-                let r = super::save_color_image(&img, &path).map_err(|e| format!("{e:#}"));
+                let r = save_color_image(&img, &path).map_err(|e| format!("{e:#}"));
                 if let Ok(mut d) = done.lock() {
                     *d = Some(r);
                 }

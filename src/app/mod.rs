@@ -2,10 +2,12 @@
 //! whose `logic` and `ui` can also be driven without eframe (egui_kittest
 //! tests call both, in eframe's order).
 //!
-//! Code map (each module imports only those above it in this list, so
-//! there are no circles):
+//! Code map, bottom up: each module imports only modules above it in
+//! this list, so there are no circles (`tests/gui/architecture.rs`
+//! checks it).
 //! - `command`: the vocabulary (commands, selection, tools); `history`:
-//!   undo snapshots.
+//!   undo snapshots; `options`: how to start the window; `screenshot`:
+//!   the window's own frame as a PNG.
 //! - `document`: what is saved and undone, and how edits change it.
 //! - `worker`: background threads; `job`: one computation kept in step
 //!   with its input (generation, staleness, newest result).
@@ -13,14 +15,14 @@
 //!   and the widgets' gesture state.
 //! - `files`: atomic saves, recovery file, recent list; `file_state`: the
 //!   document's file, dirty state and autosave.
+//! - `paint`: the shared scene -> egui shapes (the one painter adapter).
 //! - `export`: export settings and figures; `param_map`: the
-//!   parameter-plane scan and its panel; `frame_stats`: frame timings.
+//!   parameter-plane scan and its panel; `frame_stats`: frame timings;
+//!   `jump`: matrix formatting.
 //! - `state`: [`WallflowerApp`], the parts above put together, and what
 //!   can be read off them.
-//! - `paint`: the shared scene -> egui shapes (the one painter adapter).
-//! - `canvas`, `panels`, `inspector` (with `spectrum_view`, the
-//!   central-charge plane; `jump`, matrix formatting): read the state,
-//!   return commands.
+//! - `canvas`, `panels`, `spectrum_view` (the central-charge plane),
+//!   `inspector`: read the state, return commands.
 //! - `handler`: applies commands (undo snapshots are taken there).
 //! - `explorer`: the frame (`logic`, then `ui`).
 //!
@@ -45,45 +47,26 @@ mod history;
 mod inspector;
 pub mod job;
 pub mod jump;
+mod options;
 mod paint;
 mod panels;
 pub mod param_map;
 pub mod screen;
+mod screenshot;
 mod spectrum_view;
 pub mod state;
 pub mod view_state;
 mod worker;
 
 pub use command::{Tool, WallSort};
+pub use options::AppOptions;
 pub use screen::ScreenTransform;
+pub use screenshot::save_color_image;
 pub use state::WallflowerApp;
 pub use view_state::Hit;
 
-use anyhow::Context as _;
 use eframe::egui;
-use std::path::{Path, PathBuf};
-
-/// How to start the window.
-#[derive(Clone, Debug, Default)]
-pub struct AppOptions {
-    /// A scenario file to open; `None` opens the embedded default.
-    pub scenario: Option<PathBuf>,
-    /// Save the window's own frame here once the first network is shown,
-    /// then close.
-    pub screenshot: Option<PathBuf>,
-    /// Keep a recent-files list and a recovery file in the state directory
-    /// (off in tests).
-    pub persist: bool,
-    /// Where to keep them; `None` picks [`files::StateDir::default_location`].
-    pub state_dir: Option<PathBuf>,
-    /// Autosave unsaved edits this long after the last one (default 3 s).
-    pub autosave_after: Option<std::time::Duration>,
-    /// Inner window size in points; default 1500 x 920.
-    pub size: Option<[f32; 2]>,
-    /// Commands applied once the first network is shown, through the same
-    /// path as the widgets' (see [`command::parse_script`]).
-    pub script: Vec<command::Command>,
-}
+use std::path::PathBuf;
 
 /// Opens the window on `scenario` (a file) or on the embedded default.
 /// `WALLFLOWER_SCREENSHOT=FILE.png` saves a screenshot and exits.
@@ -177,21 +160,4 @@ impl Drop for Shell {
             eprintln!("wallflower: {}", self.0.frame_stats.drag_summary());
         }
     }
-}
-
-/// Writes an egui screenshot as PNG.
-pub fn save_color_image(img: &egui::ColorImage, path: &Path) -> anyhow::Result<()> {
-    let [w, h] = img.size;
-    let mut data = Vec::with_capacity(w * h * 4);
-    for c in &img.pixels {
-        // Window frames are opaque, so straight and premultiplied agree.
-        data.extend_from_slice(&[c.r(), c.g(), c.b(), 255]);
-    }
-    let size = resvg::tiny_skia::IntSize::from_wh(w as u32, h as u32)
-        .context("the screenshot is empty")?;
-    let pixmap = resvg::tiny_skia::Pixmap::from_vec(data, size)
-        .context("could not wrap the screenshot pixels")?;
-    pixmap
-        .save_png(path)
-        .with_context(|| format!("could not write {}", path.display()))
 }

@@ -1,8 +1,8 @@
 //! Background workers: named threads own all engine work for the window
 //! (one for the network at the current phase, one for the BPS spectrum).
 //! The app sends `(generation, input snapshot)` requests and never waits;
-//! it polls finished results once per frame (see [`super::job::Job`],
-//! which keeps the bookkeeping).
+//! it polls finished results once per frame (`job.rs` keeps the
+//! bookkeeping).
 //!
 //! Stale work is cancelled through the job's [`CancelToken`], which the
 //! integrator checks inside its loops. When several jobs are queued the
