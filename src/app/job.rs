@@ -2,10 +2,10 @@
 //! thread, the generation counter that tells stale answers from fresh ones,
 //! the cancel token of the running request (inside the worker), the newest
 //! result, and whether that result belongs to the current input. The
-//! network and the spectrum are both a `Job`; anything else computed from a
-//! snapshot of the state (a parameter scan) can be one too.
+//! network and the spectrum are both a `Job`, and so is the parameter
+//! map's scan, whose points arrive as partial results.
 
-use super::worker::{ComputeFn, Worker};
+use super::worker::{ComputeFn, Message, Worker};
 use crate::scenario::Scenario;
 use eframe::egui;
 use std::sync::Arc;
@@ -25,8 +25,8 @@ pub enum Polled {
     Error,
 }
 
-pub struct Job<T, I = Scenario> {
-    worker: Worker<T, I>,
+pub struct Job<T, I = Scenario, P = ()> {
+    worker: Worker<T, I, P>,
     /// Generation of the newest request sent.
     generation: u64,
     /// Generation of the newest answer received (value or error).
@@ -41,9 +41,14 @@ pub struct Job<T, I = Scenario> {
     pub last_ms: f64,
 }
 
-impl<T: Send + Sync + 'static, I: Clone + PartialEq + Send + 'static> Job<T, I> {
+impl<T, I, P> Job<T, I, P>
+where
+    T: Send + Sync + 'static,
+    I: Clone + PartialEq + Send + 'static,
+    P: Send + 'static,
+{
     /// A job whose worker thread is called `name`.
-    pub fn new(name: &str, compute: ComputeFn<I, T>) -> Self {
+    pub fn new(name: &str, compute: ComputeFn<I, T, P>) -> Self {
         Self {
             worker: Worker::spawn(name, compute),
             generation: 0,
@@ -92,8 +97,23 @@ impl<T: Send + Sync + 'static, I: Clone + PartialEq + Send + 'static> Job<T, I> 
     /// Takes in the answers that arrived; older generations than one
     /// already received are dropped.
     pub fn poll(&mut self) -> Polled {
+        self.poll_with(|_| {})
+    }
+
+    /// [`Self::poll`], handing the partial results of the newest request
+    /// to `progress` (those of older requests are dropped).
+    pub fn poll_with(&mut self, mut progress: impl FnMut(P)) -> Polled {
         let mut out = Polled::Nothing;
-        for r in self.worker.poll() {
+        for message in self.worker.poll() {
+            let r = match message {
+                Message::Progress(generation, p) => {
+                    if generation == self.generation {
+                        progress(p);
+                    }
+                    continue;
+                }
+                Message::Done(r) => r,
+            };
             if r.generation < self.received {
                 continue;
             }
@@ -122,14 +142,37 @@ impl<T: Send + Sync + 'static, I: Clone + PartialEq + Send + 'static> Job<T, I> 
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::app::worker::ProgressFn;
     use crate::cancel::CancelToken;
     use std::time::{Duration, Instant};
 
-    fn square(x: &i64, _: &CancelToken) -> Result<Arc<i64>, String> {
+    fn square(x: &i64, _: &CancelToken, _: ProgressFn<'_, ()>) -> Result<Arc<i64>, String> {
         if *x < 0 {
             return Err(format!("{x} is negative"));
         }
         Ok(Arc::new(x * x))
+    }
+
+    /// Counts up to `n`, sending each number on the way.
+    fn count(n: &u32, _: &CancelToken, progress: ProgressFn<'_, u32>) -> Result<Arc<u32>, String> {
+        for k in 1..=*n {
+            progress(k);
+        }
+        Ok(Arc::new(*n))
+    }
+
+    #[test]
+    fn partial_results_of_the_newest_request_arrive_in_order() {
+        let mut job: Job<u32, u32, u32> = Job::new("test-count", count);
+        job.submit(4, true);
+        let mut seen = Vec::new();
+        let start = Instant::now();
+        while job.poll_with(|k| seen.push(k)) != Polled::Value {
+            assert!(start.elapsed() < Duration::from_secs(10), "no answer");
+            std::thread::sleep(Duration::from_millis(1));
+        }
+        assert_eq!(seen, vec![1, 2, 3, 4]);
+        assert_eq!(job.value().map(|v| **v), Some(4));
     }
 
     fn wait(job: &mut Job<i64, i64>) -> Polled {

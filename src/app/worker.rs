@@ -6,7 +6,8 @@
 //!
 //! Stale work is cancelled through the job's [`CancelToken`], which the
 //! integrator checks inside its loops. When several jobs are queued the
-//! worker skips to the newest one.
+//! worker skips to the newest one. A long computation may send partial
+//! results on the way (the chamber map's points).
 
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
@@ -42,14 +43,26 @@ pub struct JobResult<T> {
     pub compute_ms: f64,
 }
 
+/// What a worker sends back: partial results of a running request, then
+/// its answer.
+pub enum Message<T, P> {
+    Progress(u64, P),
+    Done(JobResult<T>),
+}
+
+/// Hands partial results of the running request to the app (a chamber
+/// map fills in point by point); `false` once nobody listens.
+pub type ProgressFn<'a, P> = &'a mut dyn FnMut(P) -> bool;
+
 /// The work a worker does for one input.
-pub type ComputeFn<I, T> = fn(&I, &CancelToken) -> Result<Arc<T>, String>;
+pub type ComputeFn<I, T, P = ()> =
+    fn(&I, &CancelToken, ProgressFn<'_, P>) -> Result<Arc<T>, String>;
 
 /// Handle to the worker thread. Dropping it cancels the running job,
 /// closes the channel and joins the thread.
-pub struct Worker<T, I = Scenario> {
+pub struct Worker<T, I = Scenario, P = ()> {
     jobs: Option<Sender<Request<I>>>,
-    results: Receiver<JobResult<T>>,
+    results: Receiver<Message<T, P>>,
     thread: Option<JoinHandle<()>>,
     /// The context to wake when a result is ready; set on the first frame
     /// (the app is built before the window's context exists in tests).
@@ -57,11 +70,11 @@ pub struct Worker<T, I = Scenario> {
     in_flight: Option<CancelToken>,
 }
 
-impl<T: Send + Sync + 'static, I: Send + 'static> Worker<T, I> {
+impl<T: Send + Sync + 'static, I: Send + 'static, P: Send + 'static> Worker<T, I, P> {
     /// A thread named `name` that runs `compute` on each request.
-    pub fn spawn(name: &str, compute: ComputeFn<I, T>) -> Self {
+    pub fn spawn(name: &str, compute: ComputeFn<I, T, P>) -> Self {
         let (job_tx, job_rx) = mpsc::channel::<Request<I>>();
-        let (res_tx, res_rx) = mpsc::channel::<JobResult<T>>();
+        let (res_tx, res_rx) = mpsc::channel::<Message<T, P>>();
         let repaint: Arc<Mutex<Option<egui::Context>>> = Arc::new(Mutex::new(None));
         let repaint_in_thread = Arc::clone(&repaint);
         let thread = std::thread::Builder::new()
@@ -107,8 +120,8 @@ impl<T: Send + Sync + 'static, I: Send + 'static> Worker<T, I> {
         }
     }
 
-    /// The finished results since the last call, oldest first.
-    pub fn poll(&mut self) -> Vec<JobResult<T>> {
+    /// The messages since the last call, oldest first.
+    pub fn poll(&mut self) -> Vec<Message<T, P>> {
         let mut out = Vec::new();
         while let Ok(r) = self.results.try_recv() {
             out.push(r);
@@ -117,7 +130,7 @@ impl<T: Send + Sync + 'static, I: Send + 'static> Worker<T, I> {
     }
 }
 
-impl<T, I> Drop for Worker<T, I> {
+impl<T, I, P> Drop for Worker<T, I, P> {
     fn drop(&mut self) {
         if let Some(token) = self.in_flight.take() {
             token.cancel();
@@ -129,11 +142,19 @@ impl<T, I> Drop for Worker<T, I> {
     }
 }
 
-fn worker_loop<T, I>(
+fn wake(repaint: &Mutex<Option<egui::Context>>) {
+    if let Ok(slot) = repaint.lock() {
+        if let Some(ctx) = slot.as_ref() {
+            ctx.request_repaint();
+        }
+    }
+}
+
+fn worker_loop<T, I, P>(
     jobs: &Receiver<Request<I>>,
-    results: &Sender<JobResult<T>>,
-    repaint: &Arc<Mutex<Option<egui::Context>>>,
-    compute: ComputeFn<I, T>,
+    results: &Sender<Message<T, P>>,
+    repaint: &Mutex<Option<egui::Context>>,
+    compute: ComputeFn<I, T, P>,
 ) {
     while let Ok(mut job) = jobs.recv() {
         // Skip to the newest queued job: older ones are stale.
@@ -144,10 +165,16 @@ fn worker_loop<T, I>(
             continue;
         }
         let start = Instant::now();
+        let generation = job.generation;
+        let mut progress = |p: P| {
+            let sent = results.send(Message::Progress(generation, p)).is_ok();
+            wake(repaint);
+            sent
+        };
         // An engine panic must not leave the window saying "computing"
         // forever: it becomes an error message and the thread lives on.
         let outcome = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
-            compute(&job.input, &job.cancel)
+            compute(&job.input, &job.cancel, &mut progress)
         }))
         .unwrap_or_else(|payload| {
             let why = payload
@@ -163,26 +190,24 @@ fn worker_loop<T, I>(
         if job.cancel.is_cancelled() {
             continue;
         }
-        if results
-            .send(JobResult {
-                generation: job.generation,
-                outcome,
-                compute_ms,
-            })
-            .is_err()
-        {
+        let done = Message::Done(JobResult {
+            generation,
+            outcome,
+            compute_ms,
+        });
+        if results.send(done).is_err() {
             return;
         }
-        if let Ok(slot) = repaint.lock() {
-            if let Some(ctx) = slot.as_ref() {
-                ctx.request_repaint();
-            }
-        }
+        wake(repaint);
     }
 }
 
 /// The network of a scenario at its phase, on the network worker.
-pub fn compute(scenario: &Scenario, cancel: &CancelToken) -> Result<Arc<Computed>, String> {
+pub fn compute(
+    scenario: &Scenario,
+    cancel: &CancelToken,
+    _: ProgressFn<'_, ()>,
+) -> Result<Arc<Computed>, String> {
     let curve = scenario.build_curve().map_err(|e| e.to_string())?;
     let settings = scenario.settings().map_err(|e| e.to_string())?;
     let network = crate::network::compute(&curve, scenario.phase, &settings, cancel);
@@ -194,6 +219,7 @@ pub fn compute(scenario: &Scenario, cancel: &CancelToken) -> Result<Arc<Computed
 pub fn compute_spectrum(
     scenario: &Scenario,
     cancel: &CancelToken,
+    _: ProgressFn<'_, ()>,
 ) -> Result<Arc<Spectrum>, String> {
     let curve = scenario.build_curve().map_err(|e| e.to_string())?;
     let settings = scenario.spectrum_settings().map_err(|e| e.to_string())?;
