@@ -11,6 +11,8 @@ mod build;
 pub mod charges;
 pub mod editing;
 pub mod geometry;
+mod grid;
+mod legend;
 pub mod palette;
 pub mod param_map;
 

@@ -16,7 +16,7 @@ use super::options::AppOptions;
 use super::screenshot::save_color_image;
 use super::state::{ScreenshotJob, WallflowerApp, LIVE_SPECTRUM_MS};
 use super::view_state::{DragState, Interaction, ViewState};
-use super::{canvas, inspector, panels, param_map, worker};
+use super::{canvas, curve_panel, file_bar, inspector, param_map, phase_bar, worker};
 use crate::scenario::Scenario;
 use crate::scene::{Theme, View};
 use eframe::egui;
@@ -129,9 +129,9 @@ impl WallflowerApp {
         // The widgets write their gesture state into a copy; what they
         // read stays as the frame began.
         let mut it = self.interaction;
-        panels::top_bar(ui, self, &mut out);
-        panels::bottom_bar(ui, self, &mut it, &mut out);
-        panels::curve_panel(ui, self, &mut out);
+        file_bar::show(ui, self, &mut out);
+        phase_bar::show(ui, self, &mut it, &mut out);
+        curve_panel::show(ui, self, &mut out);
         inspector::show(ui, self, &mut it, &mut out);
         let map_rect = param_map::panel(ui, &self.param_map, &self.doc.scenario, &mut out);
         egui::CentralPanel::default()
@@ -249,7 +249,7 @@ impl WallflowerApp {
             if typing {
                 return out;
             }
-            let fine = panels::FINE_STEP_DEG.to_radians();
+            let fine = phase_bar::FINE_STEP_DEG.to_radians();
             let coarse = 5.0_f64.to_radians();
             let none = egui::Modifiers::NONE;
             let shift = egui::Modifiers::SHIFT;

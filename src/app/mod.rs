@@ -21,8 +21,10 @@
 //!   `jump`: matrix formatting.
 //! - `state`: [`WallflowerApp`], the parts above put together, and what
 //!   can be read off them.
-//! - `canvas`, `panels`, `spectrum_view` (the central-charge plane),
-//!   `inspector`: read the state, return commands.
+//! - `widgets`: small controls that turn changes into commands.
+//! - `canvas`, `file_bar`, `phase_bar`, `curve_panel`, `spectrum_view`
+//!   (the central-charge plane), `inspector`: read the state, return
+//!   commands.
 //! - `handler`: applies commands (undo snapshots are taken there).
 //! - `explorer`: the frame (`logic`, then `ui`).
 //!
@@ -36,9 +38,11 @@
 
 mod canvas;
 pub mod command;
+mod curve_panel;
 pub mod document;
 mod explorer;
 pub mod export;
+mod file_bar;
 pub mod file_state;
 pub mod files;
 pub mod frame_stats;
@@ -49,13 +53,14 @@ pub mod job;
 pub mod jump;
 mod options;
 mod paint;
-mod panels;
 pub mod param_map;
+mod phase_bar;
 pub mod screen;
 mod screenshot;
 mod spectrum_view;
 pub mod state;
 pub mod view_state;
+mod widgets;
 mod worker;
 
 pub use command::{Tool, WallSort};

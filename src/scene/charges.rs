@@ -9,7 +9,8 @@
 //! |Z|, so rays keep their true angles. Layers, bottom to top: background,
 //! grid, phase, rays, states, labels, legend, title.
 
-use super::build::{background_layer, grid_named, text_width_em};
+use super::build::{background_layer, text_width_em};
+use super::grid::grid_named;
 use super::palette::{state_color, theme_colors, ThemeColors};
 use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
 use crate::scene::Theme;

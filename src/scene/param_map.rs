@@ -4,7 +4,8 @@
 //! parameter value. The same [`Scene`] as every other figure, so the window,
 //! the SVG and the PNG writers draw it alike.
 
-use super::build::{background_layer, grid_named, text_width_em};
+use super::build::{background_layer, text_width_em};
+use super::grid::grid_named;
 use super::palette::theme_colors;
 use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
 use crate::scan::summary::MapSummary;
