@@ -48,8 +48,9 @@ impl Document {
     }
 
     /// Applies an edit command (one with an [`Command::edit_group`]),
-    /// taking the undo snapshot first. `false` when the edit changes
-    /// nothing (a stale index, a bad equation): then no snapshot is taken.
+    /// taking the undo snapshot first, and says what happens to the
+    /// selection. `None` when the edit changes nothing (a stale index, a
+    /// bad equation): then no snapshot is taken.
     pub fn edit(&mut self, cmd: Command, group: &EditGroup) -> Option<SelectionAfter> {
         if !self.edit_applies(&cmd) {
             return None;
