@@ -595,3 +595,47 @@ fn the_window_numbers_joints_like_the_command_line() {
             .any(|cli| { format!("{}, {}", cli["parents"][0], cli["parents"][1]) == parents }));
     }
 }
+
+/// Play, the tool and the sort order go through the command handler like
+/// every other change: Space starts the animation (the phase moves on),
+/// Space again stops it, Escape leaves the path tool, and a second click
+/// on a column header turns the walls table round.
+#[test]
+fn keys_and_buttons_change_the_view_through_commands() {
+    let mut h = harness(two_zeros());
+    wait_for_worker(&mut h);
+    let start = h.state().doc.scenario.phase;
+    h.key_press(egui::Key::Space);
+    h.step();
+    assert!(h.state().view.playback.playing);
+    for _ in 0..5 {
+        std::thread::sleep(Duration::from_millis(20));
+        h.step();
+    }
+    assert!(
+        h.state().doc.scenario.phase > start,
+        "the phase did not move"
+    );
+    h.key_press(egui::Key::Space);
+    h.step();
+    assert!(!h.state().view.playback.playing);
+    let stopped = h.state().doc.scenario.phase;
+    h.run_steps(3);
+    assert_eq!(h.state().doc.scenario.phase, stopped);
+
+    h.get_by_label("Draw path").click();
+    h.step();
+    assert_eq!(h.state().view.tool, wallflower::app::Tool::Path);
+    h.key_press(egui::Key::Escape);
+    h.step();
+    assert_eq!(h.state().view.tool, wallflower::app::Tool::Select);
+
+    h.get_by_label("mass").click();
+    h.step();
+    assert_eq!(h.state().view.wall_sort, wallflower::app::WallSort::Mass);
+    assert!(!h.state().view.wall_sort_descending);
+    h.step();
+    h.get_by_label("mass ^").click();
+    h.step();
+    assert!(h.state().view.wall_sort_descending);
+}
