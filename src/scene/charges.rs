@@ -11,7 +11,7 @@
 
 use super::build::{background_layer, text_width_em};
 use super::grid::grid_named;
-use super::palette::{state_color, theme_colors, ThemeColors};
+use super::palette::{state_color, theme_colors, with_alpha, ThemeColors};
 use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
 use crate::scene::Theme;
 use crate::spectrum::{BpsState, Kind, Spectrum};
@@ -141,10 +141,6 @@ pub fn state_label(st: &BpsState) -> String {
     }
 }
 
-fn faded(c: Rgba, alpha: u8) -> Rgba {
-    Rgba([c.0[0], c.0[1], c.0[2], alpha])
-}
-
 /// Builds the central-charge figure of `spectrum`.
 pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
     let colors = theme_colors(opts.theme);
@@ -168,7 +164,7 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
     // An earlier curve's states keep a third of their opacity.
     let fade = |c: Rgba| {
         if opts.faded {
-            faded(c, (u16::from(c.0[3]) * 35 / 100) as u8)
+            with_alpha(c, (u16::from(c.0[3]) * 35 / 100) as u8)
         } else {
             c
         }
@@ -208,7 +204,7 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
         rays.push(Shape::Polyline {
             points: vec![origin, t.to_screen(-st.z)],
             width: 1.0 * s,
-            color: faded(color, (u16::from(color.0[3]) * 110 / 255) as u8),
+            color: with_alpha(color, (u16::from(color.0[3]) * 110 / 255) as u8),
             dashed: true,
             item: Item::Decoration,
         });
