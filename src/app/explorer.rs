@@ -16,7 +16,7 @@ use super::options::AppOptions;
 use super::screenshot::save_color_image;
 use super::state::{ScreenshotJob, WallflowerApp, LIVE_SPECTRUM_MS};
 use super::view_state::{DragState, Interaction, ViewState};
-use super::{canvas, curve_panel, file_bar, inspector, param_map, phase_bar, worker};
+use super::{canvas, curve_panel, file_bar, inspector, keys, param_map, phase_bar, worker};
 use crate::scenario::Scenario;
 use crate::scene::{Theme, View};
 use eframe::egui;
@@ -97,7 +97,8 @@ impl WallflowerApp {
             ctx.set_theme(want);
         }
         self.receive_results();
-        self.keyboard(ctx);
+        let keys = keys::commands(ctx, self);
+        self.commands.extend(keys);
         self.advance_animation(ctx);
         if !self.script.is_empty() && self.network.latest.is_some() {
             // As if a widget had sent them, once there is a network to see.
@@ -218,77 +219,6 @@ impl WallflowerApp {
             self.commands.push(Command::SetPlaying(false));
         }
         ctx.request_repaint();
-    }
-
-    fn keyboard(&mut self, ctx: &egui::Context) {
-        let typing = ctx.memory(|m| m.focused().is_some());
-        let phase = self.doc.scenario.phase;
-        let playing = self.view.playback.playing;
-        let selection = self.view.selection;
-        let next = [
-            self.next_critical_phase(true),
-            self.next_critical_phase(false),
-        ];
-        let cmds = ctx.input_mut(|i| {
-            let mut out = Vec::new();
-            let cmd = egui::Modifiers::COMMAND;
-            if i.consume_key(cmd | egui::Modifiers::SHIFT, egui::Key::Z)
-                || i.consume_key(cmd, egui::Key::Y)
-            {
-                out.push(Command::Redo);
-            }
-            if i.consume_key(cmd, egui::Key::Z) {
-                out.push(Command::Undo);
-            }
-            if i.consume_key(cmd, egui::Key::S) {
-                out.push(Command::Save);
-            }
-            if i.consume_key(cmd, egui::Key::Q) {
-                out.push(Command::Quit);
-            }
-            if typing {
-                return out;
-            }
-            let fine = phase_bar::FINE_STEP_DEG.to_radians();
-            let coarse = 5.0_f64.to_radians();
-            let none = egui::Modifiers::NONE;
-            let shift = egui::Modifiers::SHIFT;
-            for (mods, key, step) in [
-                (shift, egui::Key::ArrowRight, coarse),
-                (shift, egui::Key::ArrowLeft, -coarse),
-                (none, egui::Key::ArrowRight, fine),
-                (none, egui::Key::ArrowLeft, -fine),
-            ] {
-                if i.consume_key(mods, key) {
-                    out.push(Command::SetPhase(phase + step));
-                }
-            }
-            for (key, t) in [
-                (egui::Key::CloseBracket, next[0]),
-                (egui::Key::OpenBracket, next[1]),
-            ] {
-                if i.consume_key(none, key) {
-                    out.extend(t.map(Command::SetPhase));
-                }
-            }
-            if i.consume_key(none, egui::Key::Space) {
-                out.push(Command::SetPlaying(!playing));
-            }
-            if i.consume_key(none, egui::Key::F) {
-                out.push(Command::Fit);
-            }
-            if i.consume_key(none, egui::Key::Escape) {
-                out.push(Command::SetTool(super::command::Tool::Select));
-                out.push(Command::Select(None));
-            }
-            if i.consume_key(none, egui::Key::Delete) || i.consume_key(none, egui::Key::Backspace) {
-                if let Some(Selection::Point(p)) = selection {
-                    out.push(Command::DeletePoint(p));
-                }
-            }
-            out
-        });
-        self.commands.extend(cmds);
     }
 
     fn update_title(&mut self, ctx: &egui::Context) {

@@ -23,8 +23,8 @@
 //!   can be read off them.
 //! - `widgets`: small controls that turn changes into commands.
 //! - `canvas`, `file_bar`, `phase_bar`, `curve_panel`, `spectrum_view`
-//!   (the central-charge plane), `inspector`: read the state, return
-//!   commands.
+//!   (the central-charge plane), `inspector`, `keys`: read the state (and
+//!   the input), return commands.
 //! - `handler`: applies commands (undo snapshots are taken there).
 //! - `explorer`: the frame (`logic`, then `ui`).
 //!
@@ -51,6 +51,7 @@ mod history;
 mod inspector;
 pub mod job;
 pub mod jump;
+mod keys;
 mod options;
 mod paint;
 pub mod param_map;
