@@ -114,9 +114,13 @@ impl WallflowerApp {
             ctx.request_repaint_after(wait);
         }
         self.update_title(ctx);
-        if self.quit_requested {
-            // Unsaved edits stay in the recovery file.
+        let closing = ctx.input(|i| i.viewport().close_requested());
+        if self.quit_requested || closing {
+            // Unsaved edits stay in the recovery file, however the window
+            // is closed (Ctrl+Q, a script, the window's own close button).
             self.files.flush(&self.doc.scenario, &self.view.plane);
+        }
+        if self.quit_requested {
             ctx.send_viewport_cmd(egui::ViewportCommand::Close);
         }
         self.screenshot_step(ctx);

@@ -160,9 +160,24 @@ impl FileState {
     /// Writes the recovery file (the document with the canvas's `view`)
     /// when an edit has waited long enough.
     pub fn autosave(&mut self, current: &Scenario, view: &View) {
+        if self
+            .last_edit
+            .is_some_and(|t| t.elapsed() >= self.autosave_after)
+        {
+            self.write_pending(current, view);
+        }
+    }
+
+    /// Autosaves a pending edit now (the window is closing).
+    pub fn flush(&mut self, current: &Scenario, view: &View) {
+        self.write_pending(current, view);
+    }
+
+    /// Writes the recovery file if there are edits since the last one
+    /// that the file on disk does not have.
+    fn write_pending(&mut self, current: &Scenario, view: &View) {
         let Some(dir) = &self.state_dir else { return };
-        let Some(t) = self.last_edit else { return };
-        if self.autosaved || t.elapsed() < self.autosave_after || !self.is_dirty(current) {
+        if self.last_edit.is_none() || self.autosaved || !self.is_dirty(current) {
             return;
         }
         let s = Scenario {
@@ -173,14 +188,6 @@ impl FileState {
             self.message = Some(format!("autosave failed: {e:#}"));
         }
         self.autosaved = true;
-    }
-
-    /// Autosaves a pending edit now (the window is closing).
-    pub fn flush(&mut self, current: &Scenario, view: &View) {
-        if self.last_edit.is_some() {
-            self.last_edit = Instant::now().checked_sub(self.autosave_after);
-        }
-        self.autosave(current, view);
     }
 
     /// How long until a pending autosave is due, if one is pending.
@@ -205,5 +212,40 @@ impl FileState {
             |n| n.to_string_lossy().into_owned(),
         );
         format!("{}{name} - wallflower", if dirty { "* " } else { "" })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn edited(reach: f64) -> Scenario {
+        Scenario {
+            curve: Some("y^2 = z".into()),
+            reach,
+            ..Scenario::default()
+        }
+    }
+
+    #[test]
+    fn a_pending_edit_is_flushed_at_once_and_autosaved_only_after_the_wait() {
+        let dir = std::env::temp_dir().join(format!("wallflower-flush-{}", std::process::id()));
+        let state = StateDir(dir.clone());
+        let mut files = FileState::new(
+            Scenario::default(),
+            None,
+            Some(state.clone()),
+            Duration::from_secs(3600),
+        );
+        files.note_edit();
+        files.autosave(&edited(7.0), &View::default());
+        assert!(state.read_recovery().is_none(), "autosaved before the wait");
+        files.flush(&edited(7.0), &View::default());
+        assert_eq!(state.read_recovery().map(|s| s.reach), Some(7.0));
+        // Nothing new since: no second write.
+        state.clear_recovery();
+        files.flush(&edited(7.0), &View::default());
+        assert!(state.read_recovery().is_none());
+        let _ = std::fs::remove_dir_all(&dir);
     }
 }
