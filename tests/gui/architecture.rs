@@ -96,6 +96,44 @@ fn the_window_modules_import_each_other_without_circles() {
     assert_eq!(circle(&graph), None, "{graph:#?}");
 }
 
+/// The modules in the order of the code map in `src/app/mod.rs` (first
+/// mention of each).
+fn code_map_order(modules: &[String]) -> Vec<String> {
+    let text =
+        std::fs::read_to_string(Path::new(env!("CARGO_MANIFEST_DIR")).join("src/app/mod.rs"))
+            .unwrap();
+    let map = text
+        .split("//! Code map")
+        .nth(1)
+        .and_then(|rest| rest.split("\n//!\n").next())
+        .expect("mod.rs has a code map");
+    let mut order: Vec<String> = Vec::new();
+    for name in map.split('`').skip(1).step_by(2) {
+        if modules.iter().any(|m| m == name) && !order.iter().any(|o| o == name) {
+            order.push(name.to_string());
+        }
+    }
+    order
+}
+
+#[test]
+fn every_module_imports_only_modules_above_it_in_the_code_map() {
+    let graph = imports();
+    let modules: Vec<String> = graph.keys().cloned().collect();
+    let order = code_map_order(&modules);
+    let missing: Vec<&String> = modules.iter().filter(|m| !order.contains(m)).collect();
+    assert!(missing.is_empty(), "not in the code map: {missing:?}");
+    let rank = |m: &str| order.iter().position(|o| o == m).unwrap();
+    for (module, deps) in &graph {
+        for dep in deps {
+            assert!(
+                rank(dep) < rank(module),
+                "{module} imports {dep}, which the code map lists after it"
+            );
+        }
+    }
+}
+
 #[test]
 fn the_circle_finder_finds_one() {
     let graph: BTreeMap<String, Vec<String>> = [
