@@ -159,18 +159,20 @@ impl WallflowerApp {
         }
     }
 
+    /// Takes in the workers' answers; a selection the new answer no
+    /// longer has is dropped (through the handler, like every change).
     fn receive_results(&mut self) {
         if self.spectrum.poll() == Polled::Value {
             let n_states = self.spectrum.value().map_or(0, |s| s.states.len());
             if matches!(self.view.selection, Some(Selection::State(i)) if i >= n_states) {
-                self.view.selection = None;
+                self.commands.push(Command::Select(None));
             }
         }
         if self.network.poll() == Polled::Value {
             let n_walls = self.computed().map_or(0, |c| c.network.walls.len());
             if matches!(self.view.selection, Some(Selection::Wall { wall, .. }) if wall >= n_walls)
             {
-                self.view.selection = None;
+                self.commands.push(Command::Select(None));
             }
             if self.wants_fit {
                 self.wants_fit = false;
