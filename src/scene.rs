@@ -9,11 +9,14 @@
 
 mod build;
 pub mod charges;
+pub mod editing;
 pub mod geometry;
+mod grid;
+mod legend;
 pub mod palette;
 pub mod param_map;
 
-pub use build::{build, clip_margin, SceneOptions};
+pub use build::{build, clip_margin, marker, Marker, SceneOptions};
 
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
@@ -47,7 +50,8 @@ pub mod layer_names {
     pub const BACKGROUND: &str = "background";
     pub const GRID: &str = "grid";
     pub const CUTS: &str = "branch cuts";
-    /// A BPS state's web, drawn wide under the walls.
+    /// Highlights under the walls: a BPS state's web, the selected
+    /// wall's halo.
     pub const WEB: &str = "highlighted web";
     pub const WALLS: &str = "walls";
     pub const WALL_LABELS: &str = "wall labels";

@@ -1,9 +1,32 @@
-//! What the UI asks for. Widgets push commands; the app handles them all in
-//! one place per frame, which is also where undo snapshots are taken.
+//! What the UI asks for, and the words it is said in. Panels, the canvas
+//! and the inspector read the app's state and return commands; the handler
+//! (`handler.rs`) applies them all in one place, which is also where undo
+//! snapshots are taken. This module imports nothing else from the window.
 
-use crate::scenario::Theme;
+use crate::scene::{Theme, View};
 use num_complex::Complex64;
 use std::path::PathBuf;
+
+/// What a canvas click does.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Tool {
+    Select,
+    AddBranchPoint,
+    AddPuncture,
+    /// Clicks add vertices to a path whose ordered jump-matrix product
+    /// the inspector shows.
+    Path,
+}
+
+/// A column the walls table can be sorted by.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum WallSort {
+    Index,
+    Type,
+    Multiplicity,
+    Mass,
+    End,
+}
 
 /// An editable point of a factored (quadratic) curve, by index into the
 /// scenario's `zeros` or `poles`.
@@ -31,6 +54,7 @@ pub enum Selection {
 
 #[derive(Clone, Debug, PartialEq)]
 pub enum Command {
+    /// Turn to a phase (radians; wrapped into [0, 2 pi]).
     SetPhase(f64),
     AddZero(Complex64),
     AddPole(Complex64, u32),
@@ -38,8 +62,8 @@ pub enum Command {
     SetPoleOrder(usize, u32),
     DeletePoint(PointRef),
     SetPrefactor([f64; 2]),
-    /// Replace the curve by a typed equation (checked first; a bad one
-    /// leaves the curve alone and shows the error).
+    /// The equation field's text: it replaces the curve when it parses; a
+    /// bad one leaves the curve alone and shows the error.
     SetEquation(String),
     SetParam(String, [f64; 2]),
     SetReach(f64),
@@ -62,6 +86,28 @@ pub enum Command {
     DiscardRecovery,
     /// Close the window (Ctrl+Q); unsaved edits go to the recovery file.
     Quit,
+    // What the window shows and how it reacts; never undone.
+    SetTool(Tool),
+    SetPlaying(bool),
+    SetSpeed(f64),
+    SetLooping(bool),
+    SetWallLabels(bool),
+    /// Pan or zoom the canvas.
+    SetView(View),
+    /// Order of the punctures the canvas adds.
+    SetNewPoleOrder(u32),
+    AddPathVertex(Complex64),
+    ClearPath,
+    /// Sort the walls table by a column (again: the other way round).
+    SortWalls(WallSort),
+    /// The file name field of the file bar.
+    SetFileField(String),
+    SetExportPath(String),
+    SetExportSize([u32; 2]),
+    SetExportTheme(Theme),
+    ShowParamMap(bool),
+    SetMapParam(String),
+    RecentreMap,
 }
 
 /// Which edits belong to one undo step: consecutive edits with the same

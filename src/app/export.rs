@@ -4,70 +4,103 @@
 //! theme. The central-charge plane of the spectrum exports the same way,
 //! through the figure builder of `spectrum --plot`.
 
-use super::explorer::WallflowerApp;
+use super::worker::Computed;
 use crate::scene::charges::{build_charges, ChargeOptions};
-use crate::scene::{self, SceneOptions, Transform};
+use crate::scene::{self, SceneOptions, Theme, Transform, View};
+use crate::spectrum::Spectrum;
 use anyhow::Context as _;
+use num_complex::Complex64;
 use std::path::Path;
 
-/// The scene an export of the current view would contain.
-pub fn export_scene(app: &WallflowerApp) -> anyhow::Result<crate::scene::Scene> {
-    let shown = app
-        .shown
-        .as_ref()
-        .context("nothing to export yet: the network is still computing")?;
-    let [w, h] = app.export_size;
-    let transform = Transform::of_view(&app.view, w as f32, h as f32);
-    // A selected BPS state's web goes into the figure as on the canvas.
-    let web = match app.selection {
-        Some(super::command::Selection::State(i)) => app
-            .spectrum
-            .as_ref()
-            .and_then(|s| s.states.get(i))
-            .map(|st| st.web.clone())
-            .unwrap_or_default(),
-        _ => Vec::new(),
-    };
-    let opts = SceneOptions {
-        wall_labels: app.show_labels,
-        web,
-        ..SceneOptions::new(transform, app.export_theme)
-    };
-    Ok(scene::build(
-        &shown.computed.curve,
-        &shown.computed.network,
-        &opts,
-    ))
+/// Where and how figures are exported.
+#[derive(Clone, Debug, PartialEq)]
+pub struct ExportSettings {
+    /// The file name as typed (`.svg` or `.png`).
+    pub path: String,
+    /// Picture size in pixels.
+    pub size: [u32; 2],
+    pub theme: Theme,
 }
 
-/// The central-charge figure of the newest spectrum at the chosen size and
+impl ExportSettings {
+    pub fn new(theme: Theme) -> Self {
+        Self {
+            path: "network.svg".into(),
+            size: [1200, 900],
+            theme,
+        }
+    }
+}
+
+/// The network figure of `view` at the export size and theme; `web` (the
+/// selected BPS state's) goes into it as on the canvas.
+pub fn network_scene(
+    computed: Option<&Computed>,
+    view: &View,
+    wall_labels: bool,
+    web: Vec<Vec<Complex64>>,
+    settings: &ExportSettings,
+) -> anyhow::Result<scene::Scene> {
+    let computed = computed.context("nothing to export yet: the network is still computing")?;
+    let [w, h] = settings.size;
+    let opts = SceneOptions {
+        wall_labels,
+        web,
+        ..SceneOptions::new(Transform::of_view(view, w as f32, h as f32), settings.theme)
+    };
+    Ok(scene::build(&computed.curve, &computed.network, &opts))
+}
+
+/// The central-charge figure of the newest spectrum at the export size and
 /// theme, with the current phase drawn through 0.
-pub fn charges_scene(app: &WallflowerApp) -> anyhow::Result<crate::scene::Scene> {
-    let spectrum = app
-        .spectrum
-        .as_ref()
-        .context("nothing to export yet: the spectrum is still computing")?;
+pub fn charges_scene(
+    spectrum: Option<&Spectrum>,
+    phase: f64,
+    settings: &ExportSettings,
+) -> anyhow::Result<scene::Scene> {
+    let spectrum = spectrum.context("nothing to export yet: the spectrum is still computing")?;
     anyhow::ensure!(
         !spectrum.states.is_empty(),
         "the spectrum has no states to draw"
     );
-    let [w, h] = app.export_size;
-    let mut opts = ChargeOptions::new(w as f32, h as f32, app.export_theme);
-    opts.phase = Some(app.scenario.phase);
+    let [w, h] = settings.size;
+    let mut opts = ChargeOptions::new(w as f32, h as f32, settings.theme);
+    opts.phase = Some(phase);
     Ok(build_charges(spectrum, &opts))
 }
 
-/// Writes the network figure to `path` as SVG or PNG, by its extension
-/// (atomically).
-pub fn export(app: &WallflowerApp, path: &Path) -> anyhow::Result<()> {
-    write_scene(&export_scene(app)?, path)
-}
-
-/// Writes the central-charge figure to `path`, like [`export`].
-pub fn export_charges(app: &WallflowerApp, path: &Path) -> anyhow::Result<()> {
-    write_scene(&charges_scene(app)?, path)
-}
-
-fn write_scene(scene: &crate::scene::Scene, path: &Path) -> anyhow::Result<()> {
+/// Writes a figure to `path` as SVG or PNG, by its extension (atomically).
+pub fn write(scene: &scene::Scene, path: &Path) -> anyhow::Result<()> {
     Ok(crate::export::write(scene, path)?)
+}
+
+/// Where the central-charge figure of an export goes: `net.svg` gives
+/// `net-charges.svg`, so it never overwrites the network figure.
+pub fn charges_path(export_path: &str) -> std::path::PathBuf {
+    let p = Path::new(export_path);
+    let stem = p.file_stem().map_or_else(
+        || "network".to_string(),
+        |s| s.to_string_lossy().into_owned(),
+    );
+    let ext = p
+        .extension()
+        .map_or_else(|| "svg".to_string(), |e| e.to_string_lossy().into_owned());
+    p.with_file_name(format!("{stem}-charges.{ext}"))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::charges_path;
+    use std::path::PathBuf;
+
+    #[test]
+    fn the_charges_figure_never_takes_the_network_figures_name() {
+        assert_eq!(
+            charges_path("out/net.png"),
+            PathBuf::from("out/net-charges.png")
+        );
+        assert_eq!(charges_path("net.svg"), PathBuf::from("net-charges.svg"));
+        assert_eq!(charges_path("figure"), PathBuf::from("figure-charges.svg"));
+        assert_eq!(charges_path(""), PathBuf::from("network-charges.svg"));
+    }
 }

@@ -1,18 +1,32 @@
 //! The window (feature "gui"): an eframe shell around [`WallflowerApp`],
-//! whose `ui` can also be driven without eframe (egui_kittest tests).
+//! whose `logic` and `ui` can also be driven without eframe (egui_kittest
+//! tests call both, in eframe's order).
 //!
-//! Code map:
-//! - `explorer`: the state, the frame, command handling (undo snapshots
-//!   are taken there), worker sync, files, title, screenshot.
-//! - `canvas`: plane <-> screen transform, grid, gestures, hit tests.
-//! - `paint`: the shared scene -> egui shapes (the painter adapter).
-//! - `panels`: file/export bar, curve editor, phase control, status bar.
-//! - `inspector`: walls and joints tables, jump matrix.
-//! - `spectrum_view`: the central-charge plane of the BPS states.
-//! - `param_map`: the parameter-plane view (a chamber map filled in the background).
-//! - `worker`: the background thread. `command`, `history`: edits and undo.
-//! - `files`: atomic saves, recovery file, recent list. `jump`: the
-//!   network's jump matrices, formatted for the inspector.
+//! Code map, bottom up: each module imports only modules above it in
+//! this list, so there are no circles (`tests/gui/architecture.rs`
+//! checks it).
+//! - `command`: the vocabulary (commands, selection, tools); `history`:
+//!   undo snapshots; `options`: how to start the window; `screenshot`:
+//!   the window's own frame as a PNG.
+//! - `document`: what is saved and undone, and how edits change it.
+//! - `worker`: background threads; `job`: one computation kept in step
+//!   with its input (generation, staleness, newest result).
+//! - `screen`: plane <-> screen transforms; `view_state`: what is shown
+//!   and the widgets' gesture state.
+//! - `files`: atomic saves, recovery file, recent list; `file_state`: the
+//!   document's file, dirty state and autosave.
+//! - `paint`: the shared scene -> egui shapes (the one painter adapter).
+//! - `export`: export settings and figures; `param_map`: the
+//!   parameter-plane scan and its panel; `frame_stats`: frame timings;
+//!   `jump`: matrix formatting.
+//! - `state`: [`WallflowerApp`], the parts above put together, and what
+//!   can be read off them.
+//! - `widgets`: small controls that turn changes into commands.
+//! - `canvas`, `file_bar`, `phase_bar`, `curve_panel`, `spectrum_view`
+//!   (the central-charge plane), `inspector`, `keys`: read the state (and
+//!   the input), return commands.
+//! - `handler`: applies commands (undo snapshots are taken there).
+//! - `explorer`: the frame (`logic`, then `ui`).
 //!
 //! A screenshot for tests and README pictures: `AppOptions::screenshot`,
 //! or the `WALLFLOWER_SCREENSHOT=FILE.png` environment variable read by
@@ -24,46 +38,41 @@
 
 mod canvas;
 pub mod command;
+mod curve_panel;
+pub mod document;
 mod explorer;
-mod export;
+pub mod export;
+mod file_bar;
+pub mod file_state;
 pub mod files;
+pub mod frame_stats;
+mod handler;
 mod history;
 mod inspector;
+pub mod job;
 pub mod jump;
+mod keys;
+mod options;
 mod paint;
-mod panels;
-mod param_map;
+pub mod param_map;
+mod phase_bar;
+pub mod screen;
+mod screenshot;
 mod spectrum_view;
+pub mod state;
+pub mod view_state;
+mod widgets;
 mod worker;
 
-pub use canvas::{Hit, ScreenTransform};
-pub use explorer::{Tool, WallSort, WallflowerApp};
+pub use command::{Tool, WallSort};
+pub use options::AppOptions;
+pub use screen::ScreenTransform;
+pub use screenshot::save_color_image;
+pub use state::WallflowerApp;
+pub use view_state::Hit;
 
-use anyhow::Context as _;
 use eframe::egui;
-use std::path::{Path, PathBuf};
-
-/// How to start the window.
-#[derive(Clone, Debug, Default)]
-pub struct AppOptions {
-    /// A scenario file to open; `None` opens the embedded default.
-    pub scenario: Option<PathBuf>,
-    /// Save the window's own frame here once the first network is shown,
-    /// then close.
-    pub screenshot: Option<PathBuf>,
-    /// Keep a recent-files list and a recovery file in the state directory
-    /// (off in tests).
-    pub persist: bool,
-    /// Where to keep them; `None` picks [`files::StateDir::default_location`].
-    pub state_dir: Option<PathBuf>,
-    /// Autosave unsaved edits this long after the last one (default 3 s).
-    pub autosave_after: Option<std::time::Duration>,
-    /// Inner window size in points; default 1500 x 920.
-    pub size: Option<[f32; 2]>,
-    /// Commands applied once the first network is shown, through the same
-    /// path as the widgets' (see [`command::parse_script`]).
-    pub script: Vec<command::Command>,
-}
+use std::path::PathBuf;
 
 /// Opens the window on `scenario` (a file) or on the embedded default.
 /// `WALLFLOWER_SCREENSHOT=FILE.png` saves a screenshot and exits.
@@ -138,9 +147,13 @@ pub fn run_with(opts: AppOptions) -> anyhow::Result<()> {
 struct Shell(WallflowerApp);
 
 impl eframe::App for Shell {
-    fn ui(&mut self, ui: &mut egui::Ui, frame: &mut eframe::Frame) {
+    fn logic(&mut self, ctx: &egui::Context, frame: &mut eframe::Frame) {
         self.0.frame_stats.integration_frame_ms =
             frame.info().cpu_usage.map(|s| f64::from(s) * 1e3);
+        self.0.logic(ctx);
+    }
+
+    fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
         self.0.ui(ui);
     }
 }
@@ -153,21 +166,4 @@ impl Drop for Shell {
             eprintln!("wallflower: {}", self.0.frame_stats.drag_summary());
         }
     }
-}
-
-/// Writes an egui screenshot as PNG.
-pub fn save_color_image(img: &egui::ColorImage, path: &Path) -> anyhow::Result<()> {
-    let [w, h] = img.size;
-    let mut data = Vec::with_capacity(w * h * 4);
-    for c in &img.pixels {
-        // Window frames are opaque, so straight and premultiplied agree.
-        data.extend_from_slice(&[c.r(), c.g(), c.b(), 255]);
-    }
-    let size = resvg::tiny_skia::IntSize::from_wh(w as u32, h as u32)
-        .context("the screenshot is empty")?;
-    let pixmap = resvg::tiny_skia::Pixmap::from_vec(data, size)
-        .context("could not wrap the screenshot pixels")?;
-    pixmap
-        .save_png(path)
-        .with_context(|| format!("could not write {}", path.display()))
 }

@@ -3,11 +3,14 @@
 //! background thread computes the spectrum point by point (on one thread,
 //! so the network worker keeps a core); clicking sets the parameter, and
 //! the current value is marked. The map is recomputed when anything but
-//! the mapped parameter's value changes.
+//! the mapped parameter's value changes. [`ParamMap::tick`] (the frame's
+//! logic) starts and polls the scan; [`panel`] draws it and returns
+//! commands.
 
 use super::command::Command;
-use super::explorer::WallflowerApp;
+use super::job::{Job, Polled};
 use super::paint::paint_layer;
+use super::worker::ProgressFn;
 use crate::algebra::parse_equation;
 use crate::cancel::CancelToken;
 use crate::scan::singular::{branch_polynomial, singular_points, SingularPoint};
@@ -19,7 +22,7 @@ use crate::scene::param_map::{build_param_map, map_transform, MapOptions};
 use crate::spectrum::SpectrumSettings;
 use eframe::egui;
 use num_complex::Complex64;
-use std::sync::mpsc;
+use std::sync::Arc;
 
 /// Grid points each way.
 const MAP_POINTS: usize = 21;
@@ -28,15 +31,23 @@ const MAP_HALF_SIDE: f64 = 2.0;
 /// Side of the view in pixels.
 const VIEW_PX: f32 = 300.0;
 
-/// What the background thread sends.
-enum Update {
+/// What the scan sends on the way; its answer is the walls of marginal
+/// stability.
+pub enum Update {
     Singular(Vec<SingularPoint>),
     Point(usize, PointStates),
-    Walls(Vec<MarginalWall>),
 }
 
-/// A running (or finished) map computation.
-struct MapJob {
+/// One scan: the scenario, the parameter mapped and the grid.
+#[derive(Clone, Debug, PartialEq)]
+pub struct MapRequest {
+    scenario: Scenario,
+    param: String,
+    grid: Grid,
+}
+
+/// The map as far as it has come.
+struct MapData {
     /// What it was started for: the scenario without the mapped value.
     key: String,
     param: String,
@@ -45,16 +56,18 @@ struct MapJob {
     filled: usize,
     singular: Vec<SingularPoint>,
     walls: Vec<MarginalWall>,
-    rx: mpsc::Receiver<Update>,
-    cancel: CancelToken,
-    thread: Option<std::thread::JoinHandle<()>>,
 }
 
-impl Drop for MapJob {
-    fn drop(&mut self) {
-        self.cancel.cancel();
-        if let Some(t) = self.thread.take() {
-            let _ = t.join();
+impl MapData {
+    fn take(&mut self, update: Update) {
+        match update {
+            Update::Singular(s) => self.singular = s,
+            Update::Point(index, p) => {
+                if let Some(slot) = self.points.get_mut(index) {
+                    *slot = p;
+                    self.filled += 1;
+                }
+            }
         }
     }
 }
@@ -65,24 +78,99 @@ pub struct ParamMap {
     pub open: bool,
     /// The parameter mapped (the curve's first by default).
     pub param: Option<String>,
-    /// Where the map is centred (set when a job starts; "Recentre" moves it).
+    /// Where the map is centred (set when a scan starts; "Recentre" moves it).
     centre: Option<Complex64>,
-    job: Option<MapJob>,
+    /// Centre on the current value at the next tick.
+    pub recentre: bool,
+    /// The scan's worker, made when the map is first opened.
+    job: Option<Job<Vec<MarginalWall>, MapRequest, Update>>,
+    data: Option<MapData>,
     /// Where the view was drawn in the last frame (for hit tests).
-    view_rect: Option<egui::Rect>,
+    pub view_rect: Option<egui::Rect>,
 }
 
 impl ParamMap {
     /// Grid points computed so far, and in all.
     pub fn progress(&self) -> Option<(usize, usize)> {
-        self.job.as_ref().map(|j| (j.filled, j.grid.len()))
+        self.data.as_ref().map(|d| (d.filled, d.grid.len()))
     }
 
     /// Where the parameter value `p` is on screen in the last frame.
     pub fn screen_pos(&self, p: Complex64) -> Option<egui::Pos2> {
-        let (job, rect) = (self.job.as_ref()?, self.view_rect?);
-        let [x, y] = map_transform(&job.grid, VIEW_PX, VIEW_PX).to_screen(p);
+        let (data, rect) = (self.data.as_ref()?, self.view_rect?);
+        let [x, y] = map_transform(&data.grid, VIEW_PX, VIEW_PX).to_screen(p);
         Some(rect.min + egui::vec2(x, y))
+    }
+
+    /// Keeps the scan in step with `scenario`: starts one when the map is
+    /// open and its key changed (or on "Recentre"), stops it when the map
+    /// is closed, and takes in the points computed since the last frame.
+    pub fn tick(&mut self, scenario: &Scenario, ctx: &egui::Context) {
+        let names = scenario.parameter_names();
+        if names.is_empty() || !self.open {
+            // Dropping the job cancels the scan and joins its thread.
+            self.job = None;
+            self.data = None;
+            return;
+        }
+        let param = self
+            .param
+            .clone()
+            .filter(|p| names.contains(p))
+            .unwrap_or_else(|| names[0].clone());
+        self.param = Some(param.clone());
+        let value = param_value(scenario, &param);
+        let key = job_key(scenario, &param);
+        let stale = self
+            .data
+            .as_ref()
+            .is_none_or(|d| d.key != key || d.param != param);
+        if stale || self.recentre {
+            let centre = if self.recentre || self.centre.is_none() || stale && self.data.is_none() {
+                value
+            } else {
+                self.centre.unwrap_or(value)
+            };
+            self.centre = Some(centre);
+            let grid = Grid {
+                re: [centre.re - MAP_HALF_SIDE, centre.re + MAP_HALF_SIDE],
+                im: [centre.im - MAP_HALF_SIDE, centre.im + MAP_HALF_SIDE],
+                n_re: MAP_POINTS,
+                n_im: MAP_POINTS,
+            };
+            let job = self
+                .job
+                .get_or_insert_with(|| Job::new("param-map", scan_map));
+            job.set_context(ctx);
+            job.submit(
+                MapRequest {
+                    scenario: scenario.clone(),
+                    param: param.clone(),
+                    grid,
+                },
+                true,
+            );
+            let blank = PointStates {
+                param: Complex64::new(0.0, 0.0),
+                states: Vec::new(),
+                usable: false,
+            };
+            self.data = Some(MapData {
+                key,
+                param,
+                grid,
+                points: vec![blank; grid.len()],
+                filled: 0,
+                singular: Vec::new(),
+                walls: Vec::new(),
+            });
+        }
+        self.recentre = false;
+        if let (Some(job), Some(data)) = (&mut self.job, &mut self.data) {
+            if job.poll_with(|u| data.take(u)) == Polled::Value {
+                data.walls = job.value().map(|w| w.to_vec()).unwrap_or_default();
+            }
+        }
     }
 }
 
@@ -96,212 +184,163 @@ fn job_key(scenario: &Scenario, param: &str) -> String {
     sc.to_ron()
 }
 
-fn start_job(scenario: &Scenario, param: &str, centre: Complex64, ctx: &egui::Context) -> MapJob {
-    let grid = Grid {
-        re: [centre.re - MAP_HALF_SIDE, centre.re + MAP_HALF_SIDE],
-        im: [centre.im - MAP_HALF_SIDE, centre.im + MAP_HALF_SIDE],
-        n_re: MAP_POINTS,
-        n_im: MAP_POINTS,
-    };
-    let (tx, rx) = mpsc::channel();
-    let cancel = CancelToken::new();
-    let (sc, name, token, ctx2) = (
-        scenario.clone(),
-        param.to_string(),
-        cancel.clone(),
-        ctx.clone(),
-    );
+/// The scan, on the map's worker: singular points (rank 2), the states at
+/// every grid point (one thread, so the network worker keeps a core), then
+/// the walls of marginal stability traced between them.
+fn scan_map(
+    request: &MapRequest,
+    token: &CancelToken,
+    progress: ProgressFn<'_, Update>,
+) -> Result<Arc<Vec<MarginalWall>>, String> {
+    let MapRequest {
+        scenario: sc,
+        param: name,
+        grid,
+    } = request;
     let settings = SpectrumSettings {
-        reach: scenario.reach,
+        reach: sc.reach,
         ..SpectrumSettings::default()
     };
-    let thread = std::thread::Builder::new()
-        .name("param-map".into())
-        .spawn(move || {
-            let curve_at = |p: Complex64| {
-                let mut s = sc.clone();
-                s.params.insert(name.clone(), [p.re, p.im]);
-                s.build_curve().map_err(|e| e.to_string())
-            };
-            let equation = sc.curve.as_deref().and_then(|t| parse_equation(t).ok());
-            let base = sc.param_values();
-            let poly_at = |p: Complex64| {
-                let mut values = base.clone();
-                values.insert(name.clone(), p);
-                branch_polynomial(&equation.as_ref()?.evaluate(&values).ok()?)
-            };
-            let rank_two = poly_at(grid.point(0)).is_some();
-            if rank_two {
-                let _ = tx.send(Update::Singular(singular_points(&grid, &poly_at, &token)));
-                ctx2.request_repaint();
-            }
-            let indices: Vec<usize> = (0..grid.len()).collect();
-            let mut points = Vec::with_capacity(grid.len());
-            let outcome = scan::run(&grid, &indices, &curve_at, &settings, 1, &token, &mut |r| {
-                let p = PointStates {
-                    param: r.param,
-                    states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
-                    usable: !r.warnings.iter().any(|w| w.starts_with("no curve here")),
-                };
-                points.push(p.clone());
-                let sent = tx.send(Update::Point(r.index, p)).is_ok();
-                ctx2.request_repaint();
-                sent
-            });
-            if outcome.stopped || !rank_two {
-                return;
-            }
-            let map = summarize(&grid, &points, &curve_at, Some(&poly_at), &settings, &token);
-            if !token.is_cancelled() {
-                let _ = tx.send(Update::Walls(map.walls));
-                ctx2.request_repaint();
-            }
-        })
-        .ok();
-    let blank = PointStates {
-        param: Complex64::new(0.0, 0.0),
-        states: Vec::new(),
-        usable: false,
+    let curve_at = |p: Complex64| {
+        let mut s = sc.clone();
+        s.params.insert(name.clone(), [p.re, p.im]);
+        s.build_curve().map_err(|e| e.to_string())
     };
-    MapJob {
-        key: job_key(scenario, param),
-        param: param.to_string(),
-        grid,
-        points: vec![blank; grid.len()],
-        filled: 0,
-        singular: Vec::new(),
-        walls: Vec::new(),
-        rx,
-        cancel,
-        thread,
+    let equation = sc.curve.as_deref().and_then(|t| parse_equation(t).ok());
+    let base = sc.param_values();
+    let poly_at = |p: Complex64| {
+        let mut values = base.clone();
+        values.insert(name.clone(), p);
+        branch_polynomial(&equation.as_ref()?.evaluate(&values).ok()?)
+    };
+    let rank_two = poly_at(grid.point(0)).is_some();
+    if rank_two {
+        progress(Update::Singular(singular_points(grid, &poly_at, token)));
     }
+    let indices: Vec<usize> = (0..grid.len()).collect();
+    let mut points = Vec::with_capacity(grid.len());
+    let outcome = scan::run(grid, &indices, &curve_at, &settings, 1, token, &mut |r| {
+        let p = PointStates {
+            param: r.param,
+            states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
+            usable: !r.warnings.iter().any(|w| w.starts_with("no curve here")),
+        };
+        points.push(p.clone());
+        progress(Update::Point(r.index, p))
+    });
+    if outcome.stopped || !rank_two {
+        return Ok(Arc::new(Vec::new()));
+    }
+    let map = summarize(grid, &points, &curve_at, Some(&poly_at), &settings, token);
+    Ok(Arc::new(map.walls))
 }
 
-impl WallflowerApp {
-    /// The parameter-plane panel (right of the canvas), or its toggle.
-    pub(super) fn param_map_panel(&mut self, ui: &mut egui::Ui) {
-        let names = self.scenario.parameter_names();
-        if names.is_empty() {
-            self.param_map.job = None;
-            return;
-        }
-        let ctx = ui.ctx().clone();
-        let mut open = self.param_map.open;
-        egui::Panel::right("param_map")
-            .resizable(false)
-            .show(ui, |ui| {
-                let label = if open {
-                    "Hide parameter map"
-                } else {
-                    "Parameter map"
-                };
-                if ui.button(label).clicked() {
-                    open = !open;
-                }
-                if open {
-                    self.param_map_contents(ui, &names, &ctx);
+fn param_value(scenario: &Scenario, param: &str) -> Complex64 {
+    scenario
+        .params
+        .get(param)
+        .map_or(Complex64::new(0.0, 0.0), |v| Complex64::new(v[0], v[1]))
+}
+
+/// The parameter-plane panel (right of the canvas), or its toggle; `None`
+/// when the curve has no parameters. Returns where the map was drawn.
+pub fn panel(
+    ui: &mut egui::Ui,
+    map: &ParamMap,
+    scenario: &Scenario,
+    out: &mut Vec<Command>,
+) -> Option<egui::Rect> {
+    let names = scenario.parameter_names();
+    if names.is_empty() {
+        return None;
+    }
+    let mut drawn = None;
+    egui::Panel::right("param_map")
+        .resizable(false)
+        .show(ui, |ui| {
+            let label = if map.open {
+                "Hide parameter map"
+            } else {
+                "Parameter map"
+            };
+            if ui.button(label).clicked() {
+                out.push(Command::ShowParamMap(!map.open));
+            }
+            if map.open {
+                drawn = contents(ui, map, &names, scenario, out);
+            }
+        });
+    drawn
+}
+
+fn contents(
+    ui: &mut egui::Ui,
+    map: &ParamMap,
+    names: &[String],
+    scenario: &Scenario,
+    out: &mut Vec<Command>,
+) -> Option<egui::Rect> {
+    let current = map
+        .param
+        .clone()
+        .filter(|p| names.contains(p))
+        .unwrap_or_else(|| names[0].clone());
+    if names.len() > 1 {
+        let mut param = current.clone();
+        egui::ComboBox::from_label("parameter")
+            .selected_text(param.clone())
+            .show_ui(ui, |ui| {
+                for n in names {
+                    ui.selectable_value(&mut param, n.clone(), n);
                 }
             });
-        self.param_map.open = open;
-        if !open {
-            self.param_map.job = None;
+        if param != current {
+            out.push(Command::SetMapParam(param));
         }
     }
-
-    fn param_map_contents(&mut self, ui: &mut egui::Ui, names: &[String], ctx: &egui::Context) {
-        let map = &mut self.param_map;
-        let mut param = map
-            .param
-            .clone()
-            .filter(|p| names.contains(p))
-            .unwrap_or_else(|| names[0].clone());
-        if names.len() > 1 {
-            egui::ComboBox::from_label("parameter")
-                .selected_text(param.clone())
-                .show_ui(ui, |ui| {
-                    for n in names {
-                        ui.selectable_value(&mut param, n.clone(), n);
-                    }
-                });
-        }
-        map.param = Some(param.clone());
-        let value = self
-            .scenario
-            .params
-            .get(&param)
-            .map_or(Complex64::new(0.0, 0.0), |v| Complex64::new(v[0], v[1]));
-        let recentre = ui.button("Recentre on the current value").clicked();
-        let key = job_key(&self.scenario, &param);
-        let stale = map
-            .job
-            .as_ref()
-            .is_none_or(|j| j.key != key || j.param != param);
-        if stale || recentre {
-            let centre = if recentre || map.centre.is_none() || stale && map.job.is_none() {
-                value
-            } else {
-                map.centre.unwrap_or(value)
-            };
-            map.centre = Some(centre);
-            map.job = None; // cancels and joins the old thread
-            map.job = Some(start_job(&self.scenario, &param, centre, ctx));
-        }
-        let Some(job) = map.job.as_mut() else {
-            return;
-        };
-        while let Ok(update) = job.rx.try_recv() {
-            match update {
-                Update::Singular(s) => job.singular = s,
-                Update::Point(index, p) => {
-                    if let Some(slot) = job.points.get_mut(index) {
-                        *slot = p;
-                        job.filled += 1;
-                    }
-                }
-                Update::Walls(w) => job.walls = w,
-            }
-        }
-        let (chambers, chamber_of) = chambers(&job.grid, &job.points);
-        let summary = MapSummary {
-            singular: job.singular.clone(),
-            walls: job.walls.clone(),
-            chambers,
-            chamber_of,
-            warnings: Vec::new(),
-        };
-        let mut opts = MapOptions::new(VIEW_PX, VIEW_PX, self.scenario.theme);
-        opts.param_name = param.clone();
-        opts.current = Some(value);
-        let scene = build_param_map(&job.grid, &summary, &opts);
-        let (rect, response) =
-            ui.allocate_exact_size(egui::vec2(VIEW_PX, VIEW_PX), egui::Sense::click());
-        map.view_rect = Some(rect);
-        let painter = ui.painter_at(rect);
-        for layer in &scene.layers {
-            paint_layer(&painter, layer, rect.min.to_vec2());
-        }
-        if response.clicked() {
-            if let Some(pos) = response.interact_pointer_pos() {
-                let t = map_transform(&job.grid, VIEW_PX, VIEW_PX);
-                let p = t.to_plane([pos.x - rect.min.x, pos.y - rect.min.y]);
-                self.commands
-                    .push(Command::SetParam(param.clone(), [p.re, p.im]));
-                self.commands.push(Command::EndInteraction);
-            }
-        }
-        let status = if job.filled < job.grid.len() {
-            format!("computing: {} of {} points", job.filled, job.grid.len())
-        } else if job.walls.is_empty() && job.singular.is_empty() {
-            format!("{} points", job.grid.len())
-        } else {
-            format!(
-                "{} points, {} wall(s), {} singular point(s)",
-                job.grid.len(),
-                job.walls.len(),
-                job.singular.len()
-            )
-        };
-        ui.label(status);
-        ui.label("Click to set the parameter.");
+    if ui.button("Recentre on the current value").clicked() {
+        out.push(Command::RecentreMap);
     }
+    let job = map.data.as_ref().filter(|d| d.param == current)?;
+    let (chambers, chamber_of) = chambers(&job.grid, &job.points);
+    let summary = MapSummary {
+        singular: job.singular.clone(),
+        walls: job.walls.clone(),
+        chambers,
+        chamber_of,
+        warnings: Vec::new(),
+    };
+    let mut opts = MapOptions::new(VIEW_PX, VIEW_PX, scenario.theme);
+    opts.param_name = current.clone();
+    opts.current = Some(param_value(scenario, &current));
+    let scene = build_param_map(&job.grid, &summary, &opts);
+    let (rect, response) =
+        ui.allocate_exact_size(egui::vec2(VIEW_PX, VIEW_PX), egui::Sense::click());
+    let painter = ui.painter_at(rect);
+    for layer in &scene.layers {
+        paint_layer(&painter, layer, rect.min.to_vec2());
+    }
+    if response.clicked() {
+        if let Some(pos) = response.interact_pointer_pos() {
+            let t = map_transform(&job.grid, VIEW_PX, VIEW_PX);
+            let p = t.to_plane([pos.x - rect.min.x, pos.y - rect.min.y]);
+            out.push(Command::SetParam(current.clone(), [p.re, p.im]));
+            out.push(Command::EndInteraction);
+        }
+    }
+    let status = if job.filled < job.grid.len() {
+        format!("computing: {} of {} points", job.filled, job.grid.len())
+    } else if job.walls.is_empty() && job.singular.is_empty() {
+        format!("{} points", job.grid.len())
+    } else {
+        format!(
+            "{} points, {} wall(s), {} singular point(s)",
+            job.grid.len(),
+            job.walls.len(),
+            job.singular.len()
+        )
+    };
+    ui.label(status);
+    ui.label("Click to set the parameter.");
+    Some(rect)
 }

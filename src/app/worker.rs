@@ -1,11 +1,13 @@
 //! Background workers: named threads own all engine work for the window
 //! (one for the network at the current phase, one for the BPS spectrum).
-//! The UI sends `(generation, scenario snapshot)` jobs and never waits; it
-//! polls finished results once per frame.
+//! The app sends `(generation, input snapshot)` requests and never waits;
+//! it polls finished results once per frame (`job.rs` keeps the
+//! bookkeeping).
 //!
 //! Stale work is cancelled through the job's [`CancelToken`], which the
 //! integrator checks inside its loops. When several jobs are queued the
-//! worker skips to the newest one.
+//! worker skips to the newest one. A long computation may send partial
+//! results on the way (the chamber map's points).
 
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
@@ -18,10 +20,10 @@ use std::sync::{Arc, Mutex};
 use std::thread::JoinHandle;
 use std::time::Instant;
 
-/// A request for the network of one scenario.
-pub struct Job {
+/// A request: compute the answer for one input.
+pub struct Request<I> {
     pub generation: u64,
-    pub scenario: Scenario,
+    pub input: I,
     pub cancel: CancelToken,
 }
 
@@ -41,14 +43,26 @@ pub struct JobResult<T> {
     pub compute_ms: f64,
 }
 
-/// The work a worker does for one scenario.
-pub type ComputeFn<T> = fn(&Scenario, &CancelToken) -> Result<Arc<T>, String>;
+/// What a worker sends back: partial results of a running request, then
+/// its answer.
+pub enum Message<T, P> {
+    Progress(u64, P),
+    Done(JobResult<T>),
+}
+
+/// Hands partial results of the running request to the app (a chamber
+/// map fills in point by point); `false` once nobody listens.
+pub type ProgressFn<'a, P> = &'a mut dyn FnMut(P) -> bool;
+
+/// The work a worker does for one input.
+pub type ComputeFn<I, T, P = ()> =
+    fn(&I, &CancelToken, ProgressFn<'_, P>) -> Result<Arc<T>, String>;
 
 /// Handle to the worker thread. Dropping it cancels the running job,
 /// closes the channel and joins the thread.
-pub struct Worker<T> {
-    jobs: Option<Sender<Job>>,
-    results: Receiver<JobResult<T>>,
+pub struct Worker<T, I = Scenario, P = ()> {
+    jobs: Option<Sender<Request<I>>>,
+    results: Receiver<Message<T, P>>,
     thread: Option<JoinHandle<()>>,
     /// The context to wake when a result is ready; set on the first frame
     /// (the app is built before the window's context exists in tests).
@@ -56,11 +70,11 @@ pub struct Worker<T> {
     in_flight: Option<CancelToken>,
 }
 
-impl<T: Send + Sync + 'static> Worker<T> {
-    /// A thread named `name` that runs `compute` on each job.
-    pub fn spawn(name: &str, compute: ComputeFn<T>) -> Self {
-        let (job_tx, job_rx) = mpsc::channel::<Job>();
-        let (res_tx, res_rx) = mpsc::channel::<JobResult<T>>();
+impl<T: Send + Sync + 'static, I: Send + 'static, P: Send + 'static> Worker<T, I, P> {
+    /// A thread named `name` that runs `compute` on each request.
+    pub fn spawn(name: &str, compute: ComputeFn<I, T, P>) -> Self {
+        let (job_tx, job_rx) = mpsc::channel::<Request<I>>();
+        let (res_tx, res_rx) = mpsc::channel::<Message<T, P>>();
         let repaint: Arc<Mutex<Option<egui::Context>>> = Arc::new(Mutex::new(None));
         let repaint_in_thread = Arc::clone(&repaint);
         let thread = std::thread::Builder::new()
@@ -87,7 +101,7 @@ impl<T: Send + Sync + 'static> Worker<T> {
 
     /// Queues a job; with `cancel_running` the job being computed (if any)
     /// is told to stop, because its answer is no longer wanted.
-    pub fn submit(&mut self, generation: u64, scenario: Scenario, cancel_running: bool) {
+    pub fn submit(&mut self, generation: u64, input: I, cancel_running: bool) {
         if cancel_running {
             if let Some(token) = self.in_flight.take() {
                 token.cancel();
@@ -98,16 +112,16 @@ impl<T: Send + Sync + 'static> Worker<T> {
         if let Some(tx) = &self.jobs {
             // A send error means the thread is gone; the status bar then
             // keeps saying "computing", which is the honest answer.
-            let _ = tx.send(Job {
+            let _ = tx.send(Request {
                 generation,
-                scenario,
+                input,
                 cancel,
             });
         }
     }
 
-    /// The finished results since the last call, oldest first.
-    pub fn poll(&mut self) -> Vec<JobResult<T>> {
+    /// The messages since the last call, oldest first.
+    pub fn poll(&mut self) -> Vec<Message<T, P>> {
         let mut out = Vec::new();
         while let Ok(r) = self.results.try_recv() {
             out.push(r);
@@ -116,7 +130,7 @@ impl<T: Send + Sync + 'static> Worker<T> {
     }
 }
 
-impl<T> Drop for Worker<T> {
+impl<T, I, P> Drop for Worker<T, I, P> {
     fn drop(&mut self) {
         if let Some(token) = self.in_flight.take() {
             token.cancel();
@@ -128,11 +142,19 @@ impl<T> Drop for Worker<T> {
     }
 }
 
-fn worker_loop<T>(
-    jobs: &Receiver<Job>,
-    results: &Sender<JobResult<T>>,
-    repaint: &Arc<Mutex<Option<egui::Context>>>,
-    compute: ComputeFn<T>,
+fn wake(repaint: &Mutex<Option<egui::Context>>) {
+    if let Ok(slot) = repaint.lock() {
+        if let Some(ctx) = slot.as_ref() {
+            ctx.request_repaint();
+        }
+    }
+}
+
+fn worker_loop<T, I, P>(
+    jobs: &Receiver<Request<I>>,
+    results: &Sender<Message<T, P>>,
+    repaint: &Mutex<Option<egui::Context>>,
+    compute: ComputeFn<I, T, P>,
 ) {
     while let Ok(mut job) = jobs.recv() {
         // Skip to the newest queued job: older ones are stale.
@@ -143,10 +165,16 @@ fn worker_loop<T>(
             continue;
         }
         let start = Instant::now();
+        let generation = job.generation;
+        let mut progress = |p: P| {
+            let sent = results.send(Message::Progress(generation, p)).is_ok();
+            wake(repaint);
+            sent
+        };
         // An engine panic must not leave the window saying "computing"
         // forever: it becomes an error message and the thread lives on.
         let outcome = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
-            compute(&job.scenario, &job.cancel)
+            compute(&job.input, &job.cancel, &mut progress)
         }))
         .unwrap_or_else(|payload| {
             let why = payload
@@ -162,26 +190,24 @@ fn worker_loop<T>(
         if job.cancel.is_cancelled() {
             continue;
         }
-        if results
-            .send(JobResult {
-                generation: job.generation,
-                outcome,
-                compute_ms,
-            })
-            .is_err()
-        {
+        let done = Message::Done(JobResult {
+            generation,
+            outcome,
+            compute_ms,
+        });
+        if results.send(done).is_err() {
             return;
         }
-        if let Ok(slot) = repaint.lock() {
-            if let Some(ctx) = slot.as_ref() {
-                ctx.request_repaint();
-            }
-        }
+        wake(repaint);
     }
 }
 
 /// The network of a scenario at its phase, on the network worker.
-pub fn compute(scenario: &Scenario, cancel: &CancelToken) -> Result<Arc<Computed>, String> {
+pub fn compute(
+    scenario: &Scenario,
+    cancel: &CancelToken,
+    _: ProgressFn<'_, ()>,
+) -> Result<Arc<Computed>, String> {
     let curve = scenario.build_curve().map_err(|e| e.to_string())?;
     let settings = scenario.settings().map_err(|e| e.to_string())?;
     let network = crate::network::compute(&curve, scenario.phase, &settings, cancel);
@@ -193,6 +219,7 @@ pub fn compute(scenario: &Scenario, cancel: &CancelToken) -> Result<Arc<Computed
 pub fn compute_spectrum(
     scenario: &Scenario,
     cancel: &CancelToken,
+    _: ProgressFn<'_, ()>,
 ) -> Result<Arc<Spectrum>, String> {
     let curve = scenario.build_curve().map_err(|e| e.to_string())?;
     let settings = scenario.spectrum_settings().map_err(|e| e.to_string())?;

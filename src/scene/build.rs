@@ -6,7 +6,9 @@
 //! Everything is deterministic: the same input gives the same scene, shape
 //! for shape, so exported files diff cleanly.
 
-use super::geometry::{clip_polyline, nice_step, thin, tick_label, ClipRect};
+use super::geometry::{clip_polyline, thin, ClipRect};
+use super::grid::grid;
+use super::legend::{legend, Markers};
 use super::palette::{self, theme_colors, ThemeColors};
 use super::{layer_names, Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
 use crate::curve::Curve;
@@ -14,7 +16,6 @@ use crate::network::Network;
 use crate::scene::Theme;
 use crate::walls::WallType;
 use num_complex::Complex64;
-use std::collections::BTreeMap;
 
 /// What to draw and how.
 #[derive(Clone, Debug, PartialEq)]
@@ -84,10 +85,12 @@ impl SceneOptions {
 
 /// Line widths, marker and text sizes in pixels at scale 1; chosen by eye
 /// on 800x800 figures and a 1600x1000 window.
-mod size {
+pub(super) mod size {
     pub const WALL: f32 = 1.8;
     pub const WALL_HIGHLIGHT: f32 = 4.0;
     pub const WEB: f32 = 8.0;
+    /// The halo under the selected wall.
+    pub const HALO: f32 = 7.0;
     pub const CUT: f32 = 1.0;
     pub const GRID: f32 = 1.0;
     pub const AXIS: f32 = 1.2;
@@ -192,7 +195,7 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
             Vec::new()
         },
     );
-    push(layer_names::WEB, web(opts, &clip, s));
+    push(layer_names::WEB, highlights(net, opts, &colors, &clip, s));
     let runs = wall_runs(curve, net, opts, &clip, s);
     let mut wall_shapes: Vec<Shape> = Vec::new();
     let mut highlighted: Vec<Shape> = Vec::new();
@@ -232,13 +235,7 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
         .iter()
         .enumerate()
         .filter_map(|(idx, j)| {
-            on_screen(j.z).map(|center| Shape::Circle {
-                center,
-                radius: size::JOINT_RADIUS * s,
-                fill: Some(colors.background),
-                stroke: Some((size::JOINT_STROKE * s, colors.foreground)),
-                item: Item::Joint(idx),
-            })
+            on_screen(j.z).map(|c| marker(Marker::Joint, c, &colors, s, Item::Joint(idx)))
         })
         .collect();
     let mut punctures: Vec<Shape> = Vec::new();
@@ -247,14 +244,13 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
             continue;
         };
         let half = size::PUNCTURE_HALF * s;
-        punctures.push(Shape::Square {
+        punctures.push(marker(
+            Marker::Puncture,
             center,
-            half,
-            fill: Some(colors.background),
-            stroke: Some((size::PUNCTURE_STROKE * s, colors.foreground)),
-            diamond: false,
-            item: Item::Puncture(idx),
-        });
+            &colors,
+            s,
+            Item::Puncture(idx),
+        ));
         punctures.push(Shape::Text {
             pos: [center[0] + half + 2.0 * s, center[1] - half - 1.0 * s],
             text: p.order.to_string(),
@@ -268,29 +264,24 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
         let Some(center) = on_screen(bp.z) else {
             continue;
         };
-        branch_points.push(if bp.simple {
-            Shape::Circle {
-                center,
-                radius: size::BRANCH_RADIUS * s,
-                fill: Some(colors.foreground),
-                stroke: Some((1.0 * s, colors.background)),
-                item: Item::BranchPoint(idx),
-            }
+        let kind = if bp.simple {
+            Marker::BranchPoint
         } else {
-            Shape::Circle {
-                center,
-                radius: size::RING_RADIUS * s,
-                fill: Some(colors.background),
-                stroke: Some((size::RING_STROKE * s, colors.foreground)),
-                item: Item::BranchPoint(idx),
-            }
-        });
+            Marker::NonSimpleBranchPoint
+        };
+        branch_points.push(marker(kind, center, &colors, s, Item::BranchPoint(idx)));
     }
     // Singular points of the curve, drawn from their resolution: an open
     // diamond where the split points sit.
     for r in &curve.resolutions {
         if let Some(center) = on_screen(r.z) {
-            branch_points.push(singular_marker(center, &colors, s));
+            branch_points.push(marker(
+                Marker::SingularPoint,
+                center,
+                &colors,
+                s,
+                Item::Decoration,
+            ));
         }
     }
     let legend = if opts.legend {
@@ -345,46 +336,77 @@ pub fn build(curve: &Curve, net: &Network, opts: &SceneOptions) -> Scene {
 }
 
 /// One maximal run of a wall with a single type, clipped into pieces.
-struct Run {
-    wall: usize,
-    kind: WallType,
-    color: Rgba,
-    dashed: bool,
-    width: f32,
-    pieces: Vec<Vec<[f64; 2]>>,
+pub(super) struct Run {
+    pub wall: usize,
+    pub kind: WallType,
+    pub color: Rgba,
+    pub dashed: bool,
+    pub width: f32,
+    pub pieces: Vec<Vec<[f64; 2]>>,
 }
 
-/// Okabe-Ito orange at 60% opacity, the window's selection colour.
-const WEB_COLOR: Rgba = Rgba([0xE6, 0x9F, 0x00, 150]);
-
-/// The highlighted web: wide translucent orange (the window's selection
-/// colour) under the walls, so that the walls along it stay readable.
-fn web(opts: &SceneOptions, clip: &ClipRect, s: f32) -> Vec<Shape> {
-    let t = &opts.transform;
+/// The highlights under the walls: the selected BPS state's web, wide in
+/// the translucent selection colour, and a faint halo along the selected
+/// wall, so that the walls along them stay readable.
+fn highlights(
+    net: &Network,
+    opts: &SceneOptions,
+    colors: &ThemeColors,
+    clip: &ClipRect,
+    s: f32,
+) -> Vec<Shape> {
+    let halo = opts.highlight.and_then(|i| net.walls.get(i)).map(|w| {
+        (
+            w.points.iter().map(|p| p.z).collect::<Vec<_>>(),
+            size::HALO,
+            colors.halo,
+        )
+    });
+    let webs = opts
+        .web
+        .iter()
+        .map(|line| (line.clone(), size::WEB, colors.web));
     let mut shapes = Vec::new();
-    for line in &opts.web {
-        let screen: Vec<[f64; 2]> = line
-            .iter()
-            .filter(|z| z.is_finite())
-            .map(|z| {
-                let q = t.to_screen(*z);
-                [f64::from(q[0]), f64::from(q[1])]
-            })
-            .collect();
-        for piece in clip_polyline(&screen, clip) {
-            let piece = thin(&piece, size::THIN_STEP);
-            if piece.len() >= 2 {
-                shapes.push(Shape::Polyline {
-                    points: piece.iter().map(|p| [p[0] as f32, p[1] as f32]).collect(),
-                    width: size::WEB * s,
-                    color: WEB_COLOR,
-                    dashed: false,
-                    item: Item::Decoration,
-                });
-            }
-        }
+    for (line, width, color) in webs.chain(halo) {
+        shapes.extend(plane_polyline(
+            &line,
+            &opts.transform,
+            clip,
+            width * s,
+            color,
+        ));
     }
     shapes
+}
+
+/// A polyline of the plane as clipped, thinned pieces in pixels.
+pub(super) fn plane_polyline(
+    line: &[Complex64],
+    t: &Transform,
+    clip: &ClipRect,
+    width: f32,
+    color: Rgba,
+) -> Vec<Shape> {
+    let screen: Vec<[f64; 2]> = line
+        .iter()
+        .filter(|z| z.is_finite())
+        .map(|z| {
+            let q = t.to_screen(*z);
+            [f64::from(q[0]), f64::from(q[1])]
+        })
+        .collect();
+    clip_polyline(&screen, clip)
+        .iter()
+        .map(|piece| thin(piece, size::THIN_STEP))
+        .filter(|piece| piece.len() >= 2)
+        .map(|piece| Shape::Polyline {
+            points: piece.iter().map(|p| [p[0] as f32, p[1] as f32]).collect(),
+            width,
+            color,
+            dashed: false,
+            item: Item::Decoration,
+        })
+        .collect()
 }
 
 /// Splits every wall where its type changes (at a cut; the cut point is
@@ -444,7 +466,7 @@ fn wall_runs(
     runs
 }
 
-fn polyline_length(points: &[[f64; 2]]) -> f64 {
+pub(super) fn polyline_length(points: &[[f64; 2]]) -> f64 {
     points
         .windows(2)
         .map(|w| (w[1][0] - w[0][0]).hypot(w[1][1] - w[0][1]))
@@ -498,94 +520,6 @@ fn wall_labels(runs: &[Run], s: f32) -> Vec<Shape> {
     out
 }
 
-/// Grid lines at a 1-2-5 step, the axes, tick labels at the bottom and
-/// left edges, and the axis names.
-fn grid(t: &Transform, colors: &ThemeColors, s: f32) -> Vec<Shape> {
-    grid_named(t, colors, s, ["Re z", "Im z"])
-}
-
-/// [`grid`] with other axis names (the central-charge plane's "Re Z").
-pub(super) fn grid_named(
-    t: &Transform,
-    colors: &ThemeColors,
-    s: f32,
-    [x_name, y_name]: [&str; 2],
-) -> Vec<Shape> {
-    let mut shapes = Vec::new();
-    let ppu = t.pixels_per_unit();
-    let step = nice_step(f64::from(size::GRID_SPACING * s) / ppu);
-    let (w, h) = (t.width, t.height);
-    let top_left = t.to_plane([0.0, 0.0]);
-    let bottom_right = t.to_plane([w, h]);
-    let (x_min, x_max) = (top_left.re, bottom_right.re);
-    let (y_min, y_max) = (bottom_right.im, top_left.im);
-    let ticks = |lo: f64, hi: f64| -> Vec<i64> {
-        let (a, b) = ((lo / step).ceil(), (hi / step).floor());
-        if !(a.is_finite() && b.is_finite()) || b - a > 400.0 {
-            return Vec::new();
-        }
-        (a as i64..=b as i64).collect()
-    };
-    let xs = ticks(x_min, x_max);
-    let ys = ticks(y_min, y_max);
-    let line = |a: [f32; 2], b: [f32; 2], axis: bool| Shape::Polyline {
-        points: vec![a, b],
-        width: if axis { size::AXIS } else { size::GRID } * s,
-        color: if axis { colors.axis } else { colors.grid },
-        dashed: false,
-        item: Item::Decoration,
-    };
-    // Fine lines first, axes on top of them.
-    for pass_axis in [false, true] {
-        for &k in &xs {
-            if (k == 0) == pass_axis {
-                let x = t.to_screen(Complex64::new(k as f64 * step, 0.0))[0];
-                shapes.push(line([x, 0.0], [x, h], pass_axis));
-            }
-        }
-        for &k in &ys {
-            if (k == 0) == pass_axis {
-                let y = t.to_screen(Complex64::new(0.0, k as f64 * step))[1];
-                shapes.push(line([0.0, y], [w, y], pass_axis));
-            }
-        }
-    }
-    let text_size = size::TICK_TEXT * s;
-    let pad = 5.0 * s;
-    let text = |pos: [f32; 2], text: String, anchor: Anchor| Shape::Text {
-        pos,
-        text,
-        size: text_size,
-        color: colors.label,
-        anchor,
-    };
-    // Keep labels clear of the corners, where the axis names go.
-    let name_room = 4.0 * text_size;
-    for &k in &xs {
-        let x = t.to_screen(Complex64::new(k as f64 * step, 0.0))[0];
-        if x > 2.5 * text_size && x < w - name_room {
-            shapes.push(text(
-                [x + pad * 0.6, h - pad],
-                tick_label(k as f64 * step, step),
-                Anchor::Start,
-            ));
-        }
-    }
-    for &k in &ys {
-        let y = t.to_screen(Complex64::new(0.0, k as f64 * step))[1];
-        if y > 2.5 * text_size && y < h - 2.0 * text_size {
-            shapes.push(text(
-                [pad, y - pad * 0.6],
-                tick_label(k as f64 * step, step),
-                Anchor::Start,
-            ));
-        }
-    }
-    shapes.push(text([w - pad, h - pad], x_name.into(), Anchor::End));
-    shapes.push(text([pad, pad + text_size], y_name.into(), Anchor::Start));
-    shapes
-}
-
 /// Dashed rays from every point whose sheets are permuted around it (the
 /// curve's cuts, along `CUT_DIRECTION`, nearly straight down) to just past
 /// the bottom of the picture.
@@ -623,232 +557,57 @@ fn cuts(curve: &Curve, t: &Transform, colors: &ThemeColors, s: f32, margin: f64)
     shapes
 }
 
-/// The marker of a singular point of the curve: an open diamond around the
-/// points it was split into.
-fn singular_marker(center: [f32; 2], colors: &ThemeColors, s: f32) -> Shape {
-    Shape::Square {
+/// The kinds of point markers, on the canvas and in the legend.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Marker {
+    /// A simple branch point: a filled dot.
+    BranchPoint,
+    /// A branch point where more sheets meet or the order is higher: a ring.
+    NonSimpleBranchPoint,
+    /// A singular point of the curve: an open diamond around the points it
+    /// was split into.
+    SingularPoint,
+    /// An open square.
+    Puncture,
+    /// A small ring.
+    Joint,
+}
+
+/// The one marker function: the shape of a `kind` marker at `center`, at
+/// size factor `s`, standing for `item`.
+pub fn marker(kind: Marker, center: [f32; 2], colors: &ThemeColors, s: f32, item: Item) -> Shape {
+    let ring = |radius: f32, stroke: f32| Shape::Circle {
         center,
-        half: 1.6 * size::RING_RADIUS * s,
-        fill: None,
-        stroke: Some((size::RING_STROKE * s, colors.foreground)),
-        diamond: true,
-        item: Item::Decoration,
-    }
-}
-
-/// Which kinds of markers are visible, for the legend, and where they are.
-struct Markers {
-    singular: bool,
-    simple_branch: bool,
-    other_branch: bool,
-    puncture: bool,
-    joint: bool,
-    points: Vec<[f32; 2]>,
-}
-
-/// The top-left corner of the legend box: the picture corner (top right,
-/// top left, bottom right, bottom left, in that order of preference) where
-/// the box hides the least wall length and no markers.
-fn legend_corner(
-    runs: &[Run],
-    opts: &SceneOptions,
-    s: f32,
-    box_size: [f32; 2],
-    markers: &[[f32; 2]],
-) -> [f32; 2] {
-    let t = &opts.transform;
-    let edge = 12.0 * s;
-    let has_title = opts.title.as_ref().is_some_and(|x| !x.trim().is_empty());
-    let top = if has_title { 40.0 * s } else { edge };
-    // Keep clear of the tick labels along the left and bottom edges.
-    let (left, bottom_room) = if opts.grid {
-        (
-            edge + 3.0 * size::TICK_TEXT * s,
-            edge + 1.5 * size::TICK_TEXT * s,
-        )
-    } else {
-        (edge, edge)
+        radius: radius * s,
+        fill: Some(colors.background),
+        stroke: Some((stroke * s, colors.foreground)),
+        item,
     };
-    let right = t.width - edge - box_size[0];
-    let bottom = t.height - bottom_room - box_size[1];
-    let candidates = [[right, top], [left, top], [right, bottom], [left, bottom]];
-    let hidden = |corner: [f32; 2]| -> f64 {
-        let rect = ClipRect {
-            min: [f64::from(corner[0]), f64::from(corner[1])],
-            max: [
-                f64::from(corner[0] + box_size[0]),
-                f64::from(corner[1] + box_size[1]),
-            ],
-        };
-        let walls: f64 = runs
-            .iter()
-            .flat_map(|r| &r.pieces)
-            .flat_map(|piece| clip_polyline(piece, &rect))
-            .map(|inside| polyline_length(&inside))
-            .sum();
-        // A hidden marker costs as much as a long stretch of wall.
-        let covered = markers
-            .iter()
-            .filter(|p| rect.contains([f64::from(p[0]), f64::from(p[1])]))
-            .count();
-        walls + 1000.0 * covered as f64
-    };
-    let mut best = candidates[0];
-    let mut best_hidden = hidden(best);
-    for &c in &candidates[1..] {
-        let h = hidden(c);
-        // Move only for a clear gain, so the legend does not hop about.
-        if h + 20.0 * f64::from(s) < best_hidden {
-            best = c;
-            best_hidden = h;
-        }
+    match kind {
+        Marker::BranchPoint => Shape::Circle {
+            center,
+            radius: size::BRANCH_RADIUS * s,
+            fill: Some(colors.foreground),
+            stroke: Some((1.0 * s, colors.background)),
+            item,
+        },
+        Marker::NonSimpleBranchPoint => ring(size::RING_RADIUS, size::RING_STROKE),
+        Marker::Joint => ring(size::JOINT_RADIUS, size::JOINT_STROKE),
+        Marker::SingularPoint => Shape::Square {
+            center,
+            half: 1.6 * size::RING_RADIUS * s,
+            fill: None,
+            stroke: Some((size::RING_STROKE * s, colors.foreground)),
+            diamond: true,
+            item,
+        },
+        Marker::Puncture => Shape::Square {
+            center,
+            half: size::PUNCTURE_HALF * s,
+            fill: Some(colors.background),
+            stroke: Some((size::PUNCTURE_STROKE * s, colors.foreground)),
+            diamond: false,
+            item,
+        },
     }
-    best
-}
-
-/// The box at the top right: one row per wall type drawn (a line sample in
-/// its colour and the 1-based type), then one row per visible marker kind.
-fn legend(
-    runs: &[Run],
-    rank: usize,
-    opts: &SceneOptions,
-    colors: &ThemeColors,
-    s: f32,
-    markers: Markers,
-) -> Vec<Shape> {
-    let mut kinds: BTreeMap<usize, WallType> = BTreeMap::new();
-    for run in runs {
-        kinds.insert(palette::type_index(run.kind), run.kind);
-    }
-    enum Row {
-        Wall(WallType),
-        Web,
-        Marker(Shape, &'static str),
-    }
-    let mut rows: Vec<Row> = kinds.values().map(|k| Row::Wall(*k)).collect();
-    if opts.web.iter().any(|line| line.len() >= 2) {
-        rows.push(Row::Web);
-    }
-    let text_size = size::LEGEND_TEXT * s;
-    let row_h = 1.45 * text_size;
-    let pad = 0.7 * text_size;
-    let sample = 2.0 * text_size;
-    let gap = 0.5 * text_size;
-    let placeholder = [0.0, 0.0];
-    if markers.simple_branch {
-        rows.push(Row::Marker(
-            Shape::Circle {
-                center: placeholder,
-                radius: size::BRANCH_RADIUS * s,
-                fill: Some(colors.foreground),
-                stroke: None,
-                item: Item::Decoration,
-            },
-            "branch point",
-        ));
-    }
-    if markers.other_branch {
-        rows.push(Row::Marker(
-            Shape::Circle {
-                center: placeholder,
-                radius: size::RING_RADIUS * s,
-                fill: Some(colors.background),
-                stroke: Some((size::RING_STROKE * s, colors.foreground)),
-                item: Item::Decoration,
-            },
-            "branch point, not simple",
-        ));
-    }
-    if markers.singular {
-        rows.push(Row::Marker(
-            singular_marker(placeholder, colors, s),
-            "singular point (drawn resolved)",
-        ));
-    }
-    if markers.puncture {
-        rows.push(Row::Marker(
-            Shape::Square {
-                center: placeholder,
-                half: size::PUNCTURE_HALF * s,
-                fill: Some(colors.background),
-                stroke: Some((size::PUNCTURE_STROKE * s, colors.foreground)),
-                diamond: false,
-                item: Item::Decoration,
-            },
-            "puncture (pole order)",
-        ));
-    }
-    if markers.joint {
-        rows.push(Row::Marker(
-            Shape::Circle {
-                center: placeholder,
-                radius: size::JOINT_RADIUS * s,
-                fill: Some(colors.background),
-                stroke: Some((size::JOINT_STROKE * s, colors.foreground)),
-                item: Item::Decoration,
-            },
-            "joint",
-        ));
-    }
-    if rows.is_empty() {
-        return Vec::new();
-    }
-    let label = |row: &Row| match row {
-        Row::Wall(k) => k.to_string(),
-        Row::Web => "BPS web".to_string(),
-        Row::Marker(_, text) => (*text).to_string(),
-    };
-    let max_em = rows
-        .iter()
-        .map(|r| text_width_em(&label(r)))
-        .fold(0.0_f32, f32::max);
-    let box_w = 2.0 * pad + sample + gap + max_em * text_size;
-    let box_h = 2.0 * pad + row_h * rows.len() as f32 - (row_h - text_size);
-    let min = legend_corner(runs, opts, s, [box_w, box_h], markers.points.as_slice());
-    let mut shapes = vec![Shape::Rect {
-        min,
-        max: [min[0] + box_w, min[1] + box_h],
-        fill: colors.legend_fill,
-        stroke: Some((1.0 * s, colors.legend_stroke)),
-    }];
-    for (n, row) in rows.iter().enumerate() {
-        // The row's vertical middle and the text baseline (digits and
-        // lowercase sit about a third of the size below the middle).
-        let mid_y = min[1] + pad + row_h * n as f32 + 0.5 * text_size;
-        let baseline = mid_y + 0.36 * text_size;
-        let x0 = min[0] + pad;
-        match row {
-            Row::Wall(kind) => shapes.push(Shape::Polyline {
-                points: vec![[x0, mid_y], [x0 + sample, mid_y]],
-                width: size::WALL * s * 1.4 * opts.line_factor(),
-                color: palette::wall_color(*kind, rank, opts.theme),
-                dashed: palette::wall_dashed(*kind, rank),
-                item: Item::Decoration,
-            }),
-            Row::Web => shapes.push(Shape::Polyline {
-                points: vec![[x0, mid_y], [x0 + sample, mid_y]],
-                width: size::WEB * s,
-                color: WEB_COLOR,
-                dashed: false,
-                item: Item::Decoration,
-            }),
-            Row::Marker(shape, _) => {
-                let c = [x0 + sample / 2.0, mid_y];
-                let mut shape = shape.clone();
-                match &mut shape {
-                    Shape::Circle { center, .. } | Shape::Square { center, .. } => *center = c,
-                    _ => {}
-                }
-                shapes.push(shape);
-            }
-        }
-        shapes.push(Shape::Text {
-            pos: [x0 + sample + gap, baseline],
-            text: label(row),
-            size: text_size,
-            color: colors.foreground,
-            anchor: Anchor::Start,
-        });
-    }
-    shapes
 }

@@ -9,8 +9,9 @@
 //! |Z|, so rays keep their true angles. Layers, bottom to top: background,
 //! grid, phase, rays, states, labels, legend, title.
 
-use super::build::{background_layer, grid_named, text_width_em};
-use super::palette::{state_color, theme_colors};
+use super::build::{background_layer, text_width_em};
+use super::grid::grid_named;
+use super::palette::{state_color, theme_colors, with_alpha, ThemeColors};
 use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
 use crate::scene::Theme;
 use crate::spectrum::{BpsState, Kind, Spectrum};
@@ -42,6 +43,14 @@ pub struct ChargeOptions {
     pub phase: Option<f64>,
     pub labels: bool,
     pub legend: bool,
+    /// A state (index into `Spectrum::states`) drawn with a wider ray and
+    /// a ring in the selection colour at Z and -Z.
+    pub selected: Option<usize>,
+    /// The states drawn faint: they belong to an earlier curve.
+    pub faded: bool,
+    /// Multiplies line widths, marker and text sizes; `None` picks it from
+    /// the picture (1 at 800 px on the short side, within [0.75, 3]).
+    pub scale: Option<f32>,
 }
 
 impl ChargeOptions {
@@ -54,11 +63,17 @@ impl ChargeOptions {
             phase: None,
             labels: true,
             legend: true,
+            selected: None,
+            faded: false,
+            scale: None,
         }
     }
 
     /// Sizes scale with the picture: 1 at 800 px on the short side.
     fn scale(&self) -> f32 {
+        if let Some(s) = self.scale.filter(|s| s.is_finite() && *s > 0.0) {
+            return s.min(10.0);
+        }
         let s = (self.width.min(self.height) / 800.0).clamp(0.75, 3.0);
         if s.is_finite() {
             s
@@ -126,10 +141,6 @@ pub fn state_label(st: &BpsState) -> String {
     }
 }
 
-fn faded(c: Rgba, alpha: u8) -> Rgba {
-    Rgba([c.0[0], c.0[1], c.0[2], alpha])
-}
-
 /// Builds the central-charge figure of `spectrum`.
 pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
     let colors = theme_colors(opts.theme);
@@ -144,11 +155,24 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
         });
     };
     let valid = t.is_valid();
-    let states: Vec<&BpsState> = spectrum
+    let states: Vec<(usize, &BpsState)> = spectrum
         .states
         .iter()
-        .filter(|st| st.z.re.is_finite() && st.z.im.is_finite())
+        .enumerate()
+        .filter(|(_, st)| st.z.re.is_finite() && st.z.im.is_finite())
         .collect();
+    // An earlier curve's states keep a third of their opacity.
+    let fade = |c: Rgba| {
+        if opts.faded {
+            with_alpha(c, (u16::from(c.0[3]) * 35 / 100) as u8)
+        } else {
+            c
+        }
+    };
+    let colors = ThemeColors {
+        foreground: fade(colors.foreground),
+        ..colors
+    };
     push(
         names::GRID,
         if valid {
@@ -174,18 +198,19 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
     let mut rays = Vec::new();
     let mut markers = Vec::new();
     let r = 5.0 * s;
-    for st in states.iter().filter(|_| valid) {
-        let color = state_color(st.kind, opts.theme);
+    for &(i, st) in states.iter().filter(|_| valid) {
+        let color = fade(state_color(st.kind, opts.theme));
+        let selected = opts.selected == Some(i);
         rays.push(Shape::Polyline {
             points: vec![origin, t.to_screen(-st.z)],
             width: 1.0 * s,
-            color: faded(color, 110),
+            color: with_alpha(color, (u16::from(color.0[3]) * 110 / 255) as u8),
             dashed: true,
             item: Item::Decoration,
         });
         rays.push(Shape::Polyline {
             points: vec![origin, t.to_screen(st.z)],
-            width: 1.8 * s,
+            width: if selected { 3.0 } else { 1.8 } * s,
             color,
             dashed: false,
             item: Item::Decoration,
@@ -206,6 +231,17 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
             true,
             colors.background,
         ));
+        if selected {
+            for z in [st.z, -st.z] {
+                markers.push(Shape::Circle {
+                    center: t.to_screen(z),
+                    radius: 1.7 * r,
+                    fill: None,
+                    stroke: Some((0.4 * r, colors.selection)),
+                    item: Item::Decoration,
+                });
+            }
+        }
     }
     push(names::RAYS, rays);
     push(names::STATES, markers);
@@ -216,12 +252,18 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
     let mut placed: Vec<[f32; 4]> = states
         .iter()
         .filter(|_| valid)
-        .flat_map(|st| [t.to_screen(st.z), t.to_screen(-st.z)])
+        .flat_map(|(_, st)| [t.to_screen(st.z), t.to_screen(-st.z)])
         .map(|[x, y]| [x - r, y - r, x + r, y + r])
         .collect();
     let mut labels = Vec::new();
     if opts.labels && valid {
-        for st in &states {
+        // The selected state's label first, so that it is never the one
+        // left out.
+        let order = states
+            .iter()
+            .filter(|(i, _)| opts.selected == Some(*i))
+            .chain(states.iter().filter(|(i, _)| opts.selected != Some(*i)));
+        for &(_, st) in order {
             let text = state_label(st);
             let [x, y] = t.to_screen(st.z);
             let w = text_width_em(&text) * text_size;
@@ -251,13 +293,14 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
                 pos: [rect[0], rect[3] - 0.15 * h],
                 text,
                 size: text_size,
-                color: state_color(st.kind, opts.theme),
+                color: fade(state_color(st.kind, opts.theme)),
                 anchor: Anchor::Start,
             });
         }
     }
     push(names::LABELS, labels);
     let legend = if opts.legend && valid && !states.is_empty() {
+        let states: Vec<&BpsState> = states.iter().map(|(_, st)| *st).collect();
         legend(&states, opts, s)
     } else {
         Vec::new()

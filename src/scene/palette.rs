@@ -25,15 +25,30 @@ use crate::scene::Theme;
 use crate::spectrum::Kind;
 use crate::walls::WallType;
 
+/// The eight published colours, each written once; every table and role
+/// below is made of them.
+pub mod okabe_ito {
+    use super::Rgba;
+    pub const BLACK: Rgba = Rgba::rgb(0x00, 0x00, 0x00);
+    pub const ORANGE: Rgba = Rgba::rgb(0xE6, 0x9F, 0x00);
+    pub const SKY_BLUE: Rgba = Rgba::rgb(0x56, 0xB4, 0xE9);
+    pub const BLUISH_GREEN: Rgba = Rgba::rgb(0x00, 0x9E, 0x73);
+    pub const YELLOW: Rgba = Rgba::rgb(0xF0, 0xE4, 0x42);
+    pub const BLUE: Rgba = Rgba::rgb(0x00, 0x72, 0xB2);
+    pub const VERMILLION: Rgba = Rgba::rgb(0xD5, 0x5E, 0x00);
+    pub const REDDISH_PURPLE: Rgba = Rgba::rgb(0xCC, 0x79, 0xA7);
+}
+use okabe_ito as oi;
+
 /// Wall colours on the light (paper) theme, in the order types are assigned.
 pub const WALL_COLORS_PAPER: [Rgba; 7] = [
-    Rgba::rgb(0x00, 0x72, 0xB2), // blue
-    Rgba::rgb(0xD5, 0x5E, 0x00), // vermillion
-    Rgba::rgb(0x00, 0x9E, 0x73), // bluish green
-    Rgba::rgb(0xE6, 0x9F, 0x00), // orange
-    Rgba::rgb(0xCC, 0x79, 0xA7), // reddish purple
-    Rgba::rgb(0x56, 0xB4, 0xE9), // sky blue
-    Rgba::rgb(0x00, 0x00, 0x00), // black
+    oi::BLUE,
+    oi::VERMILLION,
+    oi::BLUISH_GREEN,
+    oi::ORANGE,
+    oi::REDDISH_PURPLE,
+    oi::SKY_BLUE,
+    oi::BLACK,
 ];
 
 /// The same colours on the dark (projector) theme: black becomes white and
@@ -43,11 +58,11 @@ pub const WALL_COLORS_PAPER: [Rgba; 7] = [
 /// published values: all have at least 4.6:1 contrast on the dark background.
 pub const WALL_COLORS_PROJECTOR: [Rgba; 7] = [
     Rgba::rgb(0x2A, 0x8A, 0xD0), // blue, lifted
-    Rgba::rgb(0xD5, 0x5E, 0x00), // vermillion
-    Rgba::rgb(0x00, 0x9E, 0x73), // bluish green
-    Rgba::rgb(0xE6, 0x9F, 0x00), // orange
-    Rgba::rgb(0xCC, 0x79, 0xA7), // reddish purple
-    Rgba::rgb(0x56, 0xB4, 0xE9), // sky blue
+    oi::VERMILLION,
+    oi::BLUISH_GREEN,
+    oi::ORANGE,
+    oi::REDDISH_PURPLE,
+    oi::SKY_BLUE,
     Rgba::rgb(0xFF, 0xFF, 0xFF), // white in place of black
 ];
 
@@ -85,12 +100,12 @@ pub fn wall_dashed(kind: WallType, rank: usize) -> bool {
 /// The colour of a BPS state of `kind` in the central-charge plane:
 /// bluish green for hypermultiplets, reddish purple for vector multiplets,
 /// the foreground colour for states of unknown index (their diamond marker
-/// tells them apart as well). Orange stays free for the selection, which
-/// the canvas highlights in orange too.
+/// tells them apart as well). Orange stays free for the selection
+/// ([`ThemeColors::selection`]).
 pub fn state_color(kind: Kind, theme: Theme) -> Rgba {
     match kind {
-        Kind::Hyper => Rgba::rgb(0x00, 0x9E, 0x73),
-        Kind::Vector => Rgba::rgb(0xCC, 0x79, 0xA7),
+        Kind::Hyper => oi::BLUISH_GREEN,
+        Kind::Vector => oi::REDDISH_PURPLE,
         Kind::Other => theme_colors(theme).foreground,
     }
 }
@@ -112,6 +127,20 @@ pub struct ThemeColors {
     /// The legend's box.
     pub legend_fill: Rgba,
     pub legend_stroke: Rgba,
+    /// What is selected: a BPS state's ring in the central-charge plane.
+    pub selection: Rgba,
+    /// The selected state's web on the canvas: the selection colour,
+    /// translucent, so that the walls along it stay readable.
+    pub web: Rgba,
+    /// The halo under the selected wall: the foreground, faint.
+    pub halo: Rgba,
+    /// Ticks at the critical phases on the phase slider.
+    pub critical_phase: Rgba,
+}
+
+/// `c` with another opacity.
+pub const fn with_alpha(c: Rgba, alpha: u8) -> Rgba {
+    Rgba([c.0[0], c.0[1], c.0[2], alpha])
 }
 
 /// Neutral colours for `theme`.
@@ -126,6 +155,10 @@ pub fn theme_colors(theme: Theme) -> ThemeColors {
             foreground: Rgba::rgb(0x00, 0x00, 0x00),
             legend_fill: Rgba([0xFF, 0xFF, 0xFF, 0xE6]),
             legend_stroke: Rgba::rgb(0xC8, 0xC8, 0xC8),
+            selection: oi::ORANGE,
+            web: with_alpha(oi::ORANGE, 150),
+            halo: with_alpha(oi::BLACK, 50),
+            critical_phase: oi::VERMILLION,
         },
         Theme::Projector => ThemeColors {
             background: Rgba::rgb(0x15, 0x17, 0x1C),
@@ -136,8 +169,37 @@ pub fn theme_colors(theme: Theme) -> ThemeColors {
             foreground: Rgba::rgb(0xF2, 0xF2, 0xF2),
             legend_fill: Rgba([0x15, 0x17, 0x1C, 0xE6]),
             legend_stroke: Rgba::rgb(0x44, 0x49, 0x54),
+            selection: oi::ORANGE,
+            web: with_alpha(oi::ORANGE, 150),
+            halo: Rgba([0xF2, 0xF2, 0xF2, 50]),
+            critical_phase: oi::VERMILLION,
         },
     }
+}
+
+/// Chamber fills of the parameter map: the Okabe-Ito colours (yellow
+/// included: as a translucent fill it reads on paper) and a neutral grey,
+/// in an order that keeps neighbours apart. From the ninth class on they
+/// repeat.
+const CHAMBER_FILLS: [Rgba; 8] = [
+    oi::BLUISH_GREEN,
+    oi::SKY_BLUE,
+    oi::ORANGE,
+    oi::REDDISH_PURPLE,
+    oi::YELLOW,
+    oi::BLUE,
+    oi::VERMILLION,
+    Rgba::rgb(0x99, 0x99, 0x99), // grey
+];
+
+/// The fill of chamber class `class` (translucent, so the grid shows).
+pub fn chamber_color(class: usize, theme: Theme) -> Rgba {
+    let c = CHAMBER_FILLS[class % CHAMBER_FILLS.len()];
+    let alpha = match theme {
+        Theme::Paper => 90,
+        Theme::Projector => 110,
+    };
+    with_alpha(c, alpha)
 }
 
 #[cfg(test)]
@@ -170,6 +232,16 @@ mod tests {
             wall_color(WallType::new(1, 0), 2, Theme::Paper),
             Rgba::rgb(0xD5, 0x5E, 0x00)
         );
+    }
+
+    #[test]
+    fn the_halo_is_the_foreground_made_faint() {
+        for theme in [Theme::Paper, Theme::Projector] {
+            let c = theme_colors(theme);
+            assert_eq!(c.halo.0[..3], c.foreground.0[..3]);
+            assert!(c.halo.opacity() < 0.25);
+            assert_eq!(c.web.0[..3], c.selection.0[..3]);
+        }
     }
 
     #[test]

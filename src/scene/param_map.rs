@@ -4,9 +4,10 @@
 //! parameter value. The same [`Scene`] as every other figure, so the window,
 //! the SVG and the PNG writers draw it alike.
 
-use super::build::{background_layer, grid_named, text_width_em};
-use super::palette::theme_colors;
-use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
+use super::build::{background_layer, text_width_em};
+use super::grid::grid_named;
+use super::palette::{chamber_color, theme_colors};
+use super::{Anchor, Item, Layer, Scene, Shape, Transform};
 use crate::scan::summary::MapSummary;
 use crate::scan::Grid;
 use crate::scenario::Theme;
@@ -61,30 +62,6 @@ impl MapOptions {
             1.0
         }
     }
-}
-
-/// Chamber fills: the Okabe-Ito colours (yellow included: as a
-/// translucent fill it reads on paper) and a neutral grey, in an order that
-/// keeps neighbours apart. From the ninth class on they repeat.
-const CHAMBER_FILLS: [Rgba; 8] = [
-    Rgba::rgb(0x00, 0x9E, 0x73), // bluish green
-    Rgba::rgb(0x56, 0xB4, 0xE9), // sky blue
-    Rgba::rgb(0xE6, 0x9F, 0x00), // orange
-    Rgba::rgb(0xCC, 0x79, 0xA7), // reddish purple
-    Rgba::rgb(0xF0, 0xE4, 0x42), // yellow
-    Rgba::rgb(0x00, 0x72, 0xB2), // blue
-    Rgba::rgb(0xD5, 0x5E, 0x00), // vermillion
-    Rgba::rgb(0x99, 0x99, 0x99), // grey
-];
-
-/// The fill of chamber class `class` (translucent, so the grid shows).
-pub fn chamber_color(class: usize, theme: Theme) -> Rgba {
-    let c = CHAMBER_FILLS[class % CHAMBER_FILLS.len()];
-    let alpha = match theme {
-        Theme::Paper => 90,
-        Theme::Projector => 110,
-    };
-    Rgba([c.0[0], c.0[1], c.0[2], alpha])
 }
 
 /// The view: the grid's rectangle with a margin.

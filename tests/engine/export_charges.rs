@@ -216,3 +216,74 @@ fn spectrum_plot_writes_the_figure() {
     }
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn a_selected_state_is_ringed_and_its_ray_widened() {
+    let spectrum = cubic_spectrum();
+    let mut opts = ChargeOptions::new(600.0, 600.0, Theme::Paper);
+    opts.selected = Some(1);
+    let scene = build_charges(&spectrum, &opts);
+    let selection = wallflower::scene::palette::theme_colors(Theme::Paper).selection;
+    let states = scene.layer(charge_layer_names::STATES).unwrap();
+    let rings: Vec<[f32; 2]> = states
+        .shapes
+        .iter()
+        .filter_map(|s| match s {
+            Shape::Circle {
+                center,
+                fill: None,
+                stroke: Some((_, c)),
+                ..
+            } if *c == selection => Some(*center),
+            _ => None,
+        })
+        .collect();
+    let t = scene.transform;
+    let z = spectrum.states[1].z;
+    assert_eq!(rings, vec![t.to_screen(z), t.to_screen(-z)]);
+    // Solid rays from 0 to Z: the selected one is the widest.
+    let widths: Vec<f32> = scene
+        .layer(charge_layer_names::RAYS)
+        .unwrap()
+        .shapes
+        .iter()
+        .filter_map(|s| match s {
+            Shape::Polyline {
+                width,
+                dashed: false,
+                ..
+            } => Some(*width),
+            _ => None,
+        })
+        .collect();
+    assert_eq!(widths.len(), 3);
+    assert!(
+        widths[1] > 1.5 * widths[0] && widths[1] > 1.5 * widths[2],
+        "{widths:?}"
+    );
+}
+
+#[test]
+fn a_stale_spectrum_is_drawn_faint() {
+    let spectrum = cubic_spectrum();
+    let opacities = |faded: bool| -> Vec<u8> {
+        let mut opts = ChargeOptions::new(600.0, 600.0, Theme::Projector);
+        opts.faded = faded;
+        let scene = build_charges(&spectrum, &opts);
+        scene
+            .layer(charge_layer_names::RAYS)
+            .unwrap()
+            .shapes
+            .iter()
+            .filter_map(|s| match s {
+                Shape::Polyline { color, .. } => Some(color.0[3]),
+                _ => None,
+            })
+            .collect()
+    };
+    let (fresh, stale) = (opacities(false), opacities(true));
+    assert_eq!(fresh.len(), stale.len());
+    for (a, b) in fresh.iter().zip(&stale) {
+        assert!(u16::from(*b) * 2 < u16::from(*a), "{fresh:?} -> {stale:?}");
+    }
+}

@@ -344,3 +344,42 @@ proptest! {
         prop_assert!(up[1] < mid[1]);
     }
 }
+
+#[test]
+fn the_highlighted_wall_has_a_halo_under_the_walls() {
+    let (curve, net) = cubic();
+    let halo = wallflower::scene::palette::theme_colors(Theme::Paper).halo;
+    let halo_points = |highlight: Option<usize>| -> Vec<[f32; 2]> {
+        let mut opts = SceneOptions::new(whole_view(&net, 800.0, 800.0), Theme::Paper);
+        opts.highlight = highlight;
+        let scene = build(&curve, &net, &opts);
+        scene
+            .layer(layer_names::WEB)
+            .unwrap()
+            .shapes
+            .iter()
+            .filter_map(|s| match s {
+                Shape::Polyline { points, color, .. } if *color == halo => Some(points.clone()),
+                _ => None,
+            })
+            .flatten()
+            .collect()
+    };
+    assert!(halo_points(None).is_empty());
+    let along = halo_points(Some(2));
+    assert!(!along.is_empty());
+    // The halo follows wall 2: its points are that wall's, on screen.
+    let t = whole_view(&net, 800.0, 800.0);
+    let wall: Vec<[f32; 2]> = net.walls[2]
+        .points
+        .iter()
+        .map(|p| t.to_screen(p.z))
+        .collect();
+    for p in &along {
+        let d = wall
+            .iter()
+            .map(|q| (p[0] - q[0]).hypot(p[1] - q[1]))
+            .fold(f32::INFINITY, f32::min);
+        assert!(d < 0.5, "halo point {p:?} is {d} px off the wall");
+    }
+}

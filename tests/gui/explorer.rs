@@ -21,9 +21,10 @@ fn harness(scenario: Scenario) -> Harness<'static, WallflowerApp> {
 
 fn n_walls(h: &Harness<'_, WallflowerApp>) -> usize {
     h.state()
-        .shown
+        .network
+        .latest
         .as_ref()
-        .map_or(0, |s| s.computed.network.walls.len())
+        .map_or(0, |s| s.value.network.walls.len())
 }
 
 fn two_zeros() -> Scenario {
@@ -65,7 +66,7 @@ fn a_adding_a_branch_point_adds_three_walls() {
     click_plane(&mut h, Complex64::new(0.2, 1.3));
     wait_for_worker(&mut h);
 
-    let q = h.state().scenario.quadratic.clone().unwrap();
+    let q = h.state().doc.scenario.quadratic.clone().unwrap();
     assert_eq!(q.zeros.len(), 3);
     let z = q.zeros[2];
     assert!(
@@ -78,7 +79,7 @@ fn a_adding_a_branch_point_adds_three_walls() {
 
 /// Direction (radians) of each wall's first stretch, out to |z - b| = r.
 fn first_directions(h: &Harness<'_, WallflowerApp>, r: f64) -> Vec<f64> {
-    let net = &h.state().shown.as_ref().unwrap().computed.network;
+    let net = &h.state().network.latest.as_ref().unwrap().value.network;
     let b = net.branch_points[0].z;
     net.walls
         .iter()
@@ -130,7 +131,7 @@ fn b_phase_slider_turns_walls_by_two_thirds_of_the_change() {
     h.get_by_role_and_label(egui::accesskit::Role::Slider, "Phase \u{3b8}")
         .set_value_accesskit(delta);
     wait_for_worker(&mut h);
-    assert!((h.state().scenario.phase - delta).abs() < 1e-9);
+    assert!((h.state().doc.scenario.phase - delta).abs() < 1e-9);
     let after = first_directions(&h, 0.5);
     let turned = set_rotation(&before, &after);
     assert!(
@@ -145,14 +146,14 @@ fn c_clicking_a_wall_shows_its_jump_matrix() {
     let mut h = harness(two_zeros());
     wait_for_worker(&mut h);
     let (z, kind, mu) = {
-        let net = &h.state().shown.as_ref().unwrap().computed.network;
+        let net = &h.state().network.latest.as_ref().unwrap().value.network;
         // A point well along the first wall, on screen.
         let w = &net.walls[0];
         let k = w.points.iter().position(|p| p.mass > 0.5).unwrap();
         (w.points[k].z, w.kind_at(k), w.multiplicity_at(k))
     };
     // A little off the wall, inside the hit tolerance.
-    let tf = h.state().transform.unwrap();
+    let tf = h.state().interaction.canvas_transform.unwrap();
     let off = Complex64::new(2.0 / tf.pixels_per_unit(), 0.0);
     click_plane(&mut h, z + off);
     h.run_steps(2);
@@ -202,23 +203,23 @@ fn c_clicking_a_wall_shows_its_jump_matrix() {
 fn d_undo_restores_the_previous_curve_exactly() {
     let mut h = harness(two_zeros());
     wait_for_worker(&mut h);
-    let original = h.state().scenario.quadratic.clone();
+    let original = h.state().doc.scenario.quadratic.clone();
 
     h.get_by_label("Add branch point").click();
     h.step();
     click_plane(&mut h, Complex64::new(0.0, 1.0));
     wait_for_worker(&mut h);
-    assert_ne!(h.state().scenario.quadratic, original);
-    let edited = h.state().scenario.quadratic.clone();
+    assert_ne!(h.state().doc.scenario.quadratic, original);
+    let edited = h.state().doc.scenario.quadratic.clone();
 
     h.get_by_label("Undo").click();
     wait_for_worker(&mut h);
-    assert_eq!(h.state().scenario.quadratic, original);
+    assert_eq!(h.state().doc.scenario.quadratic, original);
     assert_eq!(n_walls(&h), 6);
 
     h.get_by_label("Redo").click();
     wait_for_worker(&mut h);
-    assert_eq!(h.state().scenario.quadratic, edited);
+    assert_eq!(h.state().doc.scenario.quadratic, edited);
 }
 
 #[test]
@@ -229,7 +230,7 @@ fn e_bad_equation_shows_inline_error_and_keeps_the_network() {
         ..Scenario::default()
     });
     wait_for_worker(&mut h);
-    let shown_before = h.state().shown.as_ref().unwrap().generation;
+    let shown_before = h.state().network.latest.as_ref().unwrap().generation;
     assert_eq!(n_walls(&h), 9);
 
     let field = h.get_by_label("Equation");
@@ -237,10 +238,16 @@ fn e_bad_equation_shows_inline_error_and_keeps_the_network() {
     field.type_text(" + *");
     h.run_steps(3);
     h.get_by_label_contains("column ");
-    assert!(h.state().equation_error.is_some());
+    assert!(h.state().doc.equation_error.is_some());
     wait_for_worker(&mut h);
-    assert_eq!(h.state().scenario.curve.as_deref(), Some("y^2 = z^3 - 1"));
-    assert_eq!(h.state().shown.as_ref().unwrap().generation, shown_before);
+    assert_eq!(
+        h.state().doc.scenario.curve.as_deref(),
+        Some("y^2 = z^3 - 1")
+    );
+    assert_eq!(
+        h.state().network.latest.as_ref().unwrap().generation,
+        shown_before
+    );
     assert_eq!(n_walls(&h), 9, "the last good network stays");
 }
 
@@ -250,7 +257,7 @@ fn a_loop_drawn_around_a_branch_point_has_trivial_product() {
     wait_for_worker(&mut h);
     h.get_by_label("Draw path").click();
     h.step();
-    assert_eq!(h.state().tool, wallflower::app::Tool::Path);
+    assert_eq!(h.state().view.tool, wallflower::app::Tool::Path);
     // A closed counterclockwise octagon of radius 0.3 about the branch point.
     let n = 8;
     for k in 0..=n {
@@ -261,7 +268,7 @@ fn a_loop_drawn_around_a_branch_point_has_trivial_product() {
         click_plane(&mut h, z);
     }
     h.run_steps(2);
-    assert_eq!(h.state().path_in_plane.len(), 9);
+    assert_eq!(h.state().view.path_in_plane.len(), 9);
     let (m, crossings) = h.state_mut().path_product().expect("a product is shown");
     // Three walls and the cut: flatness of the jump matrices around a
     // simple branch point (the Airy Stokes relation closed by the cut).
@@ -294,21 +301,21 @@ fn the_next_critical_phase_key_lands_on_a_saddle() {
         ..two_zeros()
     });
     wait_for_spectrum(&mut h);
-    let z_abs = h.state().spectrum.as_ref().unwrap().states[0].abs;
+    let z_abs = h.state().spectrum.value().unwrap().states[0].abs;
     assert!((z_abs - std::f64::consts::PI).abs() < 1e-6, "|Z| = {z_abs}");
     let phases = h.state().critical_phases();
     // q = z^2 - 1: one hypermultiplet (its two phases half a turn apart).
     assert_eq!(phases.len(), 2, "{phases:?}");
     h.key_press(egui::Key::CloseBracket);
     wait_for_worker(&mut h);
-    let theta = h.state().scenario.phase;
+    let theta = h.state().doc.scenario.phase;
     assert!(
         phases.iter().any(|(t, _)| (t - theta).abs() < 1e-12),
         "phase {theta} is not a critical phase {phases:?}"
     );
     // At a critical phase the two branch points are joined by a saddle:
     // walls from each run into the other.
-    let net = &h.state().shown.as_ref().unwrap().computed.network;
+    let net = &h.state().network.latest.as_ref().unwrap().value.network;
     let saddles = net
         .walls
         .iter()
@@ -324,9 +331,10 @@ fn the_next_critical_phase_key_lands_on_a_saddle() {
 fn click_z_plane(h: &mut Harness<'_, WallflowerApp>, z: Complex64) {
     let tf = h
         .state()
-        .z_plot_transform
+        .interaction
+        .charges_transform
         .expect("the central-charge plane was drawn");
-    let pos = tf.position_from_point(&egui_plot::PlotPoint::new(z.re, z.im));
+    let pos = tf.to_screen(z);
     h.hover_at(pos);
     h.step();
     for pressed in [true, false] {
@@ -343,29 +351,29 @@ fn clicking_a_state_in_the_central_charge_plane_turns_to_its_phase() {
     });
     wait_for_spectrum(&mut h);
     h.get_by_label("Central charges");
-    let st = h.state().spectrum.as_ref().unwrap().states[0].clone();
+    let st = h.state().spectrum.value().unwrap().states[0].clone();
     // The plotted Z of the oscillator's one state: |Z| = pi (the area of
     // the classical orbit, Bohr-Sommerfeld; elementary integral).
     assert!((st.z.norm() - std::f64::consts::PI).abs() < 1e-6);
     assert!(
-        (h.state().scenario.phase - st.phase).abs() > 0.05,
+        (h.state().doc.scenario.phase - st.phase).abs() > 0.05,
         "start away from the critical phase"
     );
 
     click_z_plane(&mut h, st.z);
     wait_for_worker(&mut h);
     assert!(
-        (h.state().scenario.phase - st.phase).abs() < 1e-12,
+        (h.state().doc.scenario.phase - st.phase).abs() < 1e-12,
         "phase {} after clicking Z, want {}",
-        h.state().scenario.phase,
+        h.state().doc.scenario.phase,
         st.phase
     );
     assert_eq!(
-        h.state().selection,
+        h.state().view.selection,
         Some(wallflower::app::command::Selection::State(0))
     );
     // At that phase the state's saddle is in the network.
-    let net = &h.state().shown.as_ref().unwrap().computed.network;
+    let net = &h.state().network.latest.as_ref().unwrap().value.network;
     assert!(net.walls.iter().any(|w| w.end.code() == "branch_point"));
 
     // Its antiparticle -Z is critical half a turn later.
@@ -373,15 +381,15 @@ fn clicking_a_state_in_the_central_charge_plane_turns_to_its_phase() {
     wait_for_worker(&mut h);
     let want = st.phase + std::f64::consts::PI;
     assert!(
-        (h.state().scenario.phase - want).abs() < 1e-12,
+        (h.state().doc.scenario.phase - want).abs() < 1e-12,
         "phase {} after clicking -Z, want {want}",
-        h.state().scenario.phase
+        h.state().doc.scenario.phase
     );
 
     // A click on empty plane selects nothing new and keeps the phase.
     click_z_plane(&mut h, st.z * Complex64::new(0.0, 0.6));
     h.run_steps(2);
-    assert!((h.state().scenario.phase - want).abs() < 1e-12);
+    assert!((h.state().doc.scenario.phase - want).abs() < 1e-12);
 }
 
 /// Drags the zero at `from` along a straight line to `to` in `frames`
@@ -393,7 +401,7 @@ fn drag_zero(
     frames: usize,
     mut during: impl FnMut(&WallflowerApp),
 ) {
-    let tf = h.state().transform.unwrap();
+    let tf = h.state().interaction.canvas_transform.unwrap();
     let pos = tf.to_screen(from);
     h.hover_at(pos);
     h.step();
@@ -432,7 +440,7 @@ fn a_cheap_spectrum_follows_a_drag_live() {
         Complex64::new(1.6, 0.3),
         60,
         |app| {
-            if let Some(s) = &app.spectrum {
+            if let Some(s) = app.spectrum.value() {
                 if let Some(st) = s.states.first() {
                     if seen.last().is_none_or(|a| (a - st.abs).abs() > 1e-9) {
                         seen.push(st.abs);
@@ -446,8 +454,8 @@ fn a_cheap_spectrum_follows_a_drag_live() {
         "the spectrum did not follow the drag: |Z| values seen {seen:?}"
     );
     wait_for_spectrum(&mut h);
-    let q = h.state().scenario.quadratic.clone().unwrap();
-    let st = &h.state().spectrum.as_ref().unwrap().states[0];
+    let q = h.state().doc.scenario.quadratic.clone().unwrap();
+    let st = &h.state().spectrum.value().unwrap().states[0];
     let want = oscillator_abs(q.zeros[0], q.zeros[1]);
     assert!(
         (st.abs - want).abs() < 1e-7 * want,
@@ -463,7 +471,7 @@ fn a_slow_spectrum_waits_for_the_release_and_says_it_is_out_of_date() {
         ..two_zeros()
     });
     wait_for_spectrum(&mut h);
-    let before = h.state().spectrum.as_ref().unwrap().states[0].abs;
+    let before = h.state().spectrum.value().unwrap().states[0].abs;
     // As if every spectrum were too slow to follow a drag.
     h.state_mut().live_spectrum_limit_ms = 0.0;
     let mut waited_frames = 0;
@@ -478,7 +486,7 @@ fn a_slow_spectrum_waits_for_the_release_and_says_it_is_out_of_date() {
                 waited_frames += 1;
             }
 
-            let now = app.spectrum.as_ref().unwrap().states[0].abs;
+            let now = app.spectrum.value().unwrap().states[0].abs;
             changed_during_drag |= (now - before).abs() > 1e-9;
         },
     );
@@ -493,8 +501,8 @@ fn a_slow_spectrum_waits_for_the_release_and_says_it_is_out_of_date() {
         "a slow spectrum was recomputed mid-drag"
     );
     wait_for_spectrum(&mut h);
-    let q = h.state().scenario.quadratic.clone().unwrap();
-    let after = h.state().spectrum.as_ref().unwrap().states[0].abs;
+    let q = h.state().doc.scenario.quadratic.clone().unwrap();
+    let after = h.state().spectrum.value().unwrap().states[0].abs;
     let want = oscillator_abs(q.zeros[0], q.zeros[1]);
     assert!(
         (after - want).abs() < 1e-7 * want,
@@ -510,7 +518,7 @@ fn the_out_of_date_mark_shows_while_a_drag_waits() {
     });
     wait_for_spectrum(&mut h);
     h.state_mut().live_spectrum_limit_ms = 0.0;
-    let tf = h.state().transform.unwrap();
+    let tf = h.state().interaction.canvas_transform.unwrap();
     let pos = tf.to_screen(Complex64::new(1.0, 0.0));
     h.hover_at(pos);
     h.step();
@@ -534,7 +542,7 @@ fn the_central_charges_export_beside_the_network_figure() {
     wait_for_spectrum(&mut h);
     let dir = std::env::temp_dir().join(format!("wallflower-zexport-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    h.state_mut().export_path = dir.join("fig.svg").display().to_string();
+    h.state_mut().export.path = dir.join("fig.svg").display().to_string();
     h.get_by_label("Export central charges").click();
     h.run_steps(3);
     let written = dir.join("fig-charges.svg");
@@ -549,7 +557,8 @@ fn the_central_charges_export_beside_the_network_figure() {
     assert_eq!(svg.matches(">H \u{3a9}=1<").count(), 2, "{svg}");
     assert!(h
         .state()
-        .file_message
+        .files
+        .message
         .as_deref()
         .is_some_and(|m| m.contains("fig-charges.svg")));
     let _ = std::fs::remove_dir_all(&dir);
@@ -578,11 +587,55 @@ fn the_window_numbers_joints_like_the_command_line() {
     }
     // ... and the same rows as the engine's joints counted from 1 (a
     // 0-based window would show other pairs).
-    let shown = h.state().shown.as_ref().unwrap();
-    for j in &shown.computed.network.joints {
+    let shown = h.state().network.latest.as_ref().unwrap();
+    for j in &shown.value.network.joints {
         let parents = format!("{}, {}", j.parents[0] + 1, j.parents[1] + 1);
         assert!(joints
             .iter()
             .any(|cli| { format!("{}, {}", cli["parents"][0], cli["parents"][1]) == parents }));
     }
+}
+
+/// Play, the tool and the sort order go through the command handler like
+/// every other change: Space starts the animation (the phase moves on),
+/// Space again stops it, Escape leaves the path tool, and a second click
+/// on a column header turns the walls table round.
+#[test]
+fn keys_and_buttons_change_the_view_through_commands() {
+    let mut h = harness(two_zeros());
+    wait_for_worker(&mut h);
+    let start = h.state().doc.scenario.phase;
+    h.key_press(egui::Key::Space);
+    h.step();
+    assert!(h.state().view.playback.playing);
+    for _ in 0..5 {
+        std::thread::sleep(Duration::from_millis(20));
+        h.step();
+    }
+    assert!(
+        h.state().doc.scenario.phase > start,
+        "the phase did not move"
+    );
+    h.key_press(egui::Key::Space);
+    h.step();
+    assert!(!h.state().view.playback.playing);
+    let stopped = h.state().doc.scenario.phase;
+    h.run_steps(3);
+    assert_eq!(h.state().doc.scenario.phase, stopped);
+
+    h.get_by_label("Draw path").click();
+    h.step();
+    assert_eq!(h.state().view.tool, wallflower::app::Tool::Path);
+    h.key_press(egui::Key::Escape);
+    h.step();
+    assert_eq!(h.state().view.tool, wallflower::app::Tool::Select);
+
+    h.get_by_label("mass").click();
+    h.step();
+    assert_eq!(h.state().view.wall_sort, wallflower::app::WallSort::Mass);
+    assert!(!h.state().view.wall_sort_descending);
+    h.step();
+    h.get_by_label("mass ^").click();
+    h.step();
+    assert!(h.state().view.wall_sort_descending);
 }

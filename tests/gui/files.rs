@@ -40,7 +40,7 @@ fn save_then_open_round_trips_and_marks_unsaved_edits() {
     let app = WallflowerApp::with_scenario(two_zeros(), None, &AppOptions::default());
     let mut h = harness_with(app);
     wait_for_worker(&mut h);
-    h.state_mut().path_field = file.display().to_string();
+    h.state_mut().files.path_field = file.display().to_string();
     h.get_by_label("Save as").click();
     h.run_steps(2);
     assert!(
@@ -66,9 +66,9 @@ fn save_then_open_round_trips_and_marks_unsaved_edits() {
 
     h.get_by_label("Open").click();
     wait_for_worker(&mut h);
-    assert_eq!(h.state().scenario.quadratic, two_zeros().quadratic);
+    assert_eq!(h.state().doc.scenario.quadratic, two_zeros().quadratic);
     assert!(!h.state().is_dirty());
-    assert_eq!(h.state().recent.len(), 1);
+    assert_eq!(h.state().files.recent.len(), 1);
     std::fs::remove_dir_all(&dir).unwrap();
 }
 
@@ -84,26 +84,27 @@ fn unsaved_edits_are_offered_back_at_the_next_start() {
     let edited = {
         let mut h = harness_with(WallflowerApp::with_scenario(two_zeros(), None, &opts));
         wait_for_worker(&mut h);
-        assert!(h.state().recovery_offer.is_none());
+        assert!(h.state().files.recovery_offer.is_none());
         h.get_by_label("Add branch point").click();
         h.step();
         click_plane(&mut h, Complex64::new(0.3, -0.8));
         h.run_steps(3);
         assert!(dir.join("recovery.ron").exists(), "the edit was autosaved");
-        h.state().scenario.quadratic.clone()
+        h.state().doc.scenario.quadratic.clone()
     };
     let mut h = harness_with(WallflowerApp::with_scenario(two_zeros(), None, &opts));
     wait_for_worker(&mut h);
-    assert!(h.state().recovery_offer.is_some());
+    assert!(h.state().files.recovery_offer.is_some());
     h.get_by_label("Restore them").click();
     wait_for_worker(&mut h);
-    assert_eq!(h.state().scenario.quadratic, edited);
+    assert_eq!(h.state().doc.scenario.quadratic, edited);
     assert_eq!(
         h.state()
-            .shown
+            .network
+            .latest
             .as_ref()
             .unwrap()
-            .computed
+            .value
             .network
             .walls
             .len(),
@@ -122,19 +123,20 @@ fn delete_key_removes_the_selected_branch_point() {
     wait_for_worker(&mut h);
     click_plane(&mut h, Complex64::new(1.0, 0.0));
     assert!(
-        h.state().selection.is_some(),
+        h.state().view.selection.is_some(),
         "clicking the point selects it"
     );
     h.key_press(egui::Key::Delete);
     wait_for_worker(&mut h);
-    let q = h.state().scenario.quadratic.clone().unwrap();
+    let q = h.state().doc.scenario.quadratic.clone().unwrap();
     assert_eq!(q.zeros, vec![[-1.0, 0.0]]);
     assert_eq!(
         h.state()
-            .shown
+            .network
+            .latest
             .as_ref()
             .unwrap()
-            .computed
+            .value
             .network
             .walls
             .len(),
@@ -153,18 +155,19 @@ fn export_writes_the_shared_scene_as_svg_and_png() {
     wait_for_worker(&mut h);
     for name in ["fig.svg", "fig.png"] {
         let path = dir.join(name);
-        h.state_mut().export_path = path.display().to_string();
-        h.state_mut().export_size = [640, 480];
+        h.state_mut().export.path = path.display().to_string();
+        h.state_mut().export.size = [640, 480];
         h.get_by_label("Export").click();
         h.run_steps(2);
         assert!(
             h.state()
-                .file_message
+                .files
+                .message
                 .as_deref()
                 .unwrap_or("")
                 .starts_with("exported"),
             "{:?}",
-            h.state().file_message
+            h.state().files.message
         );
         assert!(path.exists());
     }
@@ -177,25 +180,26 @@ fn export_writes_the_shared_scene_as_svg_and_png() {
     assert_eq!((png.width(), png.height()), (640, 480));
     // The SVG is exactly what the shared writer makes of the shared scene.
     let app = h.state();
-    let shown = app.shown.as_ref().unwrap();
+    let shown = app.network.latest.as_ref().unwrap();
     let opts = wallflower::scene::SceneOptions::new(
         wallflower::scene::Transform {
-            center: app.view.center,
-            half_width: app.view.half_width,
+            center: app.view.plane.center,
+            half_width: app.view.plane.half_width,
             width: 640.0,
             height: 480.0,
         },
-        app.export_theme,
+        app.export.theme,
     );
-    let scene = wallflower::scene::build(&shown.computed.curve, &shown.computed.network, &opts);
+    let scene = wallflower::scene::build(&shown.value.curve, &shown.value.network, &opts);
     assert_eq!(svg, wallflower::export::to_svg(&scene));
 
-    h.state_mut().export_path = dir.join("fig.txt").display().to_string();
+    h.state_mut().export.path = dir.join("fig.txt").display().to_string();
     h.get_by_label("Export").click();
     h.run_steps(2);
     assert!(h
         .state()
-        .file_message
+        .files
+        .message
         .as_deref()
         .unwrap()
         .contains(".svg or .png"));
@@ -245,7 +249,7 @@ fn failing_save_keeps_the_edits(
     click_plane(&mut h, Complex64::new(0.4, 0.9));
     wait_for_worker(&mut h);
     assert!(h.state().is_dirty());
-    let edited = h.state().scenario.clone();
+    let edited = h.state().doc.scenario.clone();
     let listing = |d: &std::path::Path| {
         let mut v: Vec<_> = std::fs::read_dir(d)
             .unwrap()
@@ -264,13 +268,13 @@ fn failing_save_keeps_the_edits(
 
     let app = h.state();
     assert!(app.is_dirty(), "the edits are still marked unsaved");
-    assert_eq!(app.scenario.quadratic, edited.quadratic);
-    let msg = app.file_message.clone().unwrap_or_default();
+    assert_eq!(app.doc.scenario.quadratic, edited.quadratic);
+    let msg = app.files.message.clone().unwrap_or_default();
     assert!(
         msg.starts_with("NOT saved") && msg.contains("recovery file"),
         "{msg}"
     );
-    assert!(app.save_error.is_some());
+    assert!(app.files.save_error.is_some());
     assert!(app.title().starts_with("* "), "{}", app.title());
     h.get_by_label("NOT saved: edits kept");
     let recovered =
@@ -327,16 +331,16 @@ fn saving_into_a_read_only_folder_keeps_the_edits() {
     let mut h = failing_save_keeps_the_edits(&project, &target, &dir.join("state"), || {
         std::fs::set_permissions(&project, std::fs::Permissions::from_mode(0o555)).unwrap();
     });
-    let msg = h.state().file_message.clone().unwrap();
+    let msg = h.state().files.message.clone().unwrap();
     assert!(msg.contains("Permission denied"), "{msg}");
     // Once the folder is writable again, Save succeeds and clears the mark.
     std::fs::set_permissions(&project, std::fs::Permissions::from_mode(0o755)).unwrap();
     h.get_by_label("Save").click();
     h.run_steps(3);
     assert!(!h.state().is_dirty());
-    assert!(h.state().save_error.is_none());
+    assert!(h.state().files.save_error.is_none());
     let saved = Scenario::from_ron(&std::fs::read_to_string(&target).unwrap()).unwrap();
-    assert_eq!(saved.quadratic, h.state().scenario.quadratic);
+    assert_eq!(saved.quadratic, h.state().doc.scenario.quadratic);
     assert!(
         !dir.join("state/recovery.ron").exists(),
         "saved: no recovery needed"
@@ -351,7 +355,7 @@ fn saving_onto_a_folder_keeps_the_edits() {
     let target = project.join("two.ron");
     std::fs::create_dir_all(&target).unwrap();
     let h = failing_save_keeps_the_edits(&project, &target, &dir.join("state"), || {});
-    let msg = h.state().file_message.clone().unwrap();
+    let msg = h.state().files.message.clone().unwrap();
     assert!(msg.contains("is a folder"), "{msg}");
     assert!(target.is_dir());
     std::fs::remove_dir_all(&dir).unwrap();

@@ -9,11 +9,17 @@ use num_complex::Complex64;
 use std::time::{Duration, Instant};
 use wallflower::app::WallflowerApp;
 
+/// One frame as eframe runs it: the app's `logic`, then its `ui`.
+pub fn frame(ui: &mut egui::Ui, app: &mut WallflowerApp) {
+    app.logic(&ui.ctx().clone());
+    app.ui(ui);
+}
+
 /// The app in a 1400 x 880 harness.
 pub fn harness_with(app: WallflowerApp) -> Harness<'static, WallflowerApp> {
     Harness::builder()
         .with_size([1400.0, 880.0])
-        .build_ui_state(|ui, app: &mut WallflowerApp| app.ui(ui), app)
+        .build_ui_state(frame, app)
 }
 
 /// Steps frames until the worker has answered the newest scenario (at
@@ -44,7 +50,11 @@ pub fn primary(h: &mut Harness<'_, WallflowerApp>, pos: egui::Pos2, pressed: boo
 
 /// A primary click at a point of the z-plane.
 pub fn click_plane(h: &mut Harness<'_, WallflowerApp>, z: Complex64) {
-    let tf = h.state().transform.expect("the canvas was drawn");
+    let tf = h
+        .state()
+        .interaction
+        .canvas_transform
+        .expect("the canvas was drawn");
     let pos = tf.to_screen(z);
     h.hover_at(pos);
     h.step();

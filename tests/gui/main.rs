@@ -13,6 +13,8 @@ mod support;
 
 mod harness;
 
+mod architecture;
+
 mod explorer;
 mod files;
 mod param_map;

@@ -56,7 +56,7 @@ fn clicking_the_parameter_map_sets_the_parameter() {
     h.step();
     primary(&mut h, pos, false);
     h.run_steps(2);
-    let u = h.state().scenario.params["u"];
+    let u = h.state().doc.scenario.params["u"];
     let spacing = 4.0 / 300.0;
     assert!(
         (u[0] - 1.0).abs() < 2.0 * spacing && (u[1] + 0.5).abs() < 2.0 * spacing,

@@ -3,6 +3,7 @@
 //! Every frame must be built quickly (the UI never waits for the worker),
 //! and networks must keep arriving during the drag (live recompute).
 //! Prints the measured figures; run with `--nocapture` to see them.
+use crate::harness::frame;
 use eframe::egui;
 use egui_kittest::Harness;
 use num_complex::Complex64;
@@ -45,7 +46,7 @@ fn dragging_keeps_frames_short_and_networks_coming() {
     let app = WallflowerApp::with_scenario(six_zeros(), None, &AppOptions::default());
     let mut h = Harness::builder()
         .with_size([1400.0, 880.0])
-        .build_ui_state(|ui, app: &mut WallflowerApp| app.ui(ui), app);
+        .build_ui_state(frame, app);
     let start = Instant::now();
     h.step();
     while h.state().is_computing() {
@@ -54,11 +55,11 @@ fn dragging_keeps_frames_short_and_networks_coming() {
         h.step();
     }
     h.run_steps(3);
-    let first = h.state().shown.as_ref().unwrap();
-    assert_eq!(first.computed.network.walls.len(), 18);
+    let first = h.state().network.latest.as_ref().unwrap();
+    assert_eq!(first.value.network.walls.len(), 18);
     let compute_ms_at_rest = first.compute_ms;
 
-    let tf = h.state().transform.unwrap();
+    let tf = h.state().interaction.canvas_transform.unwrap();
     let centre = Complex64::new(0.4, 0.9);
     let pos = tf.to_screen(centre);
     h.hover_at(pos);
@@ -83,7 +84,7 @@ fn dragging_keeps_frames_short_and_networks_coming() {
         h.step();
         let ms = t.elapsed().as_secs_f64() * 1e3;
         frame_ms.push(ms);
-        if let Some(s) = &h.state().shown {
+        if let Some(s) = &h.state().network.latest {
             if generations.insert(s.generation) {
                 compute_ms.push(s.compute_ms);
             }
@@ -99,7 +100,7 @@ fn dragging_keeps_frames_short_and_networks_coming() {
     });
     h.step();
 
-    let moved = h.state().scenario.quadratic.as_ref().unwrap().zeros[2];
+    let moved = h.state().doc.scenario.quadratic.as_ref().unwrap().zeros[2];
     assert!(
         (moved[0] - 0.4).abs() + (moved[1] - 0.9).abs() > 1e-3 || generations.len() > 2,
         "the drag moved the branch point"
