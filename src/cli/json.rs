@@ -170,20 +170,37 @@ pub struct NetworkJson {
     pub punctures: Vec<PunctureJson>,
     pub walls: Vec<WallJson>,
     pub joints: Vec<JointJson>,
-    pub warnings: Vec<String>,
+    pub warnings: Vec<WarningJson>,
     pub stats: StatsJson,
+}
+
+/// A warning with its stable code (for scripts) and its sentence.
+#[derive(Serialize)]
+pub struct WarningJson {
+    pub code: &'static str,
+    pub message: String,
 }
 
 impl NetworkJson {
     /// `loaded_warnings` are the loader's (the scenario's and the curve's
     /// notes), so the network's copies of the curve's notes are skipped.
     pub fn new(title: &str, rank: usize, net: &Network, loaded_warnings: &[String]) -> Self {
-        let mut warnings: Vec<String> = loaded_warnings.to_vec();
+        // The loader's notes are the curve's and the scenario's.
+        let mut warnings: Vec<WarningJson> = loaded_warnings
+            .iter()
+            .map(|m| WarningJson {
+                code: WarningKind::CurveNote.code(),
+                message: m.clone(),
+            })
+            .collect();
         warnings.extend(
             net.warnings
                 .iter()
                 .filter(|w| w.kind != WarningKind::CurveNote)
-                .map(|w| w.message.clone()),
+                .map(|w| WarningJson {
+                    code: w.kind.code(),
+                    message: w.message.clone(),
+                }),
         );
         Self {
             title: title.to_string(),

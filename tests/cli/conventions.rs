@@ -236,3 +236,27 @@ fn no_display_is_a_sentence_and_status_2() {
     assert!(err.contains("no display"), "{err}");
     assert!(!err.contains(".rs:"), "a source path in {err}");
 }
+
+/// Network warnings in JSON carry a stable code beside their sentence, so
+/// a script can test for a kind without matching words: the AD point is
+/// drawn from a resolution (code `resolved`), which the sentence names.
+#[test]
+fn network_warnings_have_codes() {
+    let out = ok(&["network", "--curve", "y^2 = z^3", "--json"]);
+    let v: Value = serde_json::from_str(&out).unwrap();
+    let warnings = v["warnings"].as_array().unwrap();
+    assert!(!warnings.is_empty());
+    for w in warnings {
+        let code = w["code"].as_str().unwrap();
+        assert!(
+            !code.is_empty() && code.chars().all(|c| c.is_ascii_lowercase() || c == '_'),
+            "{w}"
+        );
+        assert!(!w["message"].as_str().unwrap().is_empty());
+    }
+    let resolved = warnings
+        .iter()
+        .find(|w| w["code"] == "resolved")
+        .expect("a `resolved` warning");
+    assert!(resolved["message"].as_str().unwrap().contains("resolution"));
+}
