@@ -91,6 +91,52 @@ fn state_charge(curve: &Curve, lat: &Lattice, s: &BpsState) -> Result<Charge, St
     }
 }
 
+/// A BPS index belongs to a charge: several webs of one charge (a
+/// symmetric curve's webs through different branch points, all closing at
+/// one phase) are one state, drawn with all its webs. Each web adds to the
+/// index, so it is unknown; a warning says how many webs there were.
+fn merge_equal_charges(spectrum: &mut Spectrum) {
+    let canonical = |c: &[i64]| -> Vec<i64> {
+        match c.iter().find(|&&x| x != 0) {
+            Some(&x) if x < 0 => c.iter().map(|v| -v).collect(),
+            _ => c.to_vec(),
+        }
+    };
+    let mut merged: Vec<BpsState> = Vec::with_capacity(spectrum.states.len());
+    let mut counts: Vec<usize> = Vec::new();
+    for s in std::mem::take(&mut spectrum.states) {
+        let same = s.charge.as_ref().and_then(|c| {
+            let key = canonical(c);
+            merged
+                .iter()
+                .position(|m| m.charge.as_ref().is_some_and(|d| canonical(d) == key))
+        });
+        match same {
+            Some(k) => {
+                let m = &mut merged[k];
+                m.web.extend(s.web);
+                m.z_error = m.z_error.max(s.z_error);
+                m.kind = Kind::Other;
+                m.omega = None;
+                counts[k] += 1;
+            }
+            None => {
+                merged.push(s);
+                counts.push(1);
+            }
+        }
+    }
+    for (m, &n) in merged.iter().zip(&counts) {
+        if n > 1 {
+            spectrum.warnings.push(format!(
+                "{n} webs of one charge close at phase {:.6} (|Z| = {:.6}): listed as one state with index unknown (each web adds to it)",
+                m.phase, m.abs
+            ));
+        }
+    }
+    spectrum.states = merged;
+}
+
 /// Builds the lattice of `curve`, gives every state of `spectrum` its
 /// charge, runs the checks and records them (warnings and
 /// `spectrum.lattice`).
@@ -150,6 +196,7 @@ pub fn assign_with(
         }
     }
     spectrum.states = kept;
+    merge_equal_charges(spectrum);
     if spectrum.states.len() != before {
         mismatched.retain(|(i, _)| *i < spectrum.states.len());
     }

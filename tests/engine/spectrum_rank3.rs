@@ -284,6 +284,14 @@ fn check_charges(label: &str, sp: &Spectrum) {
             s.z
         );
     }
+    // One state per charge (up to sign: particle and antiparticle).
+    for (a, s) in sp.states.iter().enumerate() {
+        for t in &sp.states[..a] {
+            let (p, q) = (s.charge.as_ref().unwrap(), t.charge.as_ref().unwrap());
+            let neg: Vec<i64> = q.iter().map(|x| -x).collect();
+            assert!(p != q && *p != neg, "{label}: charge {p:?} listed twice");
+        }
+    }
     assert!(
         lat.spans_gauge(),
         "{label}: charges span rank {} (index {}) of {}",
@@ -905,4 +913,31 @@ fn pure_su3_at_u_zero_has_six_states() {
     print("pure SU(3) at u = 0", &sp);
     assert_eq!(sp.states.len(), 6, "{:?}", sp.warnings);
     check_charges("pure SU(3) at u = 0", &sp);
+}
+
+/// The pure SU(3)-type curve at real u = 1, v = 0.5 has real central
+/// charges at phase 0 from several webs at once, four of them of one
+/// charge through different branch points. A BPS index belongs to a
+/// charge: they are one state, drawn with all four webs, index unknown
+/// and said so.
+#[test]
+fn webs_of_one_charge_are_one_state() {
+    let cv = curve_with(
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        &[("u", c(1.0, 0.0)), ("v", c(0.5, 0.0))],
+    );
+    let sp = spectrum(&cv, 20.0);
+    print("pure SU(3) at u = 1, v = 0.5", &sp);
+    check_charges("pure SU(3) at u = 1, v = 0.5", &sp);
+    let merged: Vec<&BpsState> = sp
+        .states
+        .iter()
+        .filter(|s| s.web.len() >= 4 && s.kind == Kind::Other)
+        .collect();
+    assert!(!merged.is_empty(), "no state drawn with several webs");
+    assert!(
+        sp.warnings.iter().any(|w| w.contains("webs of one charge")),
+        "{:?}",
+        sp.warnings
+    );
 }

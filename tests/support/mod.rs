@@ -64,6 +64,14 @@ pub fn assert_self_check(sp: &Spectrum) {
             s.z
         );
     }
+    // One state per charge (up to sign: particle and antiparticle).
+    for (a, s) in sp.states.iter().enumerate() {
+        for t in &sp.states[..a] {
+            let (p, q) = (s.charge.as_ref().unwrap(), t.charge.as_ref().unwrap());
+            let neg: Vec<i64> = q.iter().map(|x| -x).collect();
+            assert!(p != q && *p != neg, "charge {p:?} listed twice");
+        }
+    }
     assert!(
         lat.spans_gauge(),
         "the charges span rank {} (index {}) of {}: {:?}",
