@@ -150,7 +150,12 @@ fn states_section(ui: &mut egui::Ui, app: &WallflowerApp, out: &mut Vec<Command>
     let Some(spectrum) = app.spectrum.value() else {
         return;
     };
-    egui::CollapsingHeader::new(format!("BPS states ({})", spectrum.states.len()))
+    let massless = if spectrum.massless.is_empty() {
+        String::new()
+    } else {
+        format!(" + {} massless", spectrum.massless.len())
+    };
+    egui::CollapsingHeader::new(format!("BPS states ({}{massless})", spectrum.states.len()))
             .default_open(true)
             .show(ui, |ui| {
                 // The finder's own caveats come first: "none found" must not
@@ -182,13 +187,33 @@ fn states_section(ui: &mut egui::Ui, app: &WallflowerApp, out: &mut Vec<Command>
                         let r = ui
                             .selectable_label(selected == Some(i), RichText::new(text).monospace())
                             .on_hover_text(format!(
-                                "Z = {:.6}{:+.6}i (error {:.1e})\nclick: go to its critical phase and show its web",
-                                st.z.re, st.z.im, st.z_error
+                                "Z = {:.6}{:+.6}i (error {:.1e}){}\nclick: go to its critical phase and show its web",
+                                st.z.re,
+                                st.z.im,
+                                st.z_error,
+                                spectrum_view::charge_lines(spectrum, i, selected)
                             ));
                         if r.clicked() {
                             out.push(Command::SetPhase(st.phase));
                             out.push(Command::Select(Some(Selection::State(i))));
                         }
+                    }
+                    // States massless at a singular point: Z = 0, listed
+                    // apart (they have no critical phase to go to).
+                    for st in &spectrum.massless {
+                        let charge = st
+                            .charge
+                            .as_ref()
+                            .map_or("charge unknown".to_string(), |c| format!("charge {c:?}"));
+                        ui.label(
+                            RichText::new(format!("    massless  Z = 0  {charge}"))
+                                .monospace()
+                                .weak(),
+                        )
+                        .on_hover_text(format!(
+                            "massless at the singular point: on the resolution its |Z| = {:.1e}",
+                            st.abs
+                        ));
                     }
                     });
             });

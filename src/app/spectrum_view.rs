@@ -59,7 +59,7 @@ fn details(i: usize, st: &BpsState) -> String {
 
 /// The state's charge and, when another state is selected, their pairing
 /// `<gamma_i, gamma_selected>` (empty when the charges are unknown).
-fn charge_lines(spectrum: &Spectrum, i: usize, selected: Option<usize>) -> String {
+pub(super) fn charge_lines(spectrum: &Spectrum, i: usize, selected: Option<usize>) -> String {
     let Some(c) = spectrum.states.get(i).and_then(|s| s.charge.as_ref()) else {
         return String::new();
     };
