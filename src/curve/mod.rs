@@ -199,6 +199,19 @@ pub struct CurveNote {
     pub message: String,
 }
 
+/// A curve with only even (or only odd) powers of y and three or more
+/// sheets is mapped to itself by y -> -y, which turns y_i - y_j into
+/// -(y_i' - y_j') for the sheets i', j' of -y_i, -y_j: every wall of type ij
+/// runs exactly along a wall of type j'i' at the same phase. Such a
+/// network is not generic; where coincident walls cross a third wall the
+/// joints are placed pair by pair, and flatness can fail there. Say so.
+fn coincident_walls_note(curve: &Curve) -> Option<CurveNote> {
+    let odd_zero = curve.u.iter().skip(1).step_by(2).all(Rational::is_zero);
+    (curve.rank >= 3 && odd_zero).then(|| CurveNote {
+        message: "y -> -y maps the curve to itself: walls of different pairs of sheets run along one another at every phase (a non-generic network); joints where they cross a third wall may break flatness".into(),
+    })
+}
+
 /// The curve with parameters substituted, its singular points found.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct Curve {
@@ -323,6 +336,9 @@ impl Curve {
         }
         curve.cuts = branch::cuts(&curve);
         curve.special = branch::special_points(&curve);
+        if let Some(note) = coincident_walls_note(&curve) {
+            curve.notes.push(note);
+        }
         Ok(curve)
     }
 

@@ -485,3 +485,22 @@ fn flatness_holds_around_every_point_and_joint_of_500_random_special_curves() {
     );
     assert!(near_critical.len() <= 2, "{near_critical:#?}");
 }
+
+/// Curves mapped to themselves by y -> -y with three or more sheets have
+/// walls of different pairs running along one another (y_i - y_j is minus
+/// the difference of the opposite sheets): the curve says so. Rank 2 (each
+/// wall is its own image) and a curve with an odd power of y do not.
+#[test]
+fn curves_even_in_y_say_their_walls_coincide() {
+    let says = |eq: &str| {
+        curve(eq)
+            .notes
+            .iter()
+            .any(|n| n.message.contains("y -> -y maps the curve to itself"))
+    };
+    assert!(says("y^4 = z^3 - 1"));
+    assert!(says("y^4 + z*y^2 = z^3 - 1"));
+    assert!(!says("y^4 + 0.1*y = z^3 - 1"));
+    assert!(!says("y^3 = z^3 - 1"));
+    assert!(!says("y^2 = z^3 - 1"));
+}
