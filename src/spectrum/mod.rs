@@ -284,7 +284,12 @@ pub fn find(
 /// over the split distance); states below this many times that are the
 /// massless ones. Massive states near a singular point keep |Z| of order 1
 /// while delta -> 0, so the margin separates them for any small delta.
-const MASSLESS_MARGIN: f64 = 1e3;
+/// Measured at the default resolution: the vanishing states sit at 1.5-1.7
+/// times `|c| delta^(r + 1)` (pure SU(2) at u = 1, y^2 = z^3, y^2 = (z^2 -
+/// 1)^2, y^3 = z^2, y^3 = (z - 1)^2 (z + 1)), the lightest massive ones at
+/// 870 times or more; at rank 3 `delta^(5/3)` is not small, so the margin
+/// is far below the latter.
+const MASSLESS_MARGIN: f64 = 30.0;
 
 fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
     let cut = curve
@@ -310,6 +315,11 @@ fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
     if cut == 0.0 || !cut.is_finite() {
         return;
     }
+    eprintln!(
+        "DEBUG unit {} abs {:?}",
+        cut / MASSLESS_MARGIN,
+        spectrum.states.iter().map(|s| s.abs).collect::<Vec<_>>()
+    );
     let (light, heavy): (Vec<BpsState>, Vec<BpsState>) =
         spectrum.states.drain(..).partition(|s| s.abs < cut);
     spectrum.states = heavy;

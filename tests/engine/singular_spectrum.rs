@@ -123,3 +123,30 @@ fn weak_side_keeps_the_w_and_two_dyons_below_the_reach() {
     assert_eq!(at.count(Kind::Vector), 1);
     assert_eq!(at.count(Kind::Hyper), 2);
 }
+
+/// y^3 = (z - 1)^2 (z + 1) is singular at z = 1 (three sheets meet with
+/// exponent 2/3, a vanishing cycle): on its resolution the states whose Z
+/// vanish with the split (three, of |Z| ~ delta^(5/3)) are listed massless
+/// and the webs of |Z| ~ 2.79 between the resolved point and z = -1 stay
+/// massive: the margin between them must not swallow the latter (at rank 3
+/// delta^(5/3) = 1.5e-3 at the default resolution is not small).
+#[test]
+fn rank_three_singular_point_keeps_its_massive_webs() {
+    let s = Scenario {
+        curve: Some("y^3 = (z-1)^2*(z+1)".into()),
+        reach: 10.0,
+        ..Default::default()
+    };
+    let curve = s.build_curve().unwrap();
+    assert_eq!(curve.resolutions.len(), 1);
+    let sp = find(
+        &curve,
+        &s.spectrum_settings().unwrap(),
+        &CancelToken::new(),
+        &mut |_| {},
+    );
+    assert_eq!(sp.massless.len(), 3, "{:?}", sp.warnings);
+    assert!(sp.massless.iter().all(|s| s.abs < 0.01));
+    assert!(sp.states.len() >= 6, "{:?}", sp.warnings);
+    assert!(sp.states.iter().all(|s| s.abs > 2.0));
+}
