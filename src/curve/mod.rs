@@ -7,6 +7,7 @@
 
 mod branch;
 mod coeffs;
+pub mod cut_signs;
 pub(crate) mod local;
 mod sheets;
 

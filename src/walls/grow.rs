@@ -297,7 +297,7 @@ fn integrate(ctx: &GrowContext, seed: &WallSeed, wall: &mut Wall) -> EndReason {
             } else {
                 invert(&cut.perm)
             };
-            let signs = crate::network::jump::cut_signs(&cut.perm, west_to_east);
+            let signs = crate::curve::cut_signs::cut_signs(&cut.perm, west_to_east);
             mu *= signs[i] * signs[j];
             let mut permuted = stage_roots.clone();
             for (a, &p) in perm.iter().enumerate() {
@@ -445,14 +445,7 @@ fn modulus(w: Complex64) -> f64 {
     }
 }
 
-/// The inverse of a permutation given as `perm[a] = image of a`.
-pub fn invert(perm: &[usize]) -> Vec<usize> {
-    let mut inv = vec![0; perm.len()];
-    for (a, &p) in perm.iter().enumerate() {
-        inv[p] = a;
-    }
-    inv
-}
+pub use crate::curve::cut_signs::invert;
 
 /// The cubic Hermite point at `s` in [0, 1] between `z0` and `z1` with
 /// derivatives `d0`, `d1` (with respect to s) at the ends.
