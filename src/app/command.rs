@@ -94,6 +94,8 @@ pub enum Command {
     SetWallLabels(bool),
     /// Pan or zoom the canvas.
     SetView(View),
+    /// Pan or zoom the central-charge plane (`None`: fit the states).
+    SetChargesView(Option<View>),
     /// Order of the punctures the canvas adds.
     SetNewPoleOrder(u32),
     AddPathVertex(Complex64),

@@ -87,6 +87,7 @@ impl WallflowerApp {
             Command::SetLooping(l) => view.playback.looping = l,
             Command::SetWallLabels(on) => view.wall_labels = on,
             Command::SetView(v) => view.plane = v,
+            Command::SetChargesView(v) => view.charges_view = v,
             Command::SetNewPoleOrder(n) => view.new_pole_order = n.clamp(1, 12),
             Command::AddPathVertex(z) => view.path_in_plane.push(z),
             Command::ClearPath => view.path_in_plane.clear(),

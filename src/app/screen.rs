@@ -67,3 +67,28 @@ mod tests {
         );
     }
 }
+
+/// `view` zoomed by `factor` about the plane point under `pos_in_screen`.
+pub fn zoomed(view: &View, tf: &ScreenTransform, pos_in_screen: Pos2, factor: f64) -> View {
+    let z = tf.to_plane(pos_in_screen);
+    let half = (view.half_width / factor).clamp(1e-6, 1e7);
+    let f = view.half_width / half;
+    let c = Complex64::new(view.center[0], view.center[1]);
+    let c = z - (z - c) / f;
+    View {
+        center: [c.re, c.im],
+        half_width: half,
+    }
+}
+
+/// `view` moved with a drag of `delta` pixels.
+pub fn panned(view: &View, tf: &ScreenTransform, delta: Vec2) -> View {
+    let ppu = tf.pixels_per_unit();
+    View {
+        center: [
+            view.center[0] - f64::from(delta.x) / ppu,
+            view.center[1] + f64::from(delta.y) / ppu,
+        ],
+        half_width: view.half_width,
+    }
+}

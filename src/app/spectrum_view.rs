@@ -10,10 +10,11 @@
 
 use super::command::{Command, Selection};
 use super::paint;
-use super::screen::ScreenTransform;
+use super::screen::{panned, zoomed, ScreenTransform};
 use super::state::WallflowerApp;
 use super::view_state::Interaction;
 use crate::scene::charges::{build_charges, ChargeOptions};
+use crate::scene::View;
 use crate::spectrum::{BpsState, Spectrum};
 use eframe::egui::{self, RichText};
 use std::f64::consts::PI;
@@ -103,6 +104,16 @@ pub fn central_charge_plane(
                 );
             }
             plane(ui, app, spectrum, stale, it, out);
+            // Below the plane, so that its appearing does not move the
+            // plane in the middle of a drag.
+            if app.view.charges_view.is_some()
+                && ui
+                    .small_button("Fit all states")
+                    .on_hover_text("show every state again (or double-click the plane)")
+                    .clicked()
+            {
+                out.push(Command::SetChargesView(None));
+            }
         });
 }
 
@@ -115,7 +126,8 @@ fn plane(
     out: &mut Vec<Command>,
 ) {
     let side = ui.available_width().clamp(160.0, 420.0);
-    let (rect, response) = ui.allocate_exact_size(egui::vec2(side, side), egui::Sense::click());
+    let (rect, response) =
+        ui.allocate_exact_size(egui::vec2(side, side), egui::Sense::click_and_drag());
     let selected = app.view.selected_state();
     let opts = ChargeOptions {
         phase: Some(app.doc.scenario.phase),
@@ -123,11 +135,15 @@ fn plane(
         faded: stale,
         // A little under the canvas's sizes: the plane is a side panel.
         scale: Some(0.85),
+        view: app.view.charges_view.clone(),
         ..ChargeOptions::new(side, side, app.doc.scenario.theme)
     };
     let scene = build_charges(spectrum, &opts);
     let tf = ScreenTransform::placing(rect, scene.transform);
     it.charges_transform = Some(tf);
+    if let Some(v) = zoom_or_pan(ui, &response, &tf) {
+        out.push(Command::SetChargesView(v));
+    }
     let painter = ui.painter_at(rect);
     for layer in &scene.layers {
         paint::paint_layer(&painter, layer, rect.min.to_vec2());
@@ -142,7 +158,10 @@ fn plane(
             ),
             None => {
                 let z = tf.to_plane(pos);
-                format!("Z = {:.3}{:+.3}i", z.re, z.im)
+                format!(
+                    "Z = {:.3}{:+.3}i\nscroll: zoom, drag: pan, double-click: fit",
+                    z.re, z.im
+                )
             }
         };
         response.clone().on_hover_text_at_pointer(text);
@@ -161,6 +180,34 @@ fn plane(
             out.push(Command::Select(Some(Selection::State(i))));
         }
     }
+}
+
+/// The plane's view after this frame's wheel, pinch, drag or double-click
+/// (`Some(None)`: back to fitting the states), if they changed it.
+fn zoom_or_pan(
+    ui: &egui::Ui,
+    response: &egui::Response,
+    tf: &ScreenTransform,
+) -> Option<Option<View>> {
+    if response.double_clicked() {
+        return Some(None);
+    }
+    if response.dragged() {
+        let delta = response.drag_delta();
+        if delta != egui::Vec2::ZERO {
+            return Some(Some(panned(&tf.scene_view(), tf, delta)));
+        }
+    }
+    let pos = response.hover_pos()?;
+    let (scroll_y, zoom) = ui.input(|i| (i.smooth_scroll_delta.y, i.zoom_delta()));
+    let factor = f64::from(zoom) * (f64::from(scroll_y) / 300.0).exp();
+    if (factor - 1.0).abs() <= 1e-6 {
+        return None;
+    }
+    // The wheel zooms the plane; the inspector around it does not scroll.
+    ui.ctx()
+        .input_mut(|i| i.smooth_scroll_delta = egui::Vec2::ZERO);
+    Some(Some(zoomed(&tf.scene_view(), tf, pos, factor)))
 }
 
 #[cfg(test)]

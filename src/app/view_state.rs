@@ -22,6 +22,8 @@ pub struct ViewState {
     pub wall_sort: WallSort,
     pub wall_sort_descending: bool,
     pub playback: Playback,
+    /// The part of the central-charge plane shown; `None` fits the states.
+    pub charges_view: Option<View>,
 }
 
 impl ViewState {
@@ -36,6 +38,7 @@ impl ViewState {
             wall_sort: WallSort::Index,
             wall_sort_descending: false,
             playback: Playback::default(),
+            charges_view: None,
         }
     }
 

@@ -12,7 +12,7 @@
 use super::build::{background_layer, text_width_em};
 use super::grid::grid_named;
 use super::palette::{state_color, theme_colors, with_alpha, ThemeColors};
-use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform};
+use super::{Anchor, Item, Layer, Rgba, Scene, Shape, Transform, View};
 use crate::scene::Theme;
 use crate::spectrum::{BpsState, Kind, Spectrum};
 use num_complex::Complex64;
@@ -51,6 +51,8 @@ pub struct ChargeOptions {
     /// Multiplies line widths, marker and text sizes; `None` picks it from
     /// the picture (1 at 800 px on the short side, within [0.75, 3]).
     pub scale: Option<f32>,
+    /// The part of the plane shown; `None` fits every state.
+    pub view: Option<View>,
 }
 
 impl ChargeOptions {
@@ -66,6 +68,7 @@ impl ChargeOptions {
             selected: None,
             faded: false,
             scale: None,
+            view: None,
         }
     }
 
@@ -145,7 +148,12 @@ pub fn state_label(st: &BpsState) -> String {
 pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
     let colors = theme_colors(opts.theme);
     let s = opts.scale();
-    let t = charge_transform(spectrum, opts.width, opts.height);
+    let t = match &opts.view {
+        Some(v) if v.half_width > 0.0 && v.half_width.is_finite() => {
+            Transform::new(v.center, v.half_width, opts.width, opts.height)
+        }
+        _ => charge_transform(spectrum, opts.width, opts.height),
+    };
     // The same background layer name as network figures.
     let mut layers = vec![background_layer(&t, &colors)];
     let mut push = |name: &str, shapes: Vec<Shape>| {

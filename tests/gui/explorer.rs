@@ -639,3 +639,79 @@ fn keys_and_buttons_change_the_view_through_commands() {
     h.step();
     assert!(h.state().view.wall_sort_descending);
 }
+
+/// The central-charge plane pans with a drag and zooms with the wheel at
+/// the cursor (the point under it stays put); "Fit all states" fits the
+/// states again.
+#[test]
+fn the_central_charge_plane_pans_zooms_and_fits() {
+    let mut h = harness(Scenario {
+        reach: 5.0,
+        ..two_zeros()
+    });
+    wait_for_spectrum(&mut h);
+    h.get_by_label("Central charges");
+    let tf = h
+        .state()
+        .interaction
+        .charges_transform
+        .expect("the plane was drawn");
+    assert!(h.state().view.charges_view.is_none());
+    // Drag from Z = 1 to Z = 2: the view's centre moves by -1.
+    let (a, b) = (Complex64::new(1.0, 0.0), Complex64::new(2.0, 0.0));
+    h.hover_at(tf.to_screen(a));
+    h.step();
+    primary(&mut h, tf.to_screen(a), true);
+    h.step();
+    for k in 1..=5 {
+        let z = a + (b - a) * (k as f64 / 5.0);
+        h.event(egui::Event::PointerMoved(tf.to_screen(z)));
+        h.step();
+    }
+    primary(&mut h, tf.to_screen(b), false);
+    h.step();
+    let before = tf.scene_view();
+    let after = h.state().view.charges_view.clone().expect("a panned view");
+    assert!(
+        (after.center[0] - (before.center[0] - 1.0)).abs() < 0.05,
+        "centre {:?} from {:?}",
+        after.center,
+        before.center
+    );
+    assert!((after.half_width - before.half_width).abs() < 1e-9);
+    // The wheel zooms in about the cursor.
+    let tf = h.state().interaction.charges_transform.unwrap();
+    let at = Complex64::new(0.5, 0.5);
+    h.hover_at(tf.to_screen(at));
+    h.step();
+    h.event(egui::Event::MouseWheel {
+        unit: egui::MouseWheelUnit::Point,
+        delta: egui::vec2(0.0, 120.0),
+        phase: egui::TouchPhase::Move,
+        source: egui::MouseWheelSource::Unknown,
+        modifiers: egui::Modifiers::NONE,
+    });
+    for _ in 0..30 {
+        h.step();
+    }
+    let zoomed = h.state().view.charges_view.clone().unwrap();
+    assert!(
+        zoomed.half_width < 0.9 * after.half_width,
+        "{zoomed:?} from {after:?}"
+    );
+    let tf2 = h.state().interaction.charges_transform.unwrap();
+    assert!(
+        (tf2.to_screen(at) - tf.to_screen(at)).length() < 2.0,
+        "the point under the cursor moved"
+    );
+    // "Fit all states" shows every state again (a double-click does the
+    // same; the harness's frames are too far apart in time for one).
+    h.get_by_label("Fit all states").click();
+    h.step();
+    h.step();
+    assert!(
+        h.state().view.charges_view.is_none(),
+        "{:?}",
+        h.state().view.charges_view
+    );
+}
