@@ -45,29 +45,6 @@ impl ScreenTransform {
     }
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn transform_round_trips() {
-        let tf = ScreenTransform::new(
-            Rect::from_min_size(Pos2::new(100.0, 50.0), Vec2::new(800.0, 600.0)),
-            &View {
-                center: [1.0, -2.0],
-                half_width: 4.0,
-            },
-        );
-        let z = Complex64::new(0.3, -1.7);
-        let back = tf.to_plane(tf.to_screen(z));
-        assert!((back - z).norm() < 1e-5);
-        assert_eq!(
-            tf.to_screen(Complex64::new(1.0, -2.0)),
-            Pos2::new(500.0, 350.0)
-        );
-    }
-}
-
 /// `view` zoomed by `factor` about the plane point under `pos_in_screen`.
 pub fn zoomed(view: &View, tf: &ScreenTransform, pos_in_screen: Pos2, factor: f64) -> View {
     let z = tf.to_plane(pos_in_screen);
@@ -90,5 +67,28 @@ pub fn panned(view: &View, tf: &ScreenTransform, delta: Vec2) -> View {
             view.center[1] + f64::from(delta.y) / ppu,
         ],
         half_width: view.half_width,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn transform_round_trips() {
+        let tf = ScreenTransform::new(
+            Rect::from_min_size(Pos2::new(100.0, 50.0), Vec2::new(800.0, 600.0)),
+            &View {
+                center: [1.0, -2.0],
+                half_width: 4.0,
+            },
+        );
+        let z = Complex64::new(0.3, -1.7);
+        let back = tf.to_plane(tf.to_screen(z));
+        assert!((back - z).norm() < 1e-5);
+        assert_eq!(
+            tf.to_screen(Complex64::new(1.0, -2.0)),
+            Pos2::new(500.0, 350.0)
+        );
     }
 }
