@@ -93,6 +93,28 @@ impl SegmentGrid {
     /// (indices stay those of `walls`): a query near few points need not
     /// pay for hashing every segment of the network.
     pub fn build_where(walls: &[Wall], keep: impl Fn(Complex64, Complex64) -> bool) -> Self {
+        let mut grid = Self::framed(walls, &keep);
+        for (wi, w) in walls.iter().enumerate() {
+            for k in 0..w.points.len().saturating_sub(1) {
+                let (a, b) = (w.points[k].z, w.points[k + 1].z);
+                if keep(a, b) {
+                    grid.insert(wi, k, a, b);
+                }
+            }
+        }
+        grid
+    }
+
+    /// An empty grid whose cells suit the segments of `walls`, to be
+    /// filled by [`Self::insert`]. Which segments a query reports does not
+    /// depend on the cells, only on what was inserted.
+    pub fn empty_for(walls: &[Wall]) -> Self {
+        Self::framed(walls, &|_, _| true)
+    }
+
+    /// An empty grid with its origin at the lower-left corner of the kept
+    /// segments and level 0 fitted to the shortest of them.
+    fn framed(walls: &[Wall], keep: &impl Fn(Complex64, Complex64) -> bool) -> Self {
         let mut lo = Complex64::new(f64::INFINITY, f64::INFINITY);
         let mut shortest = f64::INFINITY;
         for w in walls {
@@ -117,25 +139,13 @@ impl SegmentGrid {
         // branch points and joints); longer ones climb the levels. Empty
         // levels cost nothing.
         let base = shortest.min(1.0).max(lo.norm().max(1.0) * 1e-12);
-        let mut grid = Self {
+        Self {
             origin: lo,
             base,
             levels: (0..LEVELS).map(|_| CellMap::default()).collect(),
             occupied: Vec::new(),
             oversize: Vec::new(),
-        };
-        for (wi, w) in walls.iter().enumerate() {
-            for k in 0..w.points.len().saturating_sub(1) {
-                let (a, b) = (w.points[k].z, w.points[k + 1].z);
-                if keep(a, b) {
-                    grid.insert(wi as u32, k as u32, a, b);
-                }
-            }
         }
-        grid.occupied = (0..LEVELS)
-            .filter(|&l| !grid.levels[l].is_empty())
-            .collect();
-        grid
     }
 
     fn cell_size(&self, level: usize) -> f64 {
@@ -153,7 +163,8 @@ impl SegmentGrid {
         )
     }
 
-    fn insert(&mut self, wall: u32, k: u32, a: Complex64, b: Complex64) {
+    /// Adds segment `(wall, k)`, from `a` to `b`.
+    pub fn insert(&mut self, wall: usize, k: usize, a: Complex64, b: Complex64) {
         let Some(e) = extent(a, b) else {
             return;
         };
@@ -168,8 +179,8 @@ impl SegmentGrid {
         let (lo, hi) = corners(a, b, 0.0);
         let (x0, x1, y0, y1) = self.cell_range(level, lo, hi);
         let entry = Entry {
-            wall,
-            k,
+            wall: wall as u32,
+            k: k as u32,
             x0,
             y0,
             a,
@@ -178,6 +189,9 @@ impl SegmentGrid {
         if (x1 - x0 + 1).saturating_mul(y1 - y0 + 1) > MAX_CELLS_PER_SEGMENT {
             self.oversize.push(entry);
             return;
+        }
+        if let Err(at) = self.occupied.binary_search(&level) {
+            self.occupied.insert(at, level);
         }
         for x in x0..=x1 {
             for y in y0..=y1 {
@@ -202,14 +216,25 @@ impl SegmentGrid {
         if !a.is_finite() || !b.is_finite() {
             return looked;
         }
-        // Sums of moduli of parts bound the moduli (no square roots).
-        let pad = NEAR * (l1(a).max(l1(b)) + l1(b - a));
+        let pad = pad_of(a, b);
         for e in &self.oversize {
             if near(e.a, e.b, a, b, pad) {
                 out.push((e.wall as usize, e.k as usize));
             }
         }
         let (qlo, qhi) = corners(a, b, pad);
+        looked += self.visit(qlo, qhi, |e| {
+            if near(e.a, e.b, a, b, pad) {
+                out.push((e.wall as usize, e.k as usize));
+            }
+        });
+        looked
+    }
+
+    /// Calls `found` once for every entry in a cell of the box `qlo..qhi`
+    /// (on every level), and returns the number of entries looked at.
+    fn visit(&self, qlo: Complex64, qhi: Complex64, mut found: impl FnMut(&Entry)) -> usize {
+        let mut looked = 0;
         for &level in &self.occupied {
             let cells = &self.levels[level];
             let (qx0, qx1, qy0, qy1) = self.cell_range(level, qlo, qhi);
@@ -218,8 +243,8 @@ impl SegmentGrid {
                 for e in v {
                     // Looked at only from the lower-left cell of the
                     // overlap of the two cell ranges.
-                    if cx == e.x0.max(qx0) && cy == e.y0.max(qy0) && near(e.a, e.b, a, b, pad) {
-                        out.push((e.wall as usize, e.k as usize));
+                    if cx == e.x0.max(qx0) && cy == e.y0.max(qy0) {
+                        found(e);
                     }
                 }
             };
@@ -252,6 +277,103 @@ impl SegmentGrid {
         out.sort_unstable();
         out
     }
+
+    /// The segments that can come near the short polyline `path`, found by
+    /// one query of its bounding box, and the number of grid entries looked
+    /// at. Queries of the path's own segments against them report exactly
+    /// what queries of the grid would; a flatness loop's two dozen sides
+    /// then share one pass over the grid's levels instead of making one
+    /// each (where long walls crowd, a coarse cell holds thousands).
+    pub fn near_path(&self, path: &[Complex64]) -> (LocalSegments, usize) {
+        let mut lo = Complex64::new(f64::INFINITY, f64::INFINITY);
+        let mut hi = Complex64::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
+        for s in path.windows(2) {
+            if !s[0].is_finite() || !s[1].is_finite() {
+                continue;
+            }
+            let (l, h) = corners(s[0], s[1], pad_of(s[0], s[1]));
+            lo = Complex64::new(lo.re.min(l.re), lo.im.min(l.im));
+            hi = Complex64::new(hi.re.max(h.re), hi.im.max(h.im));
+        }
+        let mut entries = self.oversize.clone();
+        let mut looked = entries.len();
+        if lo.re <= hi.re && lo.im <= hi.im {
+            looked += self.visit(lo, hi, |e| {
+                let (elo, ehi) = corners(e.a, e.b, 0.0);
+                if elo.re <= hi.re && ehi.re >= lo.re && elo.im <= hi.im && ehi.im >= lo.im {
+                    entries.push(*e);
+                }
+            });
+        }
+        (LocalSegments { entries }, looked)
+    }
+}
+
+/// The segments of a grid near one short path (see
+/// [`SegmentGrid::near_path`]).
+pub struct LocalSegments {
+    entries: Vec<Entry>,
+}
+
+impl LocalSegments {
+    /// [`SegmentGrid::candidates_into`] for a segment of the path these
+    /// were gathered for (the same segments, each once).
+    pub fn candidates_into(
+        &self,
+        a: Complex64,
+        b: Complex64,
+        out: &mut Vec<(usize, usize)>,
+    ) -> usize {
+        out.clear();
+        if !a.is_finite() || !b.is_finite() {
+            return self.entries.len();
+        }
+        let pad = pad_of(a, b);
+        for e in &self.entries {
+            if near(e.a, e.b, a, b, pad) {
+                out.push((e.wall as usize, e.k as usize));
+            }
+        }
+        self.entries.len()
+    }
+}
+
+/// Where a path's crossing candidates come from: a whole grid, or the
+/// segments gathered near that path.
+pub trait SegmentIndex {
+    /// Every segment within a relative 1e-9 of `a -> b`, each once, in
+    /// `out` (cleared first), and the number of entries looked at.
+    fn candidates_into(&self, a: Complex64, b: Complex64, out: &mut Vec<(usize, usize)>)
+        -> usize;
+}
+
+impl SegmentIndex for SegmentGrid {
+    fn candidates_into(
+        &self,
+        a: Complex64,
+        b: Complex64,
+        out: &mut Vec<(usize, usize)>,
+    ) -> usize {
+        SegmentGrid::candidates_into(self, a, b, out)
+    }
+}
+
+impl SegmentIndex for LocalSegments {
+    fn candidates_into(
+        &self,
+        a: Complex64,
+        b: Complex64,
+        out: &mut Vec<(usize, usize)>,
+    ) -> usize {
+        LocalSegments::candidates_into(self, a, b, out)
+    }
+}
+
+/// How near a segment must come to the query `a -> b` to be reported: a
+/// relative [`NEAR`] of the query's size and distance from the origin
+/// (sums of moduli of parts bound the moduli, with no square roots).
+fn pad_of(a: Complex64, b: Complex64) -> f64 {
+    NEAR * (l1(a).max(l1(b)) + l1(b - a))
 }
 
 /// `|re| + |im|`, between `|z|` and `sqrt(2) |z|`.
