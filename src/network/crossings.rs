@@ -20,7 +20,7 @@ use std::collections::HashMap;
 use std::hash::{BuildHasherDefault, Hasher};
 
 /// Levels of the hierarchy: cells double in size from one to the next.
-const LEVELS: usize = 64;
+pub const LEVELS: usize = 64;
 
 /// Segments that would touch more cells than this (only possible past the
 /// last level) go to a list that every query looks at.
@@ -71,10 +71,13 @@ struct Entry {
 
 /// Wall segments bucketed by level and grid cell. A segment is
 /// `(wall_idx, k)`: the piece from `points[k]` to `points[k + 1]`.
+#[derive(Clone)]
 pub struct SegmentGrid {
     origin: Complex64,
     /// Cell size of level 0.
     base: f64,
+    /// Cells per unit length on each level: `1 / (base 2^l)`.
+    per_unit: [f64; LEVELS],
     levels: Vec<CellMap>,
     /// Levels holding at least one segment, ascending.
     occupied: Vec<usize>,
@@ -142,19 +145,18 @@ impl SegmentGrid {
         Self {
             origin: lo,
             base,
+            per_unit: std::array::from_fn(|l| 0.5f64.powi(l as i32) / base),
             levels: (0..LEVELS).map(|_| CellMap::default()).collect(),
             occupied: Vec::new(),
             oversize: Vec::new(),
         }
     }
 
-    fn cell_size(&self, level: usize) -> f64 {
-        self.base * 2f64.powi(level as i32)
-    }
-
     fn cell_range(&self, level: usize, lo: Complex64, hi: Complex64) -> CellRange {
-        let cell = self.cell_size(level);
-        let to = |x: f64, o: f64| ((x - o) / cell).floor().clamp(-1e15, 1e15) as i64;
+        // Rounded like the division by the cell size, but monotone and the
+        // same for inserts and queries, which is all the cells need.
+        let per_cell = self.per_unit[level];
+        let to = |x: f64, o: f64| floor_to_i64(((x - o) * per_cell).clamp(-1e15, 1e15));
         (
             to(lo.re, self.origin.re),
             to(hi.re, self.origin.re),
@@ -163,13 +165,13 @@ impl SegmentGrid {
         )
     }
 
-    /// Adds segment `(wall, k)`, from `a` to `b`.
-    pub fn insert(&mut self, wall: usize, k: usize, a: Complex64, b: Complex64) {
-        let Some(e) = extent(a, b) else {
-            return;
-        };
-        // The smallest level whose cells are at least as large as the
-        // segment's bounding box.
+    /// The level segment `a -> b` is filed on: the smallest whose cells
+    /// are at least as large as its bounding box, or [`LEVELS`] for the
+    /// list of oversize segments; `None` if an end is not finite. A
+    /// segment's crossings with segments on its own level and above are
+    /// found by [`Self::candidates_from_level_into`] from that level.
+    pub fn level_of(&self, a: Complex64, b: Complex64) -> Option<usize> {
+        let e = extent(a, b)?;
         let ratio = e / self.base;
         let level = if ratio <= 1.0 {
             0
@@ -178,6 +180,20 @@ impl SegmentGrid {
         };
         let (lo, hi) = corners(a, b, 0.0);
         let (x0, x1, y0, y1) = self.cell_range(level, lo, hi);
+        if (x1 - x0 + 1).saturating_mul(y1 - y0 + 1) > MAX_CELLS_PER_SEGMENT {
+            Some(LEVELS)
+        } else {
+            Some(level)
+        }
+    }
+
+    /// Adds segment `(wall, k)`, from `a` to `b`.
+    pub fn insert(&mut self, wall: usize, k: usize, a: Complex64, b: Complex64) {
+        let Some(level) = self.level_of(a, b) else {
+            return;
+        };
+        let (lo, hi) = corners(a, b, 0.0);
+        let (x0, x1, y0, y1) = self.cell_range(level.min(LEVELS - 1), lo, hi);
         let entry = Entry {
             wall: wall as u32,
             k: k as u32,
@@ -186,7 +202,7 @@ impl SegmentGrid {
             a,
             b,
         };
-        if (x1 - x0 + 1).saturating_mul(y1 - y0 + 1) > MAX_CELLS_PER_SEGMENT {
+        if level == LEVELS {
             self.oversize.push(entry);
             return;
         }
@@ -211,19 +227,41 @@ impl SegmentGrid {
         b: Complex64,
         out: &mut Vec<(usize, usize)>,
     ) -> usize {
+        self.candidates_from_level_into(a, b, 0, out)
+    }
+
+    /// [`Self::candidates_into`] among the segments filed on level
+    /// `min_level` and above only ([`LEVELS`]: the oversize ones). From a
+    /// segment's own level a query touches at most 3 x 3 cells per level,
+    /// so a search that finds each pair from its lower segment costs a
+    /// bounded amount per segment, however long the other is.
+    pub fn candidates_from_level_into(
+        &self,
+        a: Complex64,
+        b: Complex64,
+        min_level: usize,
+        out: &mut Vec<(usize, usize)>,
+    ) -> usize {
         out.clear();
-        let mut looked = self.oversize.len();
+        let with_oversize = min_level <= LEVELS;
+        let mut looked = if with_oversize {
+            self.oversize.len()
+        } else {
+            0
+        };
         if !a.is_finite() || !b.is_finite() {
             return looked;
         }
         let pad = pad_of(a, b);
-        for e in &self.oversize {
-            if near(e.a, e.b, a, b, pad) {
-                out.push((e.wall as usize, e.k as usize));
+        if with_oversize {
+            for e in &self.oversize {
+                if near(e.a, e.b, a, b, pad) {
+                    out.push((e.wall as usize, e.k as usize));
+                }
             }
         }
         let (qlo, qhi) = corners(a, b, pad);
-        looked += self.visit(qlo, qhi, |e| {
+        looked += self.visit(qlo, qhi, min_level, |e| {
             if near(e.a, e.b, a, b, pad) {
                 out.push((e.wall as usize, e.k as usize));
             }
@@ -232,10 +270,18 @@ impl SegmentGrid {
     }
 
     /// Calls `found` once for every entry in a cell of the box `qlo..qhi`
-    /// (on every level), and returns the number of entries looked at.
-    fn visit(&self, qlo: Complex64, qhi: Complex64, mut found: impl FnMut(&Entry)) -> usize {
+    /// on levels `min_level` and above, and returns the number of entries
+    /// looked at.
+    fn visit(
+        &self,
+        qlo: Complex64,
+        qhi: Complex64,
+        min_level: usize,
+        mut found: impl FnMut(&Entry),
+    ) -> usize {
         let mut looked = 0;
-        for &level in &self.occupied {
+        let first = self.occupied.partition_point(|&l| l < min_level);
+        for &level in &self.occupied[first..] {
             let cells = &self.levels[level];
             let (qx0, qx1, qy0, qy1) = self.cell_range(level, qlo, qhi);
             let mut look = |(cx, cy): (i64, i64), v: &[Entry]| {
@@ -298,9 +344,8 @@ impl SegmentGrid {
         let mut entries = self.oversize.clone();
         let mut looked = entries.len();
         if lo.re <= hi.re && lo.im <= hi.im {
-            looked += self.visit(lo, hi, |e| {
-                let (elo, ehi) = corners(e.a, e.b, 0.0);
-                if elo.re <= hi.re && ehi.re >= lo.re && elo.im <= hi.im && ehi.im >= lo.im {
+            looked += self.visit(lo, hi, 0, |e| {
+                if meets_box(e.a, e.b, lo, hi) {
                     entries.push(*e);
                 }
             });
@@ -343,28 +388,17 @@ impl LocalSegments {
 pub trait SegmentIndex {
     /// Every segment within a relative 1e-9 of `a -> b`, each once, in
     /// `out` (cleared first), and the number of entries looked at.
-    fn candidates_into(&self, a: Complex64, b: Complex64, out: &mut Vec<(usize, usize)>)
-        -> usize;
+    fn candidates_into(&self, a: Complex64, b: Complex64, out: &mut Vec<(usize, usize)>) -> usize;
 }
 
 impl SegmentIndex for SegmentGrid {
-    fn candidates_into(
-        &self,
-        a: Complex64,
-        b: Complex64,
-        out: &mut Vec<(usize, usize)>,
-    ) -> usize {
+    fn candidates_into(&self, a: Complex64, b: Complex64, out: &mut Vec<(usize, usize)>) -> usize {
         SegmentGrid::candidates_into(self, a, b, out)
     }
 }
 
 impl SegmentIndex for LocalSegments {
-    fn candidates_into(
-        &self,
-        a: Complex64,
-        b: Complex64,
-        out: &mut Vec<(usize, usize)>,
-    ) -> usize {
+    fn candidates_into(&self, a: Complex64, b: Complex64, out: &mut Vec<(usize, usize)>) -> usize {
         LocalSegments::candidates_into(self, a, b, out)
     }
 }
@@ -374,6 +408,17 @@ impl SegmentIndex for LocalSegments {
 /// (sums of moduli of parts bound the moduli, with no square roots).
 fn pad_of(a: Complex64, b: Complex64) -> f64 {
     NEAR * (l1(a).max(l1(b)) + l1(b - a))
+}
+
+/// `x.floor() as i64` for `|x| <= 1e15` (and 0 for NaN, as the cast),
+/// without the call to `floor` that the baseline x86-64 target makes.
+fn floor_to_i64(x: f64) -> i64 {
+    let t = x as i64;
+    if (t as f64) > x {
+        t - 1
+    } else {
+        t
+    }
 }
 
 /// `|re| + |im|`, between `|z|` and `sqrt(2) |z|`.
@@ -387,6 +432,32 @@ fn corners(a: Complex64, b: Complex64, pad: f64) -> (Complex64, Complex64) {
         Complex64::new(a.re.min(b.re) - pad, a.im.min(b.im) - pad),
         Complex64::new(a.re.max(b.re) + pad, a.im.max(b.im) + pad),
     )
+}
+
+/// False only if segment `a -> b` misses the box `lo..hi`: their boxes
+/// are apart, or all four corners of the box lie on one side of the
+/// segment's line (beyond a margin for rounding). A segment that misses
+/// the box this way is also rejected by [`near`] for any query inside
+/// the box that stays its pad away from the box's edges, so filtering by
+/// this first changes no answer.
+fn meets_box(a: Complex64, b: Complex64, lo: Complex64, hi: Complex64) -> bool {
+    if a.re.min(b.re) > hi.re
+        || a.re.max(b.re) < lo.re
+        || a.im.min(b.im) > hi.im
+        || a.im.max(b.im) < lo.im
+    {
+        return false;
+    }
+    let d = b - a;
+    let margin = 1e-12 * l1(d) * (l1(a) + l1(b) + l1(lo) + l1(hi));
+    let side = |x: f64, y: f64| (d.conj() * (Complex64::new(x, y) - a)).im;
+    let s = [
+        side(lo.re, lo.im),
+        side(hi.re, lo.im),
+        side(lo.re, hi.im),
+        side(hi.re, hi.im),
+    ];
+    !(s.iter().all(|&v| v > margin) || s.iter().all(|&v| v < -margin))
 }
 
 /// The larger side of the bounding box of `a -> b`, if both ends are finite.
