@@ -58,7 +58,12 @@ fn soak_case() -> (Curve, Settings, f64) {
         num: Poly::new(num),
         den: den.clone(),
     };
-    let coeffs = vec![rational(u3), rational(u2), Rational::zero(), Rational::one()];
+    let coeffs = vec![
+        rational(u3),
+        rational(u2),
+        Rational::zero(),
+        Rational::one(),
+    ];
     let curve = Curve::from_poly_in_y(&PolyInY { coeffs }).unwrap();
     let settings = Settings {
         reach: 41179.65258844687,
@@ -274,7 +279,13 @@ fn profile(which: &str, n: usize) {
             let (curve, settings, theta) = soak_case();
             for _ in 0..n {
                 let net = compute(black_box(&curve), theta, &settings, &CancelToken::new());
-                eprintln!("soak: {} walls, {} joints", net.walls.len(), net.joints.len());
+                eprintln!(
+                    "soak: {} walls, {} joints, {} pair tests, {} flatness tests",
+                    net.walls.len(),
+                    net.joints.len(),
+                    net.stats.pair_tests,
+                    net.stats.flatness_tests
+                );
             }
             return;
         }
