@@ -289,10 +289,12 @@ fn su2_curve(u: Complex64) -> Curve {
     Curve::from_poly_in_y(&eq.evaluate(&p).unwrap()).unwrap()
 }
 
+type KindAndCharge = (Kind, Vec<i64>);
+
 /// The charges of the u = 0 states (g1, g2), and the weak-coupling
 /// spectrum at u = 3 with its charges carried back into the u = 0 basis
 /// along the polyline 0 -> `via` -> 3.
-fn weak_coupling_in_strong_basis(via: Complex64) -> (Vec<Vec<i64>>, Vec<(Kind, Vec<i64>)>) {
+fn weak_coupling_in_strong_basis(via: Complex64) -> (Vec<Vec<i64>>, Vec<KindAndCharge>) {
     let (a, b) = (Complex64::new(0.0, 0.0), Complex64::new(3.0, 0.0));
     let at = move |s: f64| {
         if s <= 0.5 {
