@@ -31,6 +31,49 @@ fn equation(text: &str) -> Curve {
     .unwrap()
 }
 
+/// The soak case of `tests/engine/robust_sweep.rs`
+/// (`slow_rank3_case_from_the_soak_sweep`): a rank-3 curve with two poles
+/// at reach ~4e4 that grows 2000 walls and about 1970 joints.
+fn soak_case() -> (Curve, Settings, f64) {
+    use wallflower::algebra::{Poly, PolyInY, Rational};
+    let c = Complex64::new;
+    let den = Poly::from_roots(
+        c(1.0, 0.0),
+        &[
+            c(1.4978525234275188, 0.5112858819470866),
+            c(0.6277741911391621, -0.4067911068306944),
+        ],
+    );
+    let u3 = vec![
+        c(0.1527539441327147, -0.9894893725174514),
+        c(0.001358636243350351, -0.018397383665083204),
+    ];
+    let u2 = vec![
+        c(-280886.1060045876, -387485.76656054525),
+        c(49.59097328107921, -28.10780454358599),
+        c(0.00104229215145911, -0.0028212193140678883),
+        c(-0.0003054296135217816, 1.735802219025817e-5),
+    ];
+    let rational = |num: Vec<Complex64>| Rational {
+        num: Poly::new(num),
+        den: den.clone(),
+    };
+    let coeffs = vec![
+        rational(u3),
+        rational(u2),
+        Rational::zero(),
+        Rational::one(),
+    ];
+    let curve = Curve::from_poly_in_y(&PolyInY { coeffs }).unwrap();
+    let settings = Settings {
+        reach: 41179.65258844687,
+        tolerance: 2.2486681743416924e-6,
+        bounds: Some(wallflower::walls::Bounds::square(0.0, 0.0, 1e5)),
+        ..Settings::default()
+    };
+    (curve, settings, 5.2613196400235855)
+}
+
 fn report_counters() {
     let c = sextic();
     let s = Settings {
@@ -164,6 +207,26 @@ fn networks(c: &mut Criterion) {
     });
 }
 
+fn big_network(c: &mut Criterion) {
+    let (curve, settings, theta) = soak_case();
+    let net = compute(&curve, theta, &settings, &CancelToken::new());
+    eprintln!(
+        "soak case: {} walls, {} joints, {} points, {} pair tests, {} flatness tests ({:?})",
+        net.walls.len(),
+        net.joints.len(),
+        net.stats.n_points,
+        net.stats.pair_tests,
+        net.stats.flatness_tests,
+        net.limit
+    );
+    let mut group = c.benchmark_group("big network");
+    group.sample_size(10);
+    group.bench_function("soak rank 3, 2000 walls", |b| {
+        b.iter(|| compute(black_box(&curve), theta, &settings, &CancelToken::new()))
+    });
+    group.finish();
+}
+
 fn crossing_search(c: &mut Criterion) {
     let four = equation("y^3 - 3 y + z^2 = 0");
     let mut group = c.benchmark_group("crossing search");
@@ -194,7 +257,7 @@ fn crossing_search(c: &mut Criterion) {
 
 /// A fixed amount of work for instruction counting under
 /// `valgrind --tool=callgrind` (criterion's iteration counts vary from run
-/// to run): `WF_PROFILE=rank2|rank3|counters N` runs N networks and exits.
+/// to run): `WF_PROFILE=rank2|rank3|soak|counters N` runs N networks and exits.
 fn profile(which: &str, n: usize) {
     let (curve, settings) = match which {
         "rank2" => (
@@ -212,6 +275,20 @@ fn profile(which: &str, n: usize) {
                 ..Settings::default()
             },
         ),
+        "soak" => {
+            let (curve, settings, theta) = soak_case();
+            for _ in 0..n {
+                let net = compute(black_box(&curve), theta, &settings, &CancelToken::new());
+                eprintln!(
+                    "soak: {} walls, {} joints, {} pair tests, {} flatness tests",
+                    net.walls.len(),
+                    net.joints.len(),
+                    net.stats.pair_tests,
+                    net.stats.flatness_tests
+                );
+            }
+            return;
+        }
         _ => {
             report_memory();
             report_counters();
@@ -230,7 +307,7 @@ fn profile(which: &str, n: usize) {
 criterion_group! {
     name = benches;
     config = Criterion::default().sample_size(20).measurement_time(std::time::Duration::from_secs(3));
-    targets = networks, crossing_search
+    targets = networks, big_network, crossing_search
 }
 
 fn main() {

@@ -20,7 +20,7 @@ use std::collections::HashMap;
 use std::hash::{BuildHasherDefault, Hasher};
 
 /// Levels of the hierarchy: cells double in size from one to the next.
-const LEVELS: usize = 64;
+pub const LEVELS: usize = 64;
 
 /// Segments that would touch more cells than this (only possible past the
 /// last level) go to a list that every query looks at.
@@ -71,10 +71,13 @@ struct Entry {
 
 /// Wall segments bucketed by level and grid cell. A segment is
 /// `(wall_idx, k)`: the piece from `points[k]` to `points[k + 1]`.
+#[derive(Clone)]
 pub struct SegmentGrid {
     origin: Complex64,
     /// Cell size of level 0.
     base: f64,
+    /// Cells per unit length on each level: `1 / (base 2^l)`.
+    per_unit: [f64; LEVELS],
     levels: Vec<CellMap>,
     /// Levels holding at least one segment, ascending.
     occupied: Vec<usize>,
@@ -93,6 +96,28 @@ impl SegmentGrid {
     /// (indices stay those of `walls`): a query near few points need not
     /// pay for hashing every segment of the network.
     pub fn build_where(walls: &[Wall], keep: impl Fn(Complex64, Complex64) -> bool) -> Self {
+        let mut grid = Self::framed(walls, &keep);
+        for (wi, w) in walls.iter().enumerate() {
+            for k in 0..w.points.len().saturating_sub(1) {
+                let (a, b) = (w.points[k].z, w.points[k + 1].z);
+                if keep(a, b) {
+                    grid.insert(wi, k, a, b);
+                }
+            }
+        }
+        grid
+    }
+
+    /// An empty grid whose cells suit the segments of `walls`, to be
+    /// filled by [`Self::insert`]. Which segments a query reports does not
+    /// depend on the cells, only on what was inserted.
+    pub fn empty_for(walls: &[Wall]) -> Self {
+        Self::framed(walls, &|_, _| true)
+    }
+
+    /// An empty grid with its origin at the lower-left corner of the kept
+    /// segments and level 0 fitted to the shortest of them.
+    fn framed(walls: &[Wall], keep: &impl Fn(Complex64, Complex64) -> bool) -> Self {
         let mut lo = Complex64::new(f64::INFINITY, f64::INFINITY);
         let mut shortest = f64::INFINITY;
         for w in walls {
@@ -117,34 +142,21 @@ impl SegmentGrid {
         // branch points and joints); longer ones climb the levels. Empty
         // levels cost nothing.
         let base = shortest.min(1.0).max(lo.norm().max(1.0) * 1e-12);
-        let mut grid = Self {
+        Self {
             origin: lo,
             base,
+            per_unit: std::array::from_fn(|l| 0.5f64.powi(l as i32) / base),
             levels: (0..LEVELS).map(|_| CellMap::default()).collect(),
             occupied: Vec::new(),
             oversize: Vec::new(),
-        };
-        for (wi, w) in walls.iter().enumerate() {
-            for k in 0..w.points.len().saturating_sub(1) {
-                let (a, b) = (w.points[k].z, w.points[k + 1].z);
-                if keep(a, b) {
-                    grid.insert(wi as u32, k as u32, a, b);
-                }
-            }
         }
-        grid.occupied = (0..LEVELS)
-            .filter(|&l| !grid.levels[l].is_empty())
-            .collect();
-        grid
-    }
-
-    fn cell_size(&self, level: usize) -> f64 {
-        self.base * 2f64.powi(level as i32)
     }
 
     fn cell_range(&self, level: usize, lo: Complex64, hi: Complex64) -> CellRange {
-        let cell = self.cell_size(level);
-        let to = |x: f64, o: f64| ((x - o) / cell).floor().clamp(-1e15, 1e15) as i64;
+        // Rounded like the division by the cell size, but monotone and the
+        // same for inserts and queries, which is all the cells need.
+        let per_cell = self.per_unit[level];
+        let to = |x: f64, o: f64| floor_to_i64(((x - o) * per_cell).clamp(-1e15, 1e15));
         (
             to(lo.re, self.origin.re),
             to(hi.re, self.origin.re),
@@ -153,12 +165,13 @@ impl SegmentGrid {
         )
     }
 
-    fn insert(&mut self, wall: u32, k: u32, a: Complex64, b: Complex64) {
-        let Some(e) = extent(a, b) else {
-            return;
-        };
-        // The smallest level whose cells are at least as large as the
-        // segment's bounding box.
+    /// The level segment `a -> b` is filed on: the smallest whose cells
+    /// are at least as large as its bounding box, or [`LEVELS`] for the
+    /// list of oversize segments; `None` if an end is not finite. A
+    /// segment's crossings with segments on its own level and above are
+    /// found by [`Self::candidates_from_level_into`] from that level.
+    pub fn level_of(&self, a: Complex64, b: Complex64) -> Option<usize> {
+        let e = extent(a, b)?;
         let ratio = e / self.base;
         let level = if ratio <= 1.0 {
             0
@@ -167,17 +180,34 @@ impl SegmentGrid {
         };
         let (lo, hi) = corners(a, b, 0.0);
         let (x0, x1, y0, y1) = self.cell_range(level, lo, hi);
+        if (x1 - x0 + 1).saturating_mul(y1 - y0 + 1) > MAX_CELLS_PER_SEGMENT {
+            Some(LEVELS)
+        } else {
+            Some(level)
+        }
+    }
+
+    /// Adds segment `(wall, k)`, from `a` to `b`.
+    pub fn insert(&mut self, wall: usize, k: usize, a: Complex64, b: Complex64) {
+        let Some(level) = self.level_of(a, b) else {
+            return;
+        };
+        let (lo, hi) = corners(a, b, 0.0);
+        let (x0, x1, y0, y1) = self.cell_range(level.min(LEVELS - 1), lo, hi);
         let entry = Entry {
-            wall,
-            k,
+            wall: wall as u32,
+            k: k as u32,
             x0,
             y0,
             a,
             b,
         };
-        if (x1 - x0 + 1).saturating_mul(y1 - y0 + 1) > MAX_CELLS_PER_SEGMENT {
+        if level == LEVELS {
             self.oversize.push(entry);
             return;
+        }
+        if let Err(at) = self.occupied.binary_search(&level) {
+            self.occupied.insert(at, level);
         }
         for x in x0..=x1 {
             for y in y0..=y1 {
@@ -197,20 +227,61 @@ impl SegmentGrid {
         b: Complex64,
         out: &mut Vec<(usize, usize)>,
     ) -> usize {
+        self.candidates_from_level_into(a, b, 0, out)
+    }
+
+    /// [`Self::candidates_into`] among the segments filed on level
+    /// `min_level` and above only ([`LEVELS`]: the oversize ones). From a
+    /// segment's own level a query touches at most 3 x 3 cells per level,
+    /// so a search that finds each pair from its lower segment costs a
+    /// bounded amount per segment, however long the other is.
+    pub fn candidates_from_level_into(
+        &self,
+        a: Complex64,
+        b: Complex64,
+        min_level: usize,
+        out: &mut Vec<(usize, usize)>,
+    ) -> usize {
         out.clear();
-        let mut looked = self.oversize.len();
+        let with_oversize = min_level <= LEVELS;
+        let mut looked = if with_oversize {
+            self.oversize.len()
+        } else {
+            0
+        };
         if !a.is_finite() || !b.is_finite() {
             return looked;
         }
-        // Sums of moduli of parts bound the moduli (no square roots).
-        let pad = NEAR * (l1(a).max(l1(b)) + l1(b - a));
-        for e in &self.oversize {
-            if near(e.a, e.b, a, b, pad) {
-                out.push((e.wall as usize, e.k as usize));
+        let pad = pad_of(a, b);
+        if with_oversize {
+            for e in &self.oversize {
+                if near(e.a, e.b, a, b, pad) {
+                    out.push((e.wall as usize, e.k as usize));
+                }
             }
         }
         let (qlo, qhi) = corners(a, b, pad);
-        for &level in &self.occupied {
+        looked += self.visit(qlo, qhi, min_level, |e| {
+            if near(e.a, e.b, a, b, pad) {
+                out.push((e.wall as usize, e.k as usize));
+            }
+        });
+        looked
+    }
+
+    /// Calls `found` once for every entry in a cell of the box `qlo..qhi`
+    /// on levels `min_level` and above, and returns the number of entries
+    /// looked at.
+    fn visit(
+        &self,
+        qlo: Complex64,
+        qhi: Complex64,
+        min_level: usize,
+        mut found: impl FnMut(&Entry),
+    ) -> usize {
+        let mut looked = 0;
+        let first = self.occupied.partition_point(|&l| l < min_level);
+        for &level in &self.occupied[first..] {
             let cells = &self.levels[level];
             let (qx0, qx1, qy0, qy1) = self.cell_range(level, qlo, qhi);
             let mut look = |(cx, cy): (i64, i64), v: &[Entry]| {
@@ -218,8 +289,8 @@ impl SegmentGrid {
                 for e in v {
                     // Looked at only from the lower-left cell of the
                     // overlap of the two cell ranges.
-                    if cx == e.x0.max(qx0) && cy == e.y0.max(qy0) && near(e.a, e.b, a, b, pad) {
-                        out.push((e.wall as usize, e.k as usize));
+                    if cx == e.x0.max(qx0) && cy == e.y0.max(qy0) {
+                        found(e);
                     }
                 }
             };
@@ -252,6 +323,102 @@ impl SegmentGrid {
         out.sort_unstable();
         out
     }
+
+    /// The segments that can come near the short polyline `path`, found by
+    /// one query of its bounding box, and the number of grid entries looked
+    /// at. Queries of the path's own segments against them report exactly
+    /// what queries of the grid would; a flatness loop's two dozen sides
+    /// then share one pass over the grid's levels instead of making one
+    /// each (where long walls crowd, a coarse cell holds thousands).
+    pub fn near_path(&self, path: &[Complex64]) -> (LocalSegments, usize) {
+        let mut lo = Complex64::new(f64::INFINITY, f64::INFINITY);
+        let mut hi = Complex64::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
+        for s in path.windows(2) {
+            if !s[0].is_finite() || !s[1].is_finite() {
+                continue;
+            }
+            let (l, h) = corners(s[0], s[1], pad_of(s[0], s[1]));
+            lo = Complex64::new(lo.re.min(l.re), lo.im.min(l.im));
+            hi = Complex64::new(hi.re.max(h.re), hi.im.max(h.im));
+        }
+        let mut entries = self.oversize.clone();
+        let mut looked = entries.len();
+        if lo.re <= hi.re && lo.im <= hi.im {
+            looked += self.visit(lo, hi, 0, |e| {
+                if meets_box(e.a, e.b, lo, hi) {
+                    entries.push(*e);
+                }
+            });
+        }
+        (LocalSegments { entries }, looked)
+    }
+}
+
+/// The segments of a grid near one short path (see
+/// [`SegmentGrid::near_path`]).
+pub struct LocalSegments {
+    entries: Vec<Entry>,
+}
+
+impl LocalSegments {
+    /// [`SegmentGrid::candidates_into`] for a segment of the path these
+    /// were gathered for (the same segments, each once).
+    pub fn candidates_into(
+        &self,
+        a: Complex64,
+        b: Complex64,
+        out: &mut Vec<(usize, usize)>,
+    ) -> usize {
+        out.clear();
+        if !a.is_finite() || !b.is_finite() {
+            return self.entries.len();
+        }
+        let pad = pad_of(a, b);
+        for e in &self.entries {
+            if near(e.a, e.b, a, b, pad) {
+                out.push((e.wall as usize, e.k as usize));
+            }
+        }
+        self.entries.len()
+    }
+}
+
+/// Where a path's crossing candidates come from: a whole grid, or the
+/// segments gathered near that path.
+pub trait SegmentIndex {
+    /// Every segment within a relative 1e-9 of `a -> b`, each once, in
+    /// `out` (cleared first), and the number of entries looked at.
+    fn candidates_into(&self, a: Complex64, b: Complex64, out: &mut Vec<(usize, usize)>) -> usize;
+}
+
+impl SegmentIndex for SegmentGrid {
+    fn candidates_into(&self, a: Complex64, b: Complex64, out: &mut Vec<(usize, usize)>) -> usize {
+        SegmentGrid::candidates_into(self, a, b, out)
+    }
+}
+
+impl SegmentIndex for LocalSegments {
+    fn candidates_into(&self, a: Complex64, b: Complex64, out: &mut Vec<(usize, usize)>) -> usize {
+        LocalSegments::candidates_into(self, a, b, out)
+    }
+}
+
+/// How near a segment must come to the query `a -> b` to be reported: a
+/// relative [`NEAR`] of the query's size and distance from the origin
+/// (sums of moduli of parts bound the moduli, with no square roots).
+fn pad_of(a: Complex64, b: Complex64) -> f64 {
+    NEAR * (l1(a).max(l1(b)) + l1(b - a))
+}
+
+/// `x.floor() as i64` for `|x| <= 1e15` (and 0 for NaN, as the cast),
+/// without the call to `floor` that the baseline x86-64 target makes.
+fn floor_to_i64(x: f64) -> i64 {
+    let t = x as i64;
+    if (t as f64) > x {
+        t - 1
+    } else {
+        t
+    }
 }
 
 /// `|re| + |im|`, between `|z|` and `sqrt(2) |z|`.
@@ -265,6 +432,32 @@ fn corners(a: Complex64, b: Complex64, pad: f64) -> (Complex64, Complex64) {
         Complex64::new(a.re.min(b.re) - pad, a.im.min(b.im) - pad),
         Complex64::new(a.re.max(b.re) + pad, a.im.max(b.im) + pad),
     )
+}
+
+/// False only if segment `a -> b` misses the box `lo..hi`: their boxes
+/// are apart, or all four corners of the box lie on one side of the
+/// segment's line (beyond a margin for rounding). A segment that misses
+/// the box this way is also rejected by [`near`] for any query inside
+/// the box that stays its pad away from the box's edges, so filtering by
+/// this first changes no answer.
+fn meets_box(a: Complex64, b: Complex64, lo: Complex64, hi: Complex64) -> bool {
+    if a.re.min(b.re) > hi.re
+        || a.re.max(b.re) < lo.re
+        || a.im.min(b.im) > hi.im
+        || a.im.max(b.im) < lo.im
+    {
+        return false;
+    }
+    let d = b - a;
+    let margin = 1e-12 * l1(d) * (l1(a) + l1(b) + l1(lo) + l1(hi));
+    let side = |x: f64, y: f64| (d.conj() * (Complex64::new(x, y) - a)).im;
+    let s = [
+        side(lo.re, lo.im),
+        side(hi.re, lo.im),
+        side(lo.re, hi.im),
+        side(hi.re, hi.im),
+    ];
+    !(s.iter().all(|&v| v > margin) || s.iter().all(|&v| v < -margin))
 }
 
 /// The larger side of the bounding box of `a -> b`, if both ends are finite.

@@ -3,52 +3,15 @@
 //! mass m_ij + m_jk (both lie on the ray e^(i theta) R_+), and multiplicity
 //! fixed by flatness (see [`super::jump`]).
 
-use super::crossings::SegmentGrid;
-use super::jump::segment_intersection;
+use super::search::find_crossings;
 use super::{GrowthLimit, Joint};
-use crate::walls::{grow_wall, GrowContext, Origin, Wall, WallPoint, WallSeed, WallType};
+use crate::walls::{grow_wall, GrowContext, Origin, Wall, WallPoint, WallSeed};
 use num_complex::Complex64;
 use std::collections::HashSet;
-
-/// A crossing of two composable segments.
-struct Found {
-    z: Complex64,
-    /// (wall, segment, fraction) of the ij parent and of the jk parent.
-    first: (usize, usize, f64),
-    second: (usize, usize, f64),
-    child: WallType,
-}
 
 fn mass_at(w: &Wall, seg: usize, frac: f64) -> f64 {
     w.points[seg].mass + frac * (w.points[seg + 1].mass - w.points[seg].mass)
 }
-
-/// The child type if `a` (ij) and `b` (jk) compose, in that order.
-fn compose(a: WallType, b: WallType) -> Option<WallType> {
-    (a.j == b.i && a.i != b.j).then_some(WallType { i: a.i, j: b.j })
-}
-
-/// True if `child` was born where `other` (one of its parents) crosses its first point.
-fn is_birth_point(
-    walls: &[Wall],
-    joints: &[Joint],
-    child: usize,
-    other: usize,
-    z: Complex64,
-) -> bool {
-    match walls[child].origin {
-        Origin::Joint { index } => {
-            let j = &joints[index];
-            j.parents.contains(&other) && (z - j.z).norm() <= 1e-9 * (1.0 + z.norm())
-        }
-        Origin::BranchPoint { .. } | Origin::Puncture { .. } => false,
-    }
-}
-
-/// Segment pairs looked at between two polls of the cancel token (a poll
-/// comes after the first query that reaches this many), so that a cancel
-/// stops even the largest search promptly.
-pub const PAIRS_PER_POLL: u64 = 4096;
 
 /// Grows generations of child walls until none appear or a bound is hit.
 /// `stats` counts the segment pairs looked at in the search (grid
@@ -60,81 +23,25 @@ pub fn grow_descendants(
     joints: &mut Vec<Joint>,
     stats: &mut super::Stats,
 ) -> GrowthLimit {
-    let pair_tests = &mut stats.pair_tests;
     let settings = ctx.settings;
     let rot = Complex64::from_polar(1.0, ctx.theta);
     let mut new_from = 0usize;
     let mut seen: HashSet<(usize, usize, usize, usize)> = HashSet::new();
-    let mut candidates: Vec<(usize, usize)> = Vec::new();
-    let mut next_poll = *pair_tests + PAIRS_PER_POLL;
     for generation in 1..=settings.max_generations {
         if ctx.cancel.is_cancelled() {
             return GrowthLimit::Cancelled;
         }
-        let grid = SegmentGrid::build(walls);
-        let mut found: Vec<Found> = Vec::new();
-        for wa in new_from..walls.len() {
-            let a = &walls[wa];
-            for sa in 0..a.points.len().saturating_sub(1) {
-                let (p0, p1) = (a.points[sa].z, a.points[sa + 1].z);
-                *pair_tests += grid.candidates_into(p0, p1, &mut candidates) as u64;
-                if *pair_tests >= next_poll {
-                    next_poll = *pair_tests + PAIRS_PER_POLL;
-                    if ctx.cancel.is_cancelled() {
-                        return GrowthLimit::Cancelled;
-                    }
-                }
-                for &(wb, sb) in &candidates {
-                    // Pairs of two new walls are visited from the lower index only.
-                    if wb == wa || (wb >= new_from && wb < wa) {
-                        continue;
-                    }
-                    let b = &walls[wb];
-                    let (ka, kb) = (a.kind_at(sa), b.kind_at(sb));
-                    let order = if let Some(c) = compose(ka, kb) {
-                        Some((c, true))
-                    } else {
-                        compose(kb, ka).map(|c| (c, false))
-                    };
-                    let Some((child, a_first)) = order else {
-                        continue;
-                    };
-                    let (q0, q1) = (b.points[sb].z, b.points[sb + 1].z);
-                    // Walls that leave one point meet only there.
-                    if sa == 0 && sb == 0 && a.points[0].z == b.points[0].z {
-                        continue;
-                    }
-                    let Some((fa, fb)) = segment_intersection(p0, p1, q0, q1) else {
-                        continue;
-                    };
-                    let z = p0 + (p1 - p0) * fa;
-                    if is_birth_point(walls, joints, wa, wb, z)
-                        || is_birth_point(walls, joints, wb, wa, z)
-                    {
-                        continue;
-                    }
-                    let key = if wa < wb {
-                        (wa, sa, wb, sb)
-                    } else {
-                        (wb, sb, wa, sa)
-                    };
-                    if !seen.insert(key) {
-                        continue;
-                    }
-                    let (first, second) = if a_first {
-                        ((wa, sa, fa), (wb, sb, fb))
-                    } else {
-                        ((wb, sb, fb), (wa, sa, fa))
-                    };
-                    found.push(Found {
-                        z,
-                        first,
-                        second,
-                        child,
-                    });
-                }
-            }
-        }
+        let Some(mut found) = find_crossings(
+            ctx.curve.rank,
+            walls,
+            joints,
+            new_from,
+            &mut seen,
+            &mut stats.pair_tests,
+            ctx.cancel,
+        ) else {
+            return GrowthLimit::Cancelled;
+        };
         if found.is_empty() {
             return GrowthLimit::None;
         }

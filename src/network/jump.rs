@@ -84,6 +84,8 @@ pub enum Crossing {
 // collinear case): `crate::geometry`.
 pub use crate::geometry::segment_crossing as segment_intersection;
 
+use super::crossings::SegmentIndex;
+
 /// All crossings of the polyline `path` with the walls and cuts, in order
 /// along the path. Walls are tested segment by segment against each path
 /// segment's bounding box (the path is short; the walls are indexed by the
@@ -107,7 +109,7 @@ pub fn path_crossings_in(
 fn path_crossings_counted(
     curve: &Curve,
     walls: &[Wall],
-    grid: &super::crossings::SegmentGrid,
+    grid: &impl SegmentIndex,
     path: &[Complex64],
     tests: &mut u64,
 ) -> Vec<Crossing> {
@@ -173,7 +175,7 @@ pub fn path_product_in(
 fn path_product_counted(
     curve: &Curve,
     walls: &[Wall],
-    grid: &super::crossings::SegmentGrid,
+    grid: &impl SegmentIndex,
     path: &[Complex64],
     tests: &mut u64,
 ) -> Matrix {
@@ -377,7 +379,11 @@ pub fn flatness_checked(
         if cancel.is_cancelled() {
             return None;
         }
-        let m = path_product_counted(curve, walls, &grid, &loop_around(z, radius, 24), &mut tests);
+        // One look at the grid per loop; its sides share what it finds.
+        let path = loop_around(z, radius, 24);
+        let (near, looked) = grid.near_path(&path);
+        tests += looked as u64;
+        let m = path_product_counted(curve, walls, &near, &path, &mut tests);
         let d = deviation_from_identity(&m);
         if is_joint {
             out.joints.push(d);

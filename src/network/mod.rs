@@ -4,6 +4,7 @@
 pub mod crossings;
 pub mod growth;
 pub mod jump;
+mod search;
 mod warning;
 
 use crate::cancel::CancelToken;
