@@ -13,7 +13,7 @@ use super::paint::paint_layer;
 use super::worker::ProgressFn;
 use crate::algebra::parse_equation;
 use crate::cancel::CancelToken;
-use crate::scan::singular::{branch_polynomial, singular_points, SingularPoint};
+use crate::scan::singular::{branch_polynomial, classify, singular_points, SingularPoint};
 use crate::scan::summary::{chambers, summarize, MapSummary};
 use crate::scan::walls::{MarginalWall, PointStates};
 use crate::scan::{self, Grid};
@@ -213,9 +213,11 @@ fn scan_map(
         values.insert(name.clone(), p);
         branch_polynomial(&equation.as_ref()?.evaluate(&values).ok()?)
     };
-    let rank_two = poly_at(grid.point(0)).is_some();
-    if rank_two {
-        progress(Update::Singular(singular_points(grid, &poly_at, token)));
+    // Walls are traced at rank 2 only; the singular locus at ranks 2 and 3.
+    let rank_two = curve_at(grid.point(0)).is_ok_and(|c| c.rank == 2);
+    if poly_at(grid.point(0)).is_some() {
+        let (singular, _smooth) = classify(singular_points(grid, &poly_at, token), &curve_at);
+        progress(Update::Singular(singular));
     }
     let indices: Vec<usize> = (0..grid.len()).collect();
     let mut points = Vec::with_capacity(grid.len());

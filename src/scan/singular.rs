@@ -3,7 +3,7 @@
 //! state becomes massless).
 //!
 //! Rank 2 (`y^2 = q`): branch points are the zeros of the numerator `N(z)`
-//! of the reduced `q`. Two of them collide exactly where the discriminant
+//! of the reduced `q` (rank 3: of the cubic's discriminant, the same way). Two of them collide exactly where the discriminant
 //! of `N` (in z) vanishes, i.e. at the zeros in the parameter of
 //!
 //! ```text
@@ -21,6 +21,7 @@
 use super::Grid;
 use crate::algebra::{Poly, PolyInY};
 use crate::cancel::CancelToken;
+use crate::curve::{Curve, Site};
 use num_complex::Complex64;
 
 /// Gives the polynomial whose zeros are the branch points, at a parameter
@@ -38,19 +39,66 @@ pub struct SingularPoint {
     pub step: f64,
 }
 
-/// For a rank-2 equation `a y^2 + b y + c = 0`: the numerator of the
-/// reduced `q = (b^2 - 4 a c) / (4 a^2)`, whose zeros are the branch
-/// points. `None` for other ranks.
+/// The numerator of the discriminant in y of the equation, divided by the
+/// leading coefficient's power that makes it the monic curve's, whose
+/// zeros are the branch points: for `a y^2 + b y + c = 0` the reduced
+/// `q = (b^2 - 4 a c) / (4 a^2)`; for `a y^3 + b y^2 + c y + d = 0`
+///
+/// ```text
+/// (b^2 c^2 - 4 a c^3 - 4 b^3 d - 27 a^2 d^2 + 18 a b c d) / a^4
+/// ```
+///
+/// (the discriminant of the cubic, a fact of the trade). `None` for other
+/// ranks.
 pub fn branch_polynomial(p: &PolyInY) -> Option<Poly> {
-    if p.degree_in_y() != 2 {
-        return None;
-    }
-    let (c, b, a) = (&p.coeffs[0], &p.coeffs[1], &p.coeffs[2]);
-    let disc = b.mul(b).sub(&a.mul(c).scale(Complex64::new(4.0, 0.0)));
-    let q = disc.div(&a.mul(a).scale(Complex64::new(4.0, 0.0)))?;
-    let num = q.reduced().num;
+    let k = |x: f64| Complex64::new(x, 0.0);
+    let disc = match p.degree_in_y() {
+        2 => {
+            let (c, b, a) = (&p.coeffs[0], &p.coeffs[1], &p.coeffs[2]);
+            let disc = b.mul(b).sub(&a.mul(c).scale(k(4.0)));
+            disc.div(&a.mul(a).scale(k(4.0)))?
+        }
+        3 => {
+            let (d, c, b, a) = (&p.coeffs[0], &p.coeffs[1], &p.coeffs[2], &p.coeffs[3]);
+            let disc = b
+                .mul(b)
+                .mul(c)
+                .mul(c)
+                .sub(&a.mul(c).mul(c).mul(c).scale(k(4.0)))
+                .sub(&b.mul(b).mul(b).mul(d).scale(k(4.0)))
+                .sub(&a.mul(a).mul(d).mul(d).scale(k(27.0)))
+                .add(&a.mul(b).mul(c).mul(d).scale(k(18.0)));
+            let a2 = a.mul(a);
+            disc.div(&a2.mul(&a2))?
+        }
+        _ => return None,
+    };
+    let num = disc.reduced().num;
     let finite = num.coeffs.iter().all(|c| c.is_finite());
     (finite && num.degree() >= 2).then_some(num)
+}
+
+/// The collisions of [`singular_points`] split by what the curve does
+/// there: `singular` where a cycle vanishes (the curve is resolved there, or
+/// its local model is singular), `smooth` where the branch points merge
+/// into a point of higher ramification with a smooth cover (three sheets
+/// meeting like (z - b)^(1/3): nothing becomes massless).
+pub fn classify(
+    found: Vec<SingularPoint>,
+    curve_at: &dyn Fn(Complex64) -> Result<Curve, String>,
+) -> (Vec<SingularPoint>, Vec<SingularPoint>) {
+    found.into_iter().partition(|sp| {
+        let Ok(curve) = curve_at(sp.param) else {
+            return true;
+        };
+        let near = |z: Complex64| (z - sp.z).norm() <= 1e-3 * (1.0 + sp.z.norm());
+        let smooth = curve
+            .special
+            .iter()
+            .any(|s| near(s.z) && !s.is_singular() && matches!(s.site, Site::BranchPoint(_)));
+        let resolved = curve.resolutions.iter().any(|r| near(r.z));
+        resolved || !smooth
+    })
 }
 
 /// The two roots closest to each other and their distance.

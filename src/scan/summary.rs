@@ -3,7 +3,7 @@
 //! spectrum; until states carry charges, "the same spectrum" means the same
 //! numbers of hypermultiplets, vector multiplets and other states).
 
-use super::singular::{singular_points, BranchPolyAt, SingularPoint};
+use super::singular::{classify, singular_points, BranchPolyAt, SingularPoint};
 use super::walls::{trace, MarginalWall, PointStates};
 use super::{CurveAt, Grid};
 use crate::cancel::CancelToken;
@@ -103,16 +103,31 @@ pub fn summarize(
 ) -> MapSummary {
     let mut warnings = Vec::new();
     let singular = match branch_poly_at {
-        Some(f) => singular_points(grid, f, cancel),
+        Some(f) => {
+            let (singular, smooth) = classify(singular_points(grid, f, cancel), curve_at);
+            if !smooth.is_empty() {
+                let at: Vec<String> = smooth
+                    .iter()
+                    .map(|s| format!("{:.6}{:+.6}i", s.param.re, s.param.im))
+                    .collect();
+                warnings.push(format!(
+                    "branch points also meet at {} into a point where more sheets meet with a smooth cover: nothing becomes massless there, so these are not singular points",
+                    at.join(", ")
+                ));
+            }
+            singular
+        }
         None => {
             warnings.push(
-                "the singular locus is computed for rank-2 curves only: none shown".to_string(),
+                "the singular locus is computed for rank-2 and rank-3 curves only: none shown"
+                    .to_string(),
             );
             Vec::new()
         }
     };
     let (chambers, chamber_of) = chambers(grid, points);
-    let traced = if branch_poly_at.is_some() {
+    let rank_two = curve_at(grid.point(0)).is_ok_and(|c| c.rank == 2);
+    let traced = if rank_two {
         trace(grid, points, curve_at, settings, cancel)
     } else {
         warnings.push(

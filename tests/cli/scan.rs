@@ -238,3 +238,65 @@ fn map_files_and_bad_input() {
     assert!(!Path::new("unused.jsonl").exists());
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// The singular locus at rank 3. For the pure SU(3)-type curve
+/// y^3 + u y / z^2 + (1 + v z + z^2) / z^4 = 0 the branch points are the
+/// zeros of N(z) = -4 u^3 z^2 - 27 (z^2 + v z + 1)^2 (the cubic's
+/// discriminant times z^8), which factors as -27 (w - a z)(w + a z) with
+/// w = z^2 + v z + 1 and a^2 = -4 u^3 / 27. Two branch points collide where
+/// a factor z^2 + (v -+ a) z + 1 has a double root, (v -+ a)^2 = 4, i.e.
+/// u^3 = -(27/4)(v +- 2)^2: six points (derived here). The two factors
+/// also share their roots at u = 0, where three sheets meet smoothly
+/// (nothing becomes massless): that must not be listed as singular.
+#[test]
+fn rank_three_singular_points_are_the_collisions_where_a_cycle_vanishes() {
+    let dir = tmp_dir("su3-singular");
+    let out = dir.join("map.jsonl");
+    let summary = dir.join("map.json");
+    let (out_s, sum_s) = (out.to_str().unwrap(), summary.to_str().unwrap());
+    let (code, _, err) = run(&[
+        "scan",
+        "--curve",
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        "--set",
+        "v=0.5",
+        "--set",
+        "u=1",
+        "--param",
+        "u",
+        "--re=-4..4",
+        "--im=-4..4",
+        "--grid",
+        "4x4",
+        "--reach",
+        "6",
+        "-o",
+        out_s,
+        "--summary",
+        sum_s,
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_slice(&read(&summary)).unwrap();
+    let found: Vec<(f64, f64)> = v["singular"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|p| (p[0].as_f64().unwrap(), p[1].as_f64().unwrap()))
+        .collect();
+    let mut expected = Vec::new();
+    for w in [2.5_f64, 1.5] {
+        let m = (27.0 / 4.0 * w * w).cbrt();
+        for k in 0..3 {
+            let phi = std::f64::consts::PI * (1.0 + 2.0 * k as f64) / 3.0;
+            expected.push((m * phi.cos(), m * phi.sin()));
+        }
+    }
+    assert_eq!(found.len(), 6, "{found:?}");
+    for e in &expected {
+        assert!(
+            found.iter().any(|f| (f.0 - e.0).hypot(f.1 - e.1) < 1e-8),
+            "missing {e:?} in {found:?}"
+        );
+    }
+    assert!(found.iter().all(|f| f.0.hypot(f.1) > 0.5), "{found:?}");
+}

@@ -461,3 +461,52 @@ fn parallel_results_equal_serial_results_and_cancel_is_prompt() {
     }
     assert!(best.as_millis() < 50, "cancelled after {best:?} at best");
 }
+
+/// Collisions of branch points are told apart by the curve there: for the
+/// pure SU(3)-type curve at v = 0.5, u = 0 merges pairs of simple branch
+/// points into points where three sheets meet with a smooth cover (the
+/// roots of z^2 + 0.5 z + 1; nothing becomes massless), while at
+/// u^3 = -(27/4)(2.5)^2 two branch points of one pair collide and a cycle
+/// vanishes (see the CLI test of the same curve for the derivation).
+#[test]
+fn rank_three_collisions_are_classified_by_the_local_model() {
+    use wallflower::scan::singular::{classify, SingularPoint};
+    let curve_at = |u: Complex64| -> Result<wallflower::Curve, String> {
+        let s = wallflower::scenario::Scenario {
+            curve: Some("y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0".into()),
+            params: [
+                ("u".to_string(), [u.re, u.im]),
+                ("v".to_string(), [0.5, 0.0]),
+            ]
+            .into_iter()
+            .collect(),
+            ..Default::default()
+        };
+        s.build_curve().map_err(|e| e.to_string())
+    };
+    // A root of z^2 + 0.5 z + 1.
+    let smooth_z = Complex64::new(-0.25, (1.0f64 - 0.0625).sqrt());
+    // u^3 = -(27/4) 2.5^2 on the negative real axis; the double root of
+    // z^2 + (v - a) z + 1 with (v - a)^2 = 4 is z = -(v - a)/2 = +-1.
+    let u_s = -(27.0f64 / 4.0 * 6.25).cbrt();
+    let a = (-4.0 * u_s.powi(3) / 27.0).sqrt();
+    assert!(((0.5 - a).powi(2) - 4.0).abs() < 1e-9, "a = {a}");
+    let z_s = -(0.5 - a) / 2.0;
+    let points = vec![
+        SingularPoint {
+            param: Complex64::new(0.0, 0.0),
+            z: smooth_z,
+            step: 0.0,
+        },
+        SingularPoint {
+            param: Complex64::new(u_s, 0.0),
+            z: Complex64::new(z_s, 0.0),
+            step: 0.0,
+        },
+    ];
+    let (singular, smooth) = classify(points, &curve_at);
+    assert_eq!(singular.len(), 1, "{singular:?}");
+    assert!((singular[0].param.re - u_s).abs() < 1e-12);
+    assert_eq!(smooth.len(), 1, "{smooth:?}");
+    assert_eq!(smooth[0].param, Complex64::new(0.0, 0.0));
+}
