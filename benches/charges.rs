@@ -35,54 +35,50 @@ fn ks_su2_order_12(c: &mut Criterion) {
     });
 }
 
-/// The lattice and every state's charge (with the checks) for the spectrum
-/// of the `spectrum` bench `su2_u3_reach_8zw`, to set against that bench.
-fn lattice_and_charges(c: &mut Criterion) {
-    let eq = parse_equation("y^2 = (1 + 6 z + z^2)/z^3").unwrap();
-    let su2 = Curve::from_poly_in_y(&eq.evaluate(&BTreeMap::new()).unwrap()).unwrap();
+/// Benches the lattice and every state's charge (with the checks) for the
+/// spectrum of `equation` to `reach`, found once beforehand.
+fn bench_assign(c: &mut Criterion, name: &str, equation: &str, reach: f64) {
+    let eq = parse_equation(equation).unwrap();
+    let curve = Curve::from_poly_in_y(&eq.evaluate(&BTreeMap::new()).unwrap()).unwrap();
     let settings = SpectrumSettings {
-        reach: 8.0 * 30.561_582_312,
+        reach,
         ..SpectrumSettings::default()
     };
-    let found = find(&su2, &settings, &CancelToken::new(), &mut |_| {});
-    let mut bare = found.clone();
+    let mut bare = find(&curve, &settings, &CancelToken::new(), &mut |_| {});
     bare.lattice = None;
     for s in &mut bare.states {
         s.charge = None;
     }
-    c.bench_function("lattice_and_charges_su2_u3_reach_8zw", |b| {
+    c.bench_function(name, |b| {
         b.iter(|| {
             let mut s = bare.clone();
-            wallflower::charges::assign(black_box(&su2), &mut s);
-            assert!(s.lattice.is_some());
+            wallflower::charges::assign(black_box(&curve), &mut s);
+            assert!(s.lattice.as_ref().is_some_and(|l| l.spans_gauge()));
             s
         })
     });
 }
 
+/// For the spectrum of the `spectrum` bench `su2_u3_reach_8zw`, to set
+/// against that bench.
+fn lattice_and_charges(c: &mut Criterion) {
+    bench_assign(
+        c,
+        "lattice_and_charges_su2_u3_reach_8zw",
+        "y^2 = (1 + 6 z + z^2)/z^3",
+        8.0 * 30.561_582_312,
+    );
+}
+
 /// The same for the six webs of the `spectrum` bench
 /// `pure_su3_strong_reach_20` (rank 4, charges from the webs' lifts).
 fn lattice_and_charges_rank3(c: &mut Criterion) {
-    let eq = parse_equation("y^3 + (0.3+0.2i)*y/z^2 + (1 + (0.4-0.1i)*z + z^2)/z^4 = 0").unwrap();
-    let su3 = Curve::from_poly_in_y(&eq.evaluate(&BTreeMap::new()).unwrap()).unwrap();
-    let settings = SpectrumSettings {
-        reach: 20.0,
-        ..SpectrumSettings::default()
-    };
-    let found = find(&su3, &settings, &CancelToken::new(), &mut |_| {});
-    let mut bare = found.clone();
-    bare.lattice = None;
-    for s in &mut bare.states {
-        s.charge = None;
-    }
-    c.bench_function("lattice_and_charges_pure_su3_strong_reach_20", |b| {
-        b.iter(|| {
-            let mut s = bare.clone();
-            wallflower::charges::assign(black_box(&su3), &mut s);
-            assert!(s.lattice.as_ref().is_some_and(|l| l.spans_gauge()));
-            s
-        })
-    });
+    bench_assign(
+        c,
+        "lattice_and_charges_pure_su3_strong_reach_20",
+        "y^3 + (0.3+0.2i)*y/z^2 + (1 + (0.4-0.1i)*z + z^2)/z^4 = 0",
+        20.0,
+    );
 }
 
 criterion_group!(

@@ -24,11 +24,10 @@
 //! listed as a vector multiplet with its index unknown (and a warning).
 
 use super::pair::{Pair, PairQuadrature};
+use super::ring::closes_after_one_period;
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
-use crate::walls::{
-    grow_wall, Bounds, EndReason, GrowContext, Origin, Settings, WallSeed, WallType,
-};
+use crate::walls::{Bounds, GrowContext, Settings, WallType};
 use num_complex::Complex64;
 use std::f64::consts::TAU;
 
@@ -40,9 +39,6 @@ const CIRCLE_VERTICES: usize = 96;
 const MIN_RING_RATIO: f64 = 1.5;
 /// Sheets agreeing to this, relative, have come back to themselves.
 const SAME_SHEET: f64 = 1e-6;
-/// A closed trajectory comes back to within this fraction of the length
-/// scale (the integrator's tolerance is far smaller).
-const CLOSURE: f64 = 1e-5;
 
 /// A circle and a pair of sheets whose period may be a ring domain's.
 #[derive(Clone, Debug)]
@@ -176,23 +172,9 @@ pub fn closed_loop(
             // cut between): every ordered pair is tried. Only the pair of
             // period Z closes after exactly the mass |Z|.
             for (i, j) in ordered_pairs(roots.len()) {
-                let seed = WallSeed {
-                    z: p,
-                    roots: roots.clone(),
-                    kind: WallType::new(i, j),
-                    mass: 0.0,
-                    origin: Origin::Joint { index: usize::MAX },
-                    generation: 0,
-                    multiplicity: 1,
-                    prefix: Vec::new(),
-                };
-                let wall = grow_wall(&ctx, seed);
-                if wall.end != EndReason::Reach {
-                    continue;
-                }
-                let end = wall.points.last()?.z;
-                if (end - p).norm() <= CLOSURE * scale.max(p.norm()) {
-                    return Some((wall.points.iter().map(|w| w.z).collect(), [i, j]));
+                let kind = WallType::new(i, j);
+                if let Some(line) = closes_after_one_period(&ctx, p, roots.clone(), kind, scale) {
+                    return Some((line, [i, j]));
                 }
             }
         }

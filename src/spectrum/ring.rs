@@ -139,28 +139,43 @@ pub fn closed_trajectory(
         let Ok(roots) = curve.sheets_at(p) else {
             continue;
         };
-        let seed = WallSeed {
-            z: p,
-            roots,
-            kind: WallType::new(0, 1),
-            mass: 0.0,
-            origin: Origin::Joint { index: usize::MAX },
-            generation: 0,
-            multiplicity: 1,
-            prefix: Vec::new(),
-        };
-        let wall = grow_wall(&ctx, seed);
-        if wall.end != EndReason::Reach {
-            continue;
-        }
-        let end = wall.points.last()?.z;
-        // Closure to far better than the trial spacing, scaled by the
-        // integrator's tolerance.
-        if (end - p).norm() <= 1e-5 * scale.max(p.norm()) {
-            return Some(wall.points.iter().map(|w| w.z).collect());
+        if let Some(line) = closes_after_one_period(&ctx, p, roots, WallType::new(0, 1), scale) {
+            return Some(line);
         }
     }
     None
+}
+
+/// The trajectory of type `kind` from `p` grown for exactly the context's
+/// reach (one period's mass), if it comes back to `p`: its polyline. The
+/// closure is asked to far better than any trial spacing, scaled by the
+/// integrator's tolerance; a trajectory that is not closed does not return
+/// to its start after precisely one period. Shared by the rank-2 rings and
+/// the rank >= 3 ones ([`super::annulus`]).
+pub fn closes_after_one_period(
+    ctx: &GrowContext<'_>,
+    p: Complex64,
+    roots: Vec<Complex64>,
+    kind: WallType,
+    scale: f64,
+) -> Option<Vec<Complex64>> {
+    let seed = WallSeed {
+        z: p,
+        roots,
+        kind,
+        mass: 0.0,
+        origin: Origin::Joint { index: usize::MAX },
+        generation: 0,
+        multiplicity: 1,
+        prefix: Vec::new(),
+    };
+    let wall = grow_wall(ctx, seed);
+    if wall.end != EndReason::Reach {
+        return None;
+    }
+    let end = wall.points.last()?.z;
+    ((end - p).norm() <= 1e-5 * scale.max(p.norm()))
+        .then(|| wall.points.iter().map(|w| w.z).collect())
 }
 
 /// Points around the pair where a closed trajectory encircling it would

@@ -30,6 +30,16 @@ fn json(args: &[&str]) -> serde_json::Value {
     serde_json::from_str(&out).unwrap()
 }
 
+/// A state's `charge` in the JSON.
+fn charge(s: &serde_json::Value) -> Vec<i64> {
+    s["charge"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|x| x.as_i64().unwrap())
+        .collect()
+}
+
 #[test]
 fn the_pentagon_wall_passes_the_ks_check() {
     let v = json(&[
@@ -59,14 +69,6 @@ fn the_pentagon_wall_passes_the_ks_check() {
         .map(|x| x.as_u64().unwrap() as usize)
         .collect();
     let before = c["before"].as_array().unwrap();
-    let charge = |s: &serde_json::Value| -> Vec<i64> {
-        s["charge"]
-            .as_array()
-            .unwrap()
-            .iter()
-            .map(|x| x.as_i64().unwrap())
-            .collect()
-    };
     let (g1, g2) = (charge(&before[aligned[0]]), charge(&before[aligned[1]]));
     let pairing: Vec<Vec<i64>> = v["lattice"]["pairing"]
         .as_array()
@@ -207,14 +209,6 @@ fn a_rank_three_wall_passes_the_ks_check() {
     ]);
     let changes = v["crossings"].as_array().unwrap();
     assert!(!changes.is_empty(), "{v}");
-    let charge = |s: &serde_json::Value| -> Vec<i64> {
-        s["charge"]
-            .as_array()
-            .unwrap()
-            .iter()
-            .map(|x| x.as_i64().unwrap())
-            .collect()
-    };
     for c in changes {
         assert_eq!(c["cause"], "marginal-stability", "{c}");
         assert_eq!(c["ks"]["holds"], true, "{c}");

@@ -25,7 +25,7 @@ use wallflower::spectrum::{find, same_up_to_sign, BpsState, Kind, Spectrum, Spec
 use wallflower::walls::Origin;
 use wallflower::{compute, CancelToken, Curve, Settings};
 
-use crate::support::{c, curve_with, spectrum};
+use crate::support::{assert_self_check, c, curve_with, spectrum};
 
 /// The scenario rank-three.ron: y^3 - 3 a z y + z^3 - 1 = 0 at a = 0.5.
 fn scenario_curve() -> Curve {
@@ -40,6 +40,14 @@ fn own(p: Complex64, a: Complex64, b: Complex64, cc: Complex64) -> Curve {
 }
 fn own_base() -> Curve {
     own(c(-3.0, 0.0), c(1.0, 0.0), c(0.7, 0.0), c(0.0, 0.2))
+}
+
+/// The pure SU(3)-type curve y^3 + u y / z^2 + (1 + v z + z^2) / z^4 = 0.
+fn pure_su3(u: Complex64, v: Complex64) -> Curve {
+    curve_with(
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        &[("u", u), ("v", v)],
+    )
 }
 
 // ---------- the test's own quadrature ----------
@@ -188,7 +196,7 @@ fn check_states(label: &str, curve: &Curve, sp: &Spectrum, max_z_error: f64) {
         "{label}: no states: {:?}",
         sp.warnings
     );
-    check_charges(label, sp);
+    assert_self_check(sp);
     for (n, s) in sp.states.iter().enumerate() {
         let indep = web_charge(curve, s);
         let rel = (indep - s.z).norm().min((indep + s.z).norm()) / s.abs;
@@ -264,41 +272,6 @@ fn check_states(label: &str, curve: &Curve, sp: &Spectrum, max_z_error: f64) {
             "{label}: state {n}: closest approach {at:e} at the phase, {before:e} and {after:e} beside it"
         );
     }
-}
-
-/// The self-check of every spectrum: each state has a charge from its own
-/// web, its Z is the charge's combination of the basis periods (periods by
-/// quadrature round the singular points, a computation independent of the
-/// web's) to 1e-8, and the charges span the gauge lattice.
-fn check_charges(label: &str, sp: &Spectrum) {
-    let lat = sp.lattice.as_ref().expect("a lattice");
-    for (n, s) in sp.states.iter().enumerate() {
-        let q = s
-            .charge
-            .as_ref()
-            .unwrap_or_else(|| panic!("{label}: state {n} has no charge: {:?}", sp.warnings));
-        let z: Complex64 = q.iter().zip(&lat.basis).map(|(&x, b)| b * x as f64).sum();
-        assert!(
-            (z - s.z).norm() < 1e-8 * (1.0 + s.abs),
-            "{label}: state {n}: Z {} vs its charge's period {z}",
-            s.z
-        );
-    }
-    // One state per charge (up to sign: particle and antiparticle).
-    for (a, s) in sp.states.iter().enumerate() {
-        for t in &sp.states[..a] {
-            let (p, q) = (s.charge.as_ref().unwrap(), t.charge.as_ref().unwrap());
-            let neg: Vec<i64> = q.iter().map(|x| -x).collect();
-            assert!(p != q && *p != neg, "{label}: charge {p:?} listed twice");
-        }
-    }
-    assert!(
-        lat.spans_gauge(),
-        "{label}: charges span rank {} (index {}) of {}",
-        lat.span_rank,
-        lat.span_index,
-        lat.gauge_rank
-    );
 }
 
 fn print(label: &str, sp: &Spectrum) {
@@ -706,17 +679,14 @@ fn network_budget_stops_with_a_warning() {
 /// Cartan matrix of A_(N-1), of determinant N (a fact of the trade).
 #[test]
 fn pure_su3_near_strong_coupling_has_six_hypers_spanning_the_lattice() {
-    let cv = curve_with(
-        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
-        &[("u", c(0.3, 0.2)), ("v", c(0.4, -0.1))],
-    );
+    let cv = pure_su3(c(0.3, 0.2), c(0.4, -0.1));
     let sp = spectrum(&cv, 20.0);
     print("pure SU(3)", &sp);
     assert_eq!(sp.states.len(), 6, "{:?}", sp.warnings);
     for s in &sp.states {
         assert_eq!((s.kind, s.omega), (Kind::Hyper, Some(1)));
     }
-    check_charges("pure SU(3)", &sp);
+    assert_self_check(&sp);
     let lat = sp.lattice.as_ref().unwrap();
     assert_eq!((lat.gauge_rank, lat.flavour_rank), (4, 0));
     // Pfaffian of a 4x4 antisymmetric form.
@@ -747,13 +717,10 @@ fn pure_su3_near_strong_coupling_has_six_hypers_spanning_the_lattice() {
 /// of the two lighter ones (circle periods): two independent quadratures.
 #[test]
 fn pure_su3_weak_coupling_w_bosons_are_the_positive_roots() {
-    let cv = curve_with(
-        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
-        &[("u", c(8.0, 0.0)), ("v", c(0.0, 3.0))],
-    );
+    let cv = pure_su3(c(8.0, 0.0), c(0.0, 3.0));
     let sp = spectrum(&cv, 35.5);
     print("pure SU(3), weak coupling", &sp);
-    check_charges("pure SU(3), weak coupling", &sp);
+    assert_self_check(&sp);
     let lat = sp.lattice.as_ref().unwrap();
     let pair = |a: &[i64], b: &[i64]| -> i64 {
         (0..a.len())
@@ -867,7 +834,7 @@ fn symmetric_cube_root_points_have_their_webs() {
     let sp = spectrum(&cv, 8.0);
     print("y^3 = z^3 - 1", &sp);
     assert!(sp.states.len() >= 6, "{:?}", sp.warnings);
-    check_charges("y^3 = z^3 - 1", &sp);
+    assert_self_check(&sp);
     let lightest = sp
         .states
         .iter()
@@ -905,14 +872,11 @@ fn symmetric_cube_root_points_have_their_webs() {
 /// webs ending on those points.
 #[test]
 fn pure_su3_at_u_zero_has_six_states() {
-    let cv = curve_with(
-        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
-        &[("u", c(0.0, 0.0)), ("v", c(0.5, 0.0))],
-    );
+    let cv = pure_su3(c(0.0, 0.0), c(0.5, 0.0));
     let sp = spectrum(&cv, 20.0);
     print("pure SU(3) at u = 0", &sp);
     assert_eq!(sp.states.len(), 6, "{:?}", sp.warnings);
-    check_charges("pure SU(3) at u = 0", &sp);
+    assert_self_check(&sp);
 }
 
 /// The pure SU(3)-type curve at real u = 1, v = 0.5 has real central
@@ -922,13 +886,10 @@ fn pure_su3_at_u_zero_has_six_states() {
 /// and said so.
 #[test]
 fn webs_of_one_charge_are_one_state() {
-    let cv = curve_with(
-        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
-        &[("u", c(1.0, 0.0)), ("v", c(0.5, 0.0))],
-    );
+    let cv = pure_su3(c(1.0, 0.0), c(0.5, 0.0));
     let sp = spectrum(&cv, 20.0);
     print("pure SU(3) at u = 1, v = 0.5", &sp);
-    check_charges("pure SU(3) at u = 1, v = 0.5", &sp);
+    assert_self_check(&sp);
     let merged: Vec<&BpsState> = sp
         .states
         .iter()
