@@ -16,6 +16,7 @@ pub mod quad;
 pub mod samples;
 pub mod scan;
 pub mod setting_error;
+pub mod solitons;
 pub mod walls;
 
 pub use cancel::CancelToken;

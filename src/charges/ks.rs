@@ -38,6 +38,7 @@
 //! chambers (2 and 3 states) agree under it and disagree under the reverse
 //! order (tests/charges_crossing.rs).
 
+use num_complex::Complex64;
 use thiserror::Error;
 
 /// Errors of the exact arithmetic.
@@ -49,6 +50,8 @@ pub enum KsError {
     BadOrder(usize),
     #[error("charge ({0}, {1}) is not in the cone of the two generators")]
     OutsideCone(i64, i64),
+    #[error("the automorphism is not a phase-ordered product of KS factors up to order {order}")]
+    NotAProduct { order: usize },
 }
 
 /// One factor `K_g^Omega` with `g = a g1 + b g2`.
@@ -220,6 +223,70 @@ pub fn phase_ordered_product(
     product(&factors, pairing, order)
 }
 
+/// The indices on the other side: the unique `Omega(a g1 + b g2)` (every
+/// charge of the cone up to `target.order`, multiples included) whose
+/// product, written in increasing `arg Z` with `Z(g1) = z1`, `Z(g2) = z2`,
+/// equals `target`. Degree by degree: a factor of degree d changes the
+/// images first at degree d + 1, linearly, by `-Omega <g', g> (-1)^<g', g>`
+/// on `X_(g' + g)` (g' = g1 or g2, whichever pairs with g non-trivially),
+/// so each index follows from the degree-(d + 1) terms left over by the
+/// factors already found. The result is checked against `target` in full
+/// (both images, every degree); an automorphism that is no such product is
+/// refused. Zero indices are left out.
+pub fn factor(target: &KsProduct, z1: Complex64, z2: Complex64) -> Result<Vec<KsFactor>, KsError> {
+    let (order, m) = (target.order, target.pairing);
+    let not_a_product = KsError::NotAProduct { order };
+    if m == 0 {
+        // The generators commute: every K_g is the identity.
+        return if product(&[], m, order)? == *target {
+            Ok(Vec::new())
+        } else {
+            Err(not_a_product)
+        };
+    }
+    let arg_of = |a: i64, b: i64| {
+        let z = z1 * a as f64 + z2 * b as f64;
+        // Continuous on the cone's side of z1: the cone is less than a
+        // half-plane, so measuring from z1 never wraps.
+        (z / z1).arg()
+    };
+    let mut found: Vec<PhasedFactor> = Vec::new();
+    for d in 1..order {
+        let now = phase_ordered_product(&found, m, order)?;
+        for b in 0..=d {
+            let a = d - b;
+            // Pair with g1 unless g is a multiple of g1.
+            let (image, at, pair) = if b > 0 {
+                (0, (a + 1, b), m as i128 * b as i128)
+            } else {
+                (1, (a, b + 1), -(m as i128) * a as i128)
+            };
+            let left = target.images[image].coeff(at.0, at.1) - now.images[image].coeff(at.0, at.1);
+            let sign: i128 = if pair % 2 == 0 { 1 } else { -1 };
+            let per_unit = -pair * sign;
+            if left % per_unit != 0 {
+                return Err(not_a_product);
+            }
+            let omega = i64::try_from(left / per_unit).map_err(|_| KsError::Overflow { order })?;
+            if omega != 0 {
+                let (a, b) = (a as i64, b as i64);
+                found.push(PhasedFactor {
+                    factor: KsFactor {
+                        charge: [a, b],
+                        omega,
+                    },
+                    arg_z: arg_of(a, b),
+                });
+            }
+        }
+    }
+    if phase_ordered_product(&found, m, order)? != *target {
+        return Err(not_a_product);
+    }
+    found.sort_by(|x, y| x.arg_z.total_cmp(&y.arg_z));
+    Ok(found.into_iter().map(|f| f.factor).collect())
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -374,6 +441,89 @@ mod tests {
             let expected = if m % 2 == 1 { m } else { -m };
             assert_eq!(matching, vec![expected], "m = {m}");
         }
+    }
+
+    /// `binom(m, n)`.
+    fn binomial(m: i64, n: i64) -> i64 {
+        (0..n).fold(1, |acc, j| acc * (m - j) / (j + 1))
+    }
+
+    /// Factoring `K_g2 K_g1` (`<g1, g2> = m`) in the opposite phase order
+    /// gives the bound states of the m-Kronecker quiver. For the thin
+    /// dimension vectors (1, n) the moduli space is the Grassmannian
+    /// Gr(n, m), so `Omega(g1 + n g2) = (-1)^(n (m - n)) binom(m, n)`, zero
+    /// for n > m (Reineke 2003, from memory). m = 1 is the pentagon, m = 2
+    /// the SU(2) tower, m = 3 the first wild case (Omega(g1 + g2) = 3).
+    #[test]
+    fn factoring_recovers_the_kronecker_spectrum() {
+        let order = 8;
+        let (z1, z2) = (Complex64::new(1.0, 0.0), Complex64::from_polar(1.0, 0.5));
+        for m in 1..=4_i64 {
+            let lhs = product(&[k(0, 1, 1), k(1, 0, 1)], m, order).unwrap();
+            let other_side = factor(&lhs, z1, z2).unwrap();
+            let omega = |a: i64, b: i64| {
+                other_side
+                    .iter()
+                    .find(|f| f.charge == [a, b])
+                    .map_or(0, |f| f.omega)
+            };
+            assert_eq!((omega(1, 0), omega(0, 1)), (1, 1), "m = {m}");
+            for n in 1..=(m + 2).min(order as i64 - 2) {
+                let grassmannian = if n > m {
+                    0
+                } else {
+                    let sign = if (n * (m - n)) % 2 == 0 { 1 } else { -1 };
+                    sign * binomial(m, n)
+                };
+                assert_eq!(omega(1, n), grassmannian, "m = {m}, (1, {n})");
+                // The quiver's symmetry swaps the two nodes.
+                assert_eq!(omega(n, 1), grassmannian, "m = {m}, ({n}, 1)");
+            }
+            // Written in increasing arg Z: g1 first, g2 last.
+            assert_eq!(other_side.first().unwrap().charge, [1, 0]);
+            assert_eq!(other_side.last().unwrap().charge, [0, 1]);
+        }
+    }
+
+    /// m = 1 and m = 2 in full: the pentagon's three states, and the SU(2)
+    /// tower with its W boson and nothing else (no 2W, no other multiples).
+    #[test]
+    fn factoring_gives_the_pentagon_and_the_tower_exactly() {
+        let order = 10;
+        let (z1, z2) = (Complex64::new(1.0, 0.0), Complex64::from_polar(1.0, 0.5));
+        let pentagon = product(&[k(0, 1, 1), k(1, 0, 1)], 1, order).unwrap();
+        assert_eq!(
+            factor(&pentagon, z1, z2).unwrap(),
+            vec![k(1, 0, 1), k(1, 1, 1), k(0, 1, 1)]
+        );
+        let su2 = product(&[k(0, 1, 1), k(1, 0, 1)], 2, order).unwrap();
+        let tower = factor(&su2, z1, z2).unwrap();
+        let mut expected: Vec<KsFactor> = Vec::new();
+        for n in 0..=4 {
+            expected.push(k(n + 1, n, 1));
+            expected.push(k(n, n + 1, 1));
+        }
+        expected.push(k(1, 1, -2));
+        let mut got = tower.clone();
+        let key = |f: &KsFactor| (f.charge, f.omega);
+        got.sort_by_key(key);
+        expected.sort_by_key(key);
+        assert_eq!(got, expected);
+        // In the phase order the product is read in, it is itself.
+        assert_eq!(
+            factor(&su2, z2, z1).unwrap(),
+            vec![k(0, 1, 1), k(1, 0, 1)]
+        );
+    }
+
+    /// Something that is no product of KS factors is refused, not fitted:
+    /// the pentagon's left side with its images swapped.
+    #[test]
+    fn factoring_refuses_what_is_no_product() {
+        let mut p = product(&[k(0, 1, 1), k(1, 0, 1)], 1, 6).unwrap();
+        p.images.swap(0, 1);
+        let (z1, z2) = (Complex64::new(1.0, 0.0), Complex64::from_polar(1.0, 0.5));
+        assert!(matches!(factor(&p, z1, z2), Err(KsError::NotAProduct { .. })));
     }
 
     #[test]

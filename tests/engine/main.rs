@@ -29,6 +29,7 @@ mod samples;
 mod scan_map;
 mod scenario_files;
 mod singular_spectrum;
+mod solitons;
 mod special_points;
 mod spectrum_api;
 mod spectrum_cubic;

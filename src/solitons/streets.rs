@@ -1,0 +1,191 @@
+//! What runs along a two-way street: the walls of a resolved network (the
+//! network at `theta_c +- eps`) that pass a point x of the street, and the
+//! series `Q(x) = 1 + tau(x) nu(x)` they make.
+//!
+//! At a phase near the critical one every wall of the street's pair {i, j}
+//! near x is a leaf of the same foliation (the walls of types ij and ji are
+//! the trajectories of `e^(-i theta)(y_i - y_j) dz > 0` and `< 0`), so they
+//! run along the street; each carries one soliton, of central charge
+//! `e^(i theta)` times its mass at x, and its signed count `mu` in the
+//! labels that hold there. `tau` collects the ij walls, `nu` the ji walls,
+//! and every product of one of each is a closed class of mass
+//! `m_a + m_b`: a multiple k of the state's `|Z|` when the phase is a
+//! generic critical one (every class aligned with the state is a multiple
+//! of it). Its term in Q is `mu_a mu_b x^k`, in the signs of the engine's
+//! gauge (the cut signs of [`crate::curve::cut_signs`] and the primary
+//! counts of [`crate::network::jump`]); the rank-2 saddle fixes that this
+//! reads `Q = 1 - x` for a hypermultiplet.
+
+use crate::curve::Curve;
+use crate::network::Network;
+use crate::walls::WallType;
+use num_complex::Complex64;
+
+/// One wall passing a sample point.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Pass {
+    pub wall: usize,
+    /// Its type on the segment passing x, in the labels that hold at x.
+    pub kind: WallType,
+    /// Its signed soliton count there.
+    pub mu: i64,
+    /// Its mass at the point of the pass nearest x.
+    pub mass: f64,
+    pub distance: f64,
+}
+
+/// Why a sample point gives no series.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum SampleError {
+    /// A cut runs between x and a wall passing it: the labels differ.
+    CutBetween,
+    /// Walls of several pairs pass x in both directions (a joint is near).
+    SeveralPairs,
+    /// No walls in one of the two directions: x is not on a street.
+    OneWay,
+    /// A closed class is not a whole multiple of the unit.
+    NotAMultiple,
+    Overflow,
+}
+
+/// Distance from `x` to the segment `a b`, and the fraction along it.
+fn to_segment(a: Complex64, b: Complex64, x: Complex64) -> (f64, f64) {
+    let d = b - a;
+    let t = if d.norm_sqr() > 0.0 {
+        (((x - a) * d.conj()).re / d.norm_sqr()).clamp(0.0, 1.0)
+    } else {
+        0.0
+    };
+    ((a + d * t - x).norm(), t)
+}
+
+/// Every pass of a wall of `net` within `band` of `x`: a run of consecutive
+/// segments inside the band counts once, at its nearest point (a wall that
+/// spirals passes x once per turn).
+pub fn passes_near(net: &Network, x: Complex64, band: f64) -> Vec<(Pass, Complex64)> {
+    let mut out = Vec::new();
+    for (w, wall) in net.walls.iter().enumerate() {
+        let pts = &wall.points;
+        // The best segment of the current run: (distance, segment, t).
+        let mut run: Option<(f64, usize, f64)> = None;
+        let flush = |run: &mut Option<(f64, usize, f64)>, out: &mut Vec<(Pass, Complex64)>| {
+            if let Some((distance, s, t)) = run.take() {
+                let (a, b) = (pts[s], pts[s + 1]);
+                out.push((
+                    Pass {
+                        wall: w,
+                        kind: wall.kind_at(s),
+                        mu: wall.multiplicity_at(s),
+                        mass: a.mass + t * (b.mass - a.mass),
+                        distance,
+                    },
+                    a.z + (b.z - a.z) * t,
+                ));
+            }
+        };
+        for s in 0..pts.len().saturating_sub(1) {
+            let (a, b) = (pts[s].z, pts[s + 1].z);
+            // Cheap reject before the projection.
+            let lo = (a - x).norm().min((b - x).norm());
+            if lo > band + (b - a).norm() {
+                flush(&mut run, &mut out);
+                continue;
+            }
+            let (d, t) = to_segment(a, b, x);
+            if d <= band {
+                if run.is_none_or(|(best, _, _)| d < best) {
+                    run = Some((d, s, t));
+                }
+            } else {
+                flush(&mut run, &mut out);
+            }
+        }
+        flush(&mut run, &mut out);
+    }
+    out
+}
+
+/// The series at a sample point.
+#[derive(Clone, Debug, PartialEq)]
+pub struct StreetSeries {
+    /// `q[k]` is the coefficient of `x^k`, `x = X_gamma` for the unit class.
+    pub q: Vec<i128>,
+    /// The street's pair, in the labels at the point.
+    pub pair: [usize; 2],
+    /// Walls in the ij and the ji direction.
+    pub counts: [usize; 2],
+}
+
+/// `Q(x)` from the passes at `x`, in powers of the class of mass `unit`, up
+/// to `x^n`.
+pub fn series_at(
+    curve: &Curve,
+    net: &Network,
+    x: Complex64,
+    band: f64,
+    unit: f64,
+    n: usize,
+) -> Result<StreetSeries, SampleError> {
+    let passes = passes_near(net, x, band);
+    // Labels change across cuts: a pass on the far side of one is read in
+    // other labels than x's.
+    if passes
+        .iter()
+        .any(|(_, at)| curve.cuts.iter().any(|c| c.crossing(*at, x).is_some()))
+    {
+        return Err(SampleError::CutBetween);
+    }
+    let key = |k: WallType| {
+        let (i, j) = (usize::from(k.i), usize::from(k.j));
+        [i.min(j), i.max(j)]
+    };
+    let mut pairs: Vec<[usize; 2]> = Vec::new();
+    for (p, _) in &passes {
+        let both = passes.iter().any(|(q, _)| q.kind == p.kind.reversed());
+        if both && !pairs.contains(&key(p.kind)) {
+            pairs.push(key(p.kind));
+        }
+    }
+    let pair = match pairs.as_slice() {
+        [] => return Err(SampleError::OneWay),
+        [one] => *one,
+        _ => return Err(SampleError::SeveralPairs),
+    };
+    let forward: Vec<&Pass> = passes
+        .iter()
+        .map(|(p, _)| p)
+        .filter(|p| [usize::from(p.kind.i), usize::from(p.kind.j)] == pair)
+        .collect();
+    let backward: Vec<&Pass> = passes
+        .iter()
+        .map(|(p, _)| p)
+        .filter(|p| [usize::from(p.kind.j), usize::from(p.kind.i)] == pair)
+        .collect();
+    let mut q = vec![0_i128; n + 1];
+    q[0] = 1;
+    for a in &forward {
+        for b in &backward {
+            let k = (a.mass + b.mass) / unit;
+            let whole = k.round();
+            if (k - whole).abs() > 1e-3 * k.max(1.0) || whole < 1.0 {
+                // Beyond the truncation a stray class does no harm.
+                if k <= n as f64 + 0.5 {
+                    return Err(SampleError::NotAMultiple);
+                }
+                continue;
+            }
+            let k = whole as usize;
+            if k <= n {
+                let term = i128::from(a.mu)
+                    .checked_mul(i128::from(b.mu))
+                    .ok_or(SampleError::Overflow)?;
+                q[k] = q[k].checked_add(term).ok_or(SampleError::Overflow)?;
+            }
+        }
+    }
+    Ok(StreetSeries {
+        q,
+        pair,
+        counts: [forward.len(), backward.len()],
+    })
+}
