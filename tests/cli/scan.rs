@@ -42,11 +42,35 @@ fn threads_and_shards_give_the_single_run_byte_for_byte() {
     let reference = read(&single);
     let text = String::from_utf8(reference.clone()).unwrap();
     assert_eq!(text.lines().count(), 35);
+    let mut codes_at_two = Vec::new();
     for (k, line) in text.lines().enumerate() {
         let v: serde_json::Value = serde_json::from_str(line).unwrap();
         assert_eq!(v["index"], k, "sorted by grid index");
         assert!(v["param"].is_array() && v["states"].is_array() && v["warnings"].is_array());
+        // Warnings are objects with a stable code and the sentence.
+        for w in v["warnings"].as_array().unwrap() {
+            let code = w["code"].as_str().unwrap_or_else(|| panic!("no code: {w}"));
+            assert!(
+                code.chars().all(|c| c.is_ascii_lowercase() || c == '_'),
+                "{w}"
+            );
+            assert!(!w["message"].as_str().unwrap().is_empty(), "{w}");
+            let (re, im) = (
+                v["param"][0].as_f64().unwrap(),
+                v["param"][1].as_f64().unwrap(),
+            );
+            if (re - 2.0).abs() < 1e-9 && im.abs() < 1e-9 {
+                codes_at_two.push(code.to_string());
+            }
+        }
     }
+    // u = 2 is a grid point where two branch points of z^3 - 3z + u meet
+    // (the discriminant 4 * 27 - 27 u^2 vanishes): the finder works on a
+    // resolution and says so.
+    assert!(
+        codes_at_two.iter().any(|c| c == "resolved"),
+        "{codes_at_two:?}"
+    );
     // Two threads.
     let two = dir.join("two.jsonl");
     let (code, _, err) = run(&scan_args(
