@@ -476,7 +476,7 @@ pub fn check_spectrum(
         ));
     }
     for w in &s.warnings {
-        if w.trim().is_empty() || w.contains('\n') {
+        if w.message.trim().is_empty() || w.message.contains('\n') {
             return Err(format!("bad warning {w:?}"));
         }
     }

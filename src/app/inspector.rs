@@ -161,7 +161,7 @@ fn states_section(ui: &mut egui::Ui, app: &WallflowerApp, out: &mut Vec<Command>
                 // The finder's own caveats come first: "none found" must not
                 // read as "none exist" when the finder declined the curve.
                 for w in &spectrum.warnings {
-                    ui.label(RichText::new(w).color(ui.visuals().warn_fg_color));
+                    ui.label(RichText::new(&w.message).color(ui.visuals().warn_fg_color));
                 }
                 if spectrum.states.is_empty() && spectrum.warnings.is_empty() {
                     ui.label(RichText::new(format!("none with |Z| < {}", spectrum.reach)).weak());

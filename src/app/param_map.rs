@@ -222,11 +222,7 @@ fn scan_map(
     let indices: Vec<usize> = (0..grid.len()).collect();
     let mut points = Vec::with_capacity(grid.len());
     let outcome = scan::run(grid, &indices, &curve_at, &settings, 1, token, &mut |r| {
-        let p = PointStates {
-            param: r.param,
-            states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
-            usable: !r.warnings.iter().any(|w| w.starts_with("no curve here")),
-        };
+        let p = PointStates::from(&r);
         points.push(p.clone());
         progress(Update::Point(r.index, p))
     });

@@ -11,6 +11,7 @@ use super::view_state::Interaction;
 use super::widgets::{check, error_color};
 use crate::angle::parse_angle;
 use crate::scene::palette;
+use crate::spectrum::SpectrumWarning;
 use eframe::egui::{self, RichText};
 use std::f64::consts::TAU;
 
@@ -235,7 +236,7 @@ fn status_line(ui: &mut egui::Ui, app: &WallflowerApp) {
             RichText::new("spectrum: no states found, with warnings (hover)")
                 .color(ui.visuals().warn_fg_color),
         )
-        .on_hover_text(s.warnings.join("\n"));
+        .on_hover_text(messages(&s.warnings));
     } else if let Some(s) = spectrum {
         let r = ui.label(format!(
             "spectrum: {} BPS state{} with |Z| < {} ({:.0} ms)",
@@ -245,7 +246,7 @@ fn status_line(ui: &mut egui::Ui, app: &WallflowerApp) {
             app.spectrum.last_ms
         ));
         if !s.warnings.is_empty() {
-            r.on_hover_text(s.warnings.join("\n"));
+            r.on_hover_text(messages(&s.warnings));
         }
     }
     if let Some(e) = network_error {
@@ -262,4 +263,13 @@ fn status_line(ui: &mut egui::Ui, app: &WallflowerApp) {
             .weak(),
         );
     });
+}
+
+/// The sentences of a spectrum's warnings, one a line.
+fn messages(warnings: &[SpectrumWarning]) -> String {
+    warnings
+        .iter()
+        .map(|w| w.message.as_str())
+        .collect::<Vec<_>>()
+        .join("\n")
 }

@@ -16,7 +16,7 @@ pub mod lattice;
 pub use lattice::{Charge, Lattice, LatticeError, LiftedEdge};
 
 use crate::curve::Curve;
-use crate::spectrum::{BpsState, Kind, Spectrum};
+use crate::spectrum::{BpsState, Kind, Spectrum, SpectrumWarning, SpectrumWarningKind};
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
 
@@ -128,9 +128,12 @@ fn merge_equal_charges(spectrum: &mut Spectrum) {
     }
     for (m, &n) in merged.iter().zip(&counts) {
         if n > 1 {
-            spectrum.warnings.push(format!(
-                "{n} webs of one charge close at phase {:.6} (|Z| = {:.6}): listed as one state with index unknown (each web adds to it)",
-                m.phase, m.abs
+            spectrum.warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::IndexUnknownSameCharge,
+                format!(
+                    "{n} webs of one charge close at phase {:.6} (|Z| = {:.6}): listed as one state with index unknown (each web adds to it)",
+                    m.phase, m.abs
+                ),
             ));
         }
     }
@@ -153,9 +156,10 @@ pub fn assign_with(
     let lat = match lattice {
         Ok(l) => l,
         Err(e) => {
-            spectrum
-                .warnings
-                .push(format!("no charge lattice: {e}; states carry no charges"));
+            spectrum.warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::NoLattice,
+                format!("no charge lattice: {e}; states carry no charges"),
+            ));
             return;
         }
     };
@@ -182,14 +186,17 @@ pub fn assign_with(
     let mut kept = Vec::with_capacity(before);
     for s in std::mem::take(&mut spectrum.states) {
         if s.charge.as_ref().is_some_and(|c| c.iter().all(|&x| x == 0)) {
-            spectrum.warnings.push(format!(
-                "a {} with Z = {:.6}{:+.6}i was dropped: its cycle is null in homology",
-                match s.kind {
-                    Kind::Vector => "vector multiplet",
-                    _ => "state",
-                },
-                s.z.re,
-                s.z.im
+            spectrum.warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::NullCycle,
+                format!(
+                    "a {} with Z = {:.6}{:+.6}i was dropped: its cycle is null in homology",
+                    match s.kind {
+                        Kind::Vector => "vector multiplet",
+                        _ => "state",
+                    },
+                    s.z.re,
+                    s.z.im
+                ),
             ));
         } else {
             kept.push(s);
@@ -209,14 +216,18 @@ pub fn assign_with(
         .collect();
     let (span_rank, span_index) = intmat::span(&gauge_parts, gauge);
     for (idx, why) in &uncharged {
-        spectrum
-            .warnings
-            .push(format!("state {} has no charge: {why}", idx + 1));
+        spectrum.warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::NoCharge,
+            format!("state {} has no charge: {why}", idx + 1),
+        ));
     }
     for (idx, err) in &mismatched {
-        spectrum.warnings.push(format!(
-            "state {}: Z differs from its charge's period by {err:.1e}: its cycle or the lattice is wrong",
-            idx + 1
+        spectrum.warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::ChargeMismatch,
+            format!(
+                "state {}: Z differs from its charge's period by {err:.1e}: its cycle or the lattice is wrong",
+                idx + 1
+            ),
         ));
     }
     let summary = LatticeSummary {
@@ -235,8 +246,11 @@ pub fn assign_with(
         } else {
             format!("a sublattice of index {span_index}")
         };
-        spectrum.warnings.push(format!(
-            "the charges of the states found span {detail} of the gauge lattice: states are missing (raise the reach or the scan resolution)"
+        spectrum.warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::ChargesDoNotSpan,
+            format!(
+                "the charges of the states found span {detail} of the gauge lattice: states are missing (raise the reach or the scan resolution)"
+            ),
         ));
     }
     spectrum.lattice = Some(summary);

@@ -112,7 +112,7 @@ fn state_web(loaded: &Loaded, n: usize) -> anyhow::Result<(f64, Vec<Vec<Complex6
     });
     bar.finish_and_clear();
     for w in &found.warnings {
-        eprintln!("warning: {}", super::one_line(w));
+        eprintln!("warning: {}", super::one_line(&w.message));
     }
     match n.checked_sub(1).and_then(|i| found.states.get(i)) {
         Some(st) => Ok((st.phase, st.web.clone())),

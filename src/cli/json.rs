@@ -9,6 +9,8 @@ use num_complex::Complex64;
 use serde::Serialize;
 use wallflower::curve::{BranchPoint, Puncture};
 use wallflower::network::{Network, WarningKind};
+use wallflower::scan::warning::MapWarning;
+use wallflower::spectrum::SpectrumWarning;
 use wallflower::walls::{EndReason, Origin, Wall, WallType};
 
 fn xy(z: Complex64) -> [f64; 2] {
@@ -179,6 +181,32 @@ pub struct NetworkJson {
 pub struct WarningJson {
     pub code: &'static str,
     pub message: String,
+}
+
+impl From<&SpectrumWarning> for WarningJson {
+    fn from(w: &SpectrumWarning) -> Self {
+        Self {
+            code: w.kind.code(),
+            message: w.message.clone(),
+        }
+    }
+}
+
+impl From<&MapWarning> for WarningJson {
+    fn from(w: &MapWarning) -> Self {
+        Self {
+            code: w.kind.code(),
+            message: w.message.clone(),
+        }
+    }
+}
+
+/// The JSON form of a list of warnings.
+pub fn warnings_json<'a, W>(warnings: &'a [W]) -> Vec<WarningJson>
+where
+    &'a W: Into<WarningJson>,
+{
+    warnings.iter().map(Into::into).collect()
 }
 
 impl NetworkJson {

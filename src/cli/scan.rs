@@ -9,6 +9,7 @@
 //! (`--summary`, `--plot`) is rebuilt from it.
 
 use super::draw::{parse_size, Format, ThemeArg};
+use super::json::{warnings_json, WarningJson};
 use super::output::write_atomic;
 use super::source::{load, SourceArgs};
 use super::spectrum::state_json;
@@ -29,6 +30,7 @@ use wallflower::scan::walls::PointStates;
 use wallflower::scan::{self, Grid, PointResult, Shard};
 use wallflower::scenario::{Scenario, Theme};
 use wallflower::scene::param_map::{build_param_map, MapOptions};
+use wallflower::spectrum::SpectrumWarningKind;
 use wallflower::spectrum::{Kind, SpectrumSettings};
 use wallflower::CancelToken;
 
@@ -140,11 +142,11 @@ impl ScanMeta {
 
 /// The object written for one grid point.
 #[derive(Serialize)]
-struct PointLine<'a> {
+struct PointLine {
     index: usize,
     param: [f64; 2],
     states: Vec<super::spectrum::StateJson>,
-    warnings: &'a [String],
+    warnings: Vec<WarningJson>,
 }
 
 fn point_line(r: &PointResult, reach: f64) -> String {
@@ -152,7 +154,7 @@ fn point_line(r: &PointResult, reach: f64) -> String {
         index: r.index,
         param: [r.param.re, r.param.im],
         states: r.states.iter().map(|s| state_json(s, reach)).collect(),
-        warnings: &r.warnings,
+        warnings: warnings_json(&r.warnings),
     };
     let mut text = serde_json::to_string(&line).unwrap_or_default();
     text.push('\n');
@@ -456,12 +458,30 @@ fn read_points(path: &Path, grid: &Grid) -> anyhow::Result<Vec<PointStates>> {
         z: [f64; 2],
         kind: String,
     }
+    /// A warning as written now, with its code, or as lines of maps
+    /// written before warnings had codes carry it: the sentence alone.
+    #[derive(Deserialize)]
+    #[serde(untagged)]
+    enum WarningIn {
+        Coded { code: String },
+        Sentence(String),
+    }
+    impl WarningIn {
+        /// Whether the curve could not be built at the point.
+        fn no_curve(&self) -> bool {
+            match self {
+                Self::Coded { code } => code == SpectrumWarningKind::NoCurve.code(),
+                // Such lines have no code: their sentence is the only mark.
+                Self::Sentence(text) => text.starts_with("no curve here"),
+            }
+        }
+    }
     #[derive(Deserialize)]
     struct LineIn {
         index: usize,
         param: [f64; 2],
         states: Vec<StateIn>,
-        warnings: Vec<String>,
+        warnings: Vec<WarningIn>,
     }
     let shown = path.display();
     let file = std::fs::File::open(path).with_context(|| format!("cannot read {shown}"))?;
@@ -479,10 +499,7 @@ fn read_points(path: &Path, grid: &Grid) -> anyhow::Result<Vec<PointStates>> {
                 parsed.index
             );
         }
-        let usable = !parsed
-            .warnings
-            .iter()
-            .any(|w| w.starts_with("no curve here"));
+        let usable = !parsed.warnings.iter().any(WarningIn::no_curve);
         points.push(PointStates {
             param: Complex64::new(parsed.param[0], parsed.param[1]),
             states: parsed
@@ -541,7 +558,7 @@ fn finish_map(prepared: &Prepared, jsonl: &Path, map: &MapArgs) -> anyhow::Resul
         &CancelToken::new(),
     );
     for w in &summary.warnings {
-        eprintln!("warning: {}", super::one_line(w));
+        eprintln!("warning: {}", super::one_line(&w.message));
     }
     if let Some(path) = &map.summary {
         let mut text = serde_json::to_string_pretty(&summary_json(&summary))?;
@@ -601,7 +618,7 @@ struct SummaryJson {
     singular_detail: Vec<SingularJson>,
     walls: Vec<WallJson>,
     chambers: Vec<ChamberJson>,
-    warnings: Vec<String>,
+    warnings: Vec<WarningJson>,
 }
 
 fn xy(z: Complex64) -> [f64; 2] {
@@ -642,7 +659,7 @@ fn summary_json(s: &MapSummary) -> SummaryJson {
                 sample: xy(c.sample),
             })
             .collect(),
-        warnings: s.warnings.clone(),
+        warnings: warnings_json(&s.warnings),
     }
 }
 

@@ -3,6 +3,7 @@
 //! bar on stderr when stderr is a terminal.
 
 use super::draw::{parse_size, Format, ThemeArg};
+use super::json::{warnings_json, WarningJson};
 use super::output::write_atomic;
 use super::source::{load, Loaded, SourceArgs};
 use super::{bad_input, emit};
@@ -187,7 +188,7 @@ struct SpectrumJson {
     states: Vec<StateJson>,
     /// States that are massless at a singular point of the curve (Z = 0).
     massless: Vec<StateJson>,
-    warnings: Vec<String>,
+    warnings: Vec<WarningJson>,
     lattice: Option<LatticeJson>,
     /// `pairings[i][j] = <charge_i, charge_j>`.
     pairings: Vec<Vec<Option<i64>>>,
@@ -247,7 +248,7 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
     });
     bar.finish_and_clear();
     for w in &found.warnings {
-        eprintln!("warning: {}", super::one_line(w));
+        eprintln!("warning: {}", super::one_line(&w.message));
     }
     if args.json {
         let doc = SpectrumJson {
@@ -262,7 +263,7 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 .iter()
                 .map(|s| state_json(s, found.reach))
                 .collect(),
-            warnings: found.warnings.clone(),
+            warnings: warnings_json(&found.warnings),
             lattice: found.lattice.as_ref().map(lattice_json),
             pairings: state_pairings(&found),
         };
@@ -388,7 +389,7 @@ struct CrossingJson {
     other_changes: Vec<ChangeJson>,
     /// The lattice at the start of the path (charges refer to it).
     lattice: Option<LatticeJson>,
-    warnings: Vec<String>,
+    warnings: Vec<WarningJson>,
 }
 
 #[derive(Serialize)]
@@ -478,7 +479,7 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
     );
     bar.finish_and_clear();
     for w in &report.warnings {
-        eprintln!("warning: {}", super::one_line(w));
+        eprintln!("warning: {}", super::one_line(&w.message));
     }
     let reach = settings.reach;
     let start_lattice = report.start_lattice.clone();
@@ -515,7 +516,7 @@ pub fn run_crossing(args: &CrossingArgs) -> anyhow::Result<ExitCode> {
                 worst_z_error: None,
                 ..lattice_json(l)
             }),
-            warnings: report.warnings.clone(),
+            warnings: warnings_json(&report.warnings),
         };
         emit(&serde_json::to_string(&doc)?)?;
         emit("\n")?;

@@ -15,12 +15,13 @@ pub mod grid;
 pub mod singular;
 pub mod summary;
 pub mod walls;
+pub mod warning;
 
 pub use grid::{Grid, Shard};
 
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
-use crate::spectrum::{self, BpsState, SpectrumSettings};
+use crate::spectrum::{self, BpsState, SpectrumSettings, SpectrumWarning, SpectrumWarningKind};
 use num_complex::Complex64;
 use std::collections::BTreeMap;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
@@ -40,7 +41,7 @@ pub struct PointResult {
     pub states: Vec<BpsState>,
     /// The curve's notes and the finder's warnings; the reason when the
     /// curve could not be built (then `states` is empty).
-    pub warnings: Vec<String>,
+    pub warnings: Vec<SpectrumWarning>,
     /// The finder was cancelled: the point must not be written.
     pub cancelled: bool,
 }
@@ -57,7 +58,11 @@ pub fn compute_point(
     match curve_at(param) {
         Ok(curve) => {
             let found = spectrum::find(&curve, settings, cancel, &mut |_| {});
-            let mut warnings: Vec<String> = curve.notes.iter().map(|n| n.message.clone()).collect();
+            let mut warnings: Vec<SpectrumWarning> = curve
+                .notes
+                .iter()
+                .map(|n| SpectrumWarning::new(SpectrumWarningKind::CurveNote, n.message.clone()))
+                .collect();
             warnings.extend(found.warnings);
             PointResult {
                 index,
@@ -71,7 +76,10 @@ pub fn compute_point(
             index,
             param,
             states: Vec::new(),
-            warnings: vec![format!("no curve here: {e}")],
+            warnings: vec![SpectrumWarning::new(
+                SpectrumWarningKind::NoCurve,
+                format!("no curve here: {e}"),
+            )],
             cancelled: cancel.is_cancelled(),
         },
     }

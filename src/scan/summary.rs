@@ -5,6 +5,7 @@
 
 use super::singular::{classify, singular_points, BranchPolyAt, SingularPoint};
 use super::walls::{trace, MarginalWall, PointStates};
+use super::warning::{MapWarning, MapWarningKind};
 use super::{CurveAt, Grid};
 use crate::cancel::CancelToken;
 use crate::spectrum::SpectrumSettings;
@@ -32,7 +33,7 @@ pub struct MapSummary {
     pub chambers: Vec<Chamber>,
     /// For each grid point, its chamber (None where the point is unusable).
     pub chamber_of: Vec<Option<usize>>,
-    pub warnings: Vec<String>,
+    pub warnings: Vec<MapWarning>,
 }
 
 /// Connected regions (through the four neighbours) of equal signature.
@@ -110,18 +111,21 @@ pub fn summarize(
                     .iter()
                     .map(|s| format!("{:.6}{:+.6}i", s.param.re, s.param.im))
                     .collect();
-                warnings.push(format!(
-                    "branch points also meet at {} into a point where more sheets meet with a smooth cover: nothing becomes massless there, so these are not singular points",
-                    at.join(", ")
+                warnings.push(MapWarning::new(
+                    MapWarningKind::SmoothCollision,
+                    format!(
+                        "branch points also meet at {} into a point where more sheets meet with a smooth cover: nothing becomes massless there, so these are not singular points",
+                        at.join(", ")
+                    ),
                 ));
             }
             singular
         }
         None => {
-            warnings.push(
-                "the singular locus is computed for rank-2 and rank-3 curves only: none shown"
-                    .to_string(),
-            );
+            warnings.push(MapWarning::new(
+                MapWarningKind::SingularLocusUnsupported,
+                "the singular locus is computed for rank-2 and rank-3 curves only: none shown",
+            ));
             Vec::new()
         }
     };
@@ -130,17 +134,19 @@ pub fn summarize(
     let traced = if rank_two {
         trace(grid, points, curve_at, settings, cancel)
     } else {
-        warnings.push(
-            "walls of marginal stability are traced for rank-2 curves only: none shown".to_string(),
-        );
+        warnings.push(MapWarning::new(
+            MapWarningKind::WallsUnsupported,
+            "walls of marginal stability are traced for rank-2 curves only: none shown",
+        ));
         Default::default()
     };
     warnings.extend(traced.warnings);
     let walls = through_singular_points(traced.walls, &singular, grid);
     if !singular.is_empty() {
-        warnings.push(
-            "at a singular point a state is massless and the spectrum there depends on the direction of approach: grid points very close to one may be unreliable".to_string(),
-        );
+        warnings.push(MapWarning::new(
+            MapWarningKind::NearSingularPoint,
+            "at a singular point a state is massless and the spectrum there depends on the direction of approach: grid points very close to one may be unreliable",
+        ));
     }
     MapSummary {
         singular,

@@ -30,7 +30,8 @@
 //!
 //! Rank 2 only (the quadrature is that of `y^2 = q`).
 
-use super::{CurveAt, Grid};
+use super::warning::{MapWarning, MapWarningKind};
+use super::{CurveAt, Grid, PointResult};
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
 use crate::spectrum::period::{continue_sign, Quadratic};
@@ -46,6 +47,19 @@ pub struct PointStates {
     pub states: Vec<(Complex64, Kind)>,
     /// False where the curve could not be built or the finder gave up.
     pub usable: bool,
+}
+
+impl From<&PointResult> for PointStates {
+    fn from(r: &PointResult) -> Self {
+        Self {
+            param: r.param,
+            states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
+            usable: !r
+                .warnings
+                .iter()
+                .any(|w| w.kind == spectrum::SpectrumWarningKind::NoCurve),
+        }
+    }
 }
 
 impl PointStates {
@@ -77,7 +91,7 @@ pub struct TraceReport {
     pub walls: Vec<MarginalWall>,
     /// Edges where the spectra differ but no pair changes its alignment.
     pub edges_without_wall: usize,
-    pub warnings: Vec<String>,
+    pub warnings: Vec<MapWarning>,
 }
 
 /// Most grid edges examined (each may cost a spectrum).
@@ -384,9 +398,10 @@ pub fn trace(
     let mut unrefined = 0;
     for (edge, i, j) in edges {
         if cancel.is_cancelled() {
-            report
-                .warnings
-                .push("cancelled: the walls are partial".into());
+            report.warnings.push(MapWarning::new(
+                MapWarningKind::Cancelled,
+                "cancelled: the walls are partial",
+            ));
             break;
         }
         let (pi, pj) = (&points[i], &points[j]);
@@ -395,8 +410,11 @@ pub fn trace(
         }
         examined += 1;
         if examined > MAX_EDGES {
-            report.warnings.push(format!(
-                "more than {MAX_EDGES} grid edges change the spectrum: the walls are partial"
+            report.warnings.push(MapWarning::new(
+                MapWarningKind::MaxEdges,
+                format!(
+                    "more than {MAX_EDGES} grid edges change the spectrum: the walls are partial"
+                ),
             ));
             break;
         }
@@ -439,8 +457,11 @@ pub fn trace(
         }
     }
     if unrefined > 0 {
-        report.warnings.push(format!(
-            "{unrefined} grid edge(s) where the spectrum changes could not be refined (no continuation of the states' cycles): the walls have gaps there"
+        report.warnings.push(MapWarning::new(
+            MapWarningKind::UnrefinedEdges,
+            format!(
+                "{unrefined} grid edge(s) where the spectrum changes could not be refined (no continuation of the states' cycles): the walls have gaps there"
+            ),
         ));
     }
     // Join crossings through the cells.
@@ -536,8 +557,11 @@ pub fn trace(
         .count();
     chains.retain(|(c, closed)| c.len() > 1 || *closed);
     if lone > 0 {
-        report.warnings.push(format!(
-            "{lone} isolated grid edge(s) where a pair of states changes order were left out (no neighbouring crossing continues them)"
+        report.warnings.push(MapWarning::new(
+            MapWarningKind::IsolatedEdges,
+            format!(
+                "{lone} isolated grid edge(s) where a pair of states changes order were left out (no neighbouring crossing continues them)"
+            ),
         ));
     }
     for (chain, closed) in chains {

@@ -21,7 +21,9 @@
 //! or singular point explains (the finder differs between two nearby
 //! samples): those are reported apart, in `other_changes`.
 
-use super::{find, BpsState, Kind, Spectrum, SpectrumSettings};
+use super::{
+    find, BpsState, Kind, Spectrum, SpectrumSettings, SpectrumWarning, SpectrumWarningKind,
+};
 use crate::cancel::CancelToken;
 use crate::charges::ks::{phase_ordered_product, KsFactor, PhasedFactor};
 use crate::charges::Lattice;
@@ -93,7 +95,7 @@ pub struct CrossingReport {
     pub start_lattice: Option<crate::charges::LatticeSummary>,
     /// Parameter values where the curve could not be built, with the reason,
     /// and warnings from the spectra.
-    pub warnings: Vec<String>,
+    pub warnings: Vec<SpectrumWarning>,
     pub cancelled: bool,
 }
 
@@ -140,7 +142,10 @@ pub fn crossing(
         match build(p) {
             Ok(curve) => Some(find(&curve, settings, cancel, &mut |_| {})),
             Err(e) => {
-                report.warnings.push(format!("at {p}: {e}"));
+                report.warnings.push(SpectrumWarning::new(
+                    SpectrumWarningKind::NoCurve,
+                    format!("at {p}: {e}"),
+                ));
                 None
             }
         }
@@ -184,8 +189,11 @@ pub fn crossing(
                 _ => basis_lost = true,
             }
             if basis_lost {
-                report.warnings.push(format!(
-                    "the lattice basis could not be continued past s = {p} (a singular point on the path?): later charges are in the basis where each change is"
+                report.warnings.push(SpectrumWarning::new(
+                    SpectrumWarningKind::BasisNotContinued,
+                    format!(
+                        "the lattice basis could not be continued past s = {p} (a singular point on the path?): later charges are in the basis where each change is"
+                    ),
                 ));
             }
         }
@@ -288,8 +296,11 @@ pub fn crossing(
     }
     report.cancelled = cancel.is_cancelled();
     if local_basis_changes > 0 {
-        report.warnings.push(format!(
-            "{local_basis_changes} change(s) carry charges in the lattice basis where they are, not the start's"
+        report.warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::LocalBasis,
+            format!(
+                "{local_basis_changes} change(s) carry charges in the lattice basis where they are, not the start's"
+            ),
         ));
     }
     merge_near_singular_points(&mut report, 1e-3 * (to - from).abs());

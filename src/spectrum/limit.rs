@@ -20,7 +20,7 @@
 //! resolution, and a warning says so.
 
 use super::period::Quadratic;
-use super::{phase_mod_pi, BpsState, Kind, Spectrum};
+use super::{phase_mod_pi, BpsState, Kind, Spectrum, SpectrumWarning, SpectrumWarningKind};
 use crate::curve::{Curve, Resolution};
 use num_complex::Complex64;
 
@@ -36,10 +36,10 @@ pub fn to_singular_limit(curve: &Curve, spectrum: &mut Spectrum) {
         return;
     }
     let Some(q) = curve.unresolved_quadratic_differential() else {
-        spectrum.warnings.push(
-            "central charges at the singular point are those of the resolution (rank 3 and up): they differ from the limit by about the split distance"
-                .into(),
-        );
+        spectrum.warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::NoSingularLimit,
+            "central charges at the singular point are those of the resolution (rank 3 and up): they differ from the limit by about the split distance",
+        ));
         return;
     };
     let quad = Quadratic::new(q.cancelled());
@@ -75,7 +75,10 @@ pub fn to_singular_limit(curve: &Curve, spectrum: &mut Spectrum) {
             "; {failed} state(s) keep the Z of the resolution (their cycle could not be followed to the singular point)"
         ));
     }
-    spectrum.warnings.push(note);
+    spectrum.warnings.push(SpectrumWarning::new(
+        SpectrumWarningKind::SingularLimit,
+        note,
+    ));
 }
 
 /// The period of the singular curve over the limit of `state`'s cycle,

@@ -38,10 +38,12 @@ pub mod period;
 pub mod ring;
 pub mod saddle;
 mod settings;
+pub mod warning;
 pub mod web;
 
 pub use crossing::{crossing, Crossing, CrossingReport};
 pub use settings::SpectrumSettings;
+pub use warning::{SpectrumWarning, SpectrumWarningKind};
 
 use crate::cancel::CancelToken;
 use crate::curve::Curve;
@@ -142,7 +144,7 @@ pub struct Spectrum {
     /// the resolution.
     #[serde(default)]
     pub massless: Vec<BpsState>,
-    pub warnings: Vec<String>,
+    pub warnings: Vec<SpectrumWarning>,
     /// The computation was cancelled: `states` is partial.
     pub cancelled: bool,
     pub stats: SpectrumStats,
@@ -152,7 +154,7 @@ pub struct Spectrum {
 }
 
 impl Spectrum {
-    fn empty(reach: f64, warnings: Vec<String>) -> Self {
+    fn empty(reach: f64, warnings: Vec<SpectrumWarning>) -> Self {
         Self {
             reach,
             states: Vec::new(),
@@ -169,19 +171,25 @@ impl Spectrum {
     fn finished(
         settings: &SpectrumSettings,
         mut states: Vec<BpsState>,
-        mut warnings: Vec<String>,
+        mut warnings: Vec<SpectrumWarning>,
         budget_hit: bool,
         cancelled: bool,
         stats: SpectrumStats,
     ) -> Self {
         if budget_hit {
-            warnings.push(format!(
-                "stopped after max_candidates = {} candidates: the spectrum may be incomplete",
-                settings.max_candidates
+            warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::MaxCandidates,
+                format!(
+                    "stopped after max_candidates = {} candidates: the spectrum may be incomplete",
+                    settings.max_candidates
+                ),
             ));
         }
         if cancelled {
-            warnings.push("cancelled: the spectrum is partial".into());
+            warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::Cancelled,
+                "cancelled: the spectrum is partial",
+            ));
         }
         states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
         Self {
@@ -338,9 +346,12 @@ fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
         .iter()
         .map(|r| format!("{:.6}{:+.6}i", r.z.re, r.z.im))
         .collect();
-    spectrum.warnings.push(format!(
-        "the curve is singular at {}: computed on a resolution (settings resolution and resolution_phase); {found}; the massive spectrum is that of the side the resolution approaches from",
-        points.join(", ")
+    spectrum.warnings.push(SpectrumWarning::new(
+        SpectrumWarningKind::Resolved,
+        format!(
+            "the curve is singular at {}: computed on a resolution (settings resolution and resolution_phase); {found}; the massive spectrum is that of the side the resolution approaches from",
+            points.join(", ")
+        ),
     ));
 }
 
@@ -352,32 +363,42 @@ fn find_states(
     lattice: Option<&crate::charges::Lattice>,
 ) -> Spectrum {
     if let Err(errors) = settings.validate() {
-        let messages = errors.iter().map(ToString::to_string).collect();
-        return Spectrum::empty(settings.reach, messages);
+        let warnings = errors
+            .iter()
+            .map(|e| SpectrumWarning::new(SpectrumWarningKind::InvalidSettings, e.to_string()))
+            .collect();
+        return Spectrum::empty(settings.reach, warnings);
     }
     if curve.rank >= 3 {
         return web::find(curve, settings, cancel, progress, lattice);
     }
-    let mut warnings: Vec<String> = Vec::new();
+    let mut warnings: Vec<SpectrumWarning> = Vec::new();
     let Some(q) = curve.quadratic_differential() else {
-        warnings.push(format!(
-            "the BPS spectrum is only computed for rank 2 so far (this curve has {} sheets): no states reported",
-            curve.rank
+        warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::RankUnsupported,
+            format!(
+                "the BPS spectrum is only computed for rank 2 so far (this curve has {} sheets): no states reported",
+                curve.rank
+            ),
         ));
         return Spectrum::empty(settings.reach, warnings);
     };
     for (idx, bp) in curve.branch_points.iter().enumerate() {
         if !bp.simple {
-            warnings.push(format!(
-                "branch point {} is not simple: saddles ending on it are not sought",
-                idx + 1
+            warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::NonSimpleBranchPoint,
+                format!(
+                    "branch point {} is not simple: saddles ending on it are not sought",
+                    idx + 1
+                ),
             ));
         }
     }
     if curve.punctures.iter().any(|p| p.order == 1) {
-        warnings.push(
-            "q has a simple pole: trajectories ending on it are not counted as states".into(),
-        );
+        warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::SimplePole,
+            "q has a simple pole: trajectories ending on it are not counted as states",
+        ));
     }
     // A closed trajectory splits the odd points (where sqrt q changes sign,
     // infinity included) into two even groups. With four or fewer, one side
@@ -391,8 +412,11 @@ fn find_states(
         .count()
         + curve.punctures.iter().filter(|p| p.order % 2 == 1).count();
     if n_odd >= 6 {
-        warnings.push(format!(
-            "ring domains are sought around pairs of odd points only; with {n_odd} odd points (simple zeros and odd poles of q), vector multiplets whose closed trajectories enclose four or more of them would be missing"
+        warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::RingsAroundPairsOnly,
+            format!(
+                "ring domains are sought around pairs of odd points only; with {n_odd} odd points (simple zeros and odd poles of q), vector multiplets whose closed trajectories enclose four or more of them would be missing"
+            ),
         ));
     }
     let mut finder = Finder::new(curve, Quadratic::new(q), settings, cancel);
@@ -769,7 +793,7 @@ impl<'a> Finder<'a> {
         None
     }
 
-    fn into_spectrum(self, warnings: Vec<String>) -> Spectrum {
+    fn into_spectrum(self, warnings: Vec<SpectrumWarning>) -> Spectrum {
         Spectrum::finished(
             self.settings,
             self.states,

@@ -72,6 +72,7 @@
 use super::annulus;
 use super::pair::{Pair, PairQuadrature};
 use super::saddle::{capture_radii, direction_hint};
+use super::warning::{SpectrumWarning, SpectrumWarningKind};
 use super::{
     finder_bounds, phase_gap, phase_mod_pi, same_up_to_sign, BpsState, Kind, Spectrum,
     SpectrumSettings, SpectrumStats, CANDIDATE_MATCH, MAX_REFINE,
@@ -126,14 +127,47 @@ const MAX_LATTICE_GAUGE: usize = 6;
 /// Per-web warnings shown one by one up to this many, then counted.
 const NOTES_SHOWN: usize = 6;
 
-/// The first `NOTES_SHOWN` notes, then one line counting the rest.
-fn summarised(notes: Vec<String>, what: &str) -> Vec<String> {
+/// The first `NOTES_SHOWN` notes, then one line (of kind `rest`) counting
+/// the rest.
+fn summarised(
+    notes: Vec<SpectrumWarning>,
+    what: &str,
+    rest: SpectrumWarningKind,
+) -> Vec<SpectrumWarning> {
     let n = notes.len();
-    let mut out: Vec<String> = notes.into_iter().take(NOTES_SHOWN).collect();
+    let mut out: Vec<SpectrumWarning> = notes.into_iter().take(NOTES_SHOWN).collect();
     if n > NOTES_SHOWN {
-        out.push(format!("{} more webs {what} (not listed)", n - NOTES_SHOWN));
+        out.push(SpectrumWarning::new(
+            rest,
+            format!("{} more webs {what} (not listed)", n - NOTES_SHOWN),
+        ));
     }
     out
+}
+
+/// Why a web's index is unknown, as the sentence its warning lists.
+fn problem_text(problem: SpectrumWarningKind) -> &'static str {
+    match problem {
+        SpectrumWarningKind::IndexUnknownWallUsedTwice => {
+            "a wall of the web is used twice (a street carries a joint of the web)"
+        }
+        SpectrumWarningKind::IndexUnknownBranchPointTwice => {
+            "the web reaches one branch point twice"
+        }
+        SpectrumWarningKind::IndexUnknownSpecialPoint => {
+            "the web ends on a point where more than two sheets meet (its index is not the simple web's)"
+        }
+        SpectrumWarningKind::IndexUnknownSeveralSolitons => {
+            "a wall of the web carries more than one soliton"
+        }
+        SpectrumWarningKind::IndexUnknownSamePhase => {
+            "another web of a different charge closes at the same phase"
+        }
+        SpectrumWarningKind::IndexUnknownSharedBranchPoint => {
+            "another web of the same charge shares a branch point with it"
+        }
+        _ => "its index is unknown",
+    }
 }
 
 /// The branch points at the ends of the tree of walls behind a pass.
@@ -167,11 +201,14 @@ pub(super) fn find(
     let ramification = ramification(curve);
     for (idx, bp) in curve.branch_points.iter().enumerate() {
         if ramification[idx] == 0 {
-            warnings.push(format!(
-                "branch point {} is not simple ({} sheets meet, order {}) and the cover is singular there: webs ending on it are not sought",
-                idx + 1,
-                bp.n_sheets_meeting,
-                bp.order
+            warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::NonSimpleBranchPoint,
+                format!(
+                    "branch point {} is not simple ({} sheets meet, order {}) and the cover is singular there: webs ending on it are not sought",
+                    idx + 1,
+                    bp.n_sheets_meeting,
+                    bp.order
+                ),
             ));
         }
     }
@@ -263,7 +300,7 @@ struct Web {
     /// Its walls on labelled sheets, for its charge.
     lift: Vec<LiftedEdge>,
     /// Why its index cannot be decided (empty for a simple web).
-    problems: Vec<String>,
+    problems: Vec<SpectrumWarningKind>,
 }
 
 struct WebFinder<'a> {
@@ -290,8 +327,8 @@ struct WebFinder<'a> {
     networks_hit: bool,
     truncated: bool,
     /// Per-web warnings: index unknown, and charges that disagree.
-    unknown_notes: Vec<String>,
-    error_notes: Vec<String>,
+    unknown_notes: Vec<SpectrumWarning>,
+    error_notes: Vec<SpectrumWarning>,
 }
 
 /// The ordered pair of roots whose difference is `hint` (the wall's own
@@ -497,9 +534,12 @@ impl<'a> WebFinder<'a> {
                 let web = &mut self.states[k];
                 web.kind = Kind::Vector;
                 web.web.push(line);
-                self.unknown_notes.push(format!(
-                    "the web with |Z| = {:.6} at phase {:.6} bounds a ring domain of closed trajectories: a vector multiplet, index unknown (-2 unless walls of another pair cross the ring)",
-                    web.abs, web.phase
+                self.unknown_notes.push(SpectrumWarning::new(
+                    SpectrumWarningKind::IndexUnknownRingDomain,
+                    format!(
+                        "the web with |Z| = {:.6} at phase {:.6} bounds a ring domain of closed trajectories: a vector multiplet, index unknown (-2 unless walls of another pair cross the ring)",
+                        web.abs, web.phase
+                    ),
                 ));
                 continue;
             }
@@ -522,14 +562,20 @@ impl<'a> WebFinder<'a> {
                 });
             let phase = phase_mod_pi(cand.z.arg()) + 0.0;
             let z = Complex64::from_polar(cand.z.norm(), phase);
-            self.unknown_notes.push(format!(
-                "the ring domain with |Z| = {:.6} at phase {phase:.6} (a vector multiplet) has index unknown: -2 unless walls of another pair cross its annulus",
-                z.norm()
+            self.unknown_notes.push(SpectrumWarning::new(
+                SpectrumWarningKind::IndexUnknownRingDomain,
+                format!(
+                    "the ring domain with |Z| = {:.6} at phase {phase:.6} (a vector multiplet) has index unknown: -2 unless walls of another pair cross its annulus",
+                    z.norm()
+                ),
             ));
             if z_error > WARN_Z_ERROR * z.norm() {
-                self.error_notes.push(format!(
-                    "the ring domain with |Z| = {:.6}: its trajectory's period differs from the circle's by {z_error:.1e}",
-                    z.norm()
+                self.error_notes.push(SpectrumWarning::new(
+                    SpectrumWarningKind::ZError,
+                    format!(
+                        "the ring domain with |Z| = {:.6}: its trajectory's period differs from the circle's by {z_error:.1e}",
+                        z.norm()
+                    ),
                 ));
             }
             self.states.push(BpsState {
@@ -648,15 +694,25 @@ impl<'a> WebFinder<'a> {
                     }
                 }
                 if state.z_error > WARN_Z_ERROR * state.abs {
-                    self.error_notes.push(format!(
-                        "the web with |Z| = {:.6} at phase {:.6}: the integrator's charge differs from the quadrature by {:.1e} (a joint placed less accurately); Z is the quadrature's",
-                        state.abs, state.phase, state.z_error
+                    self.error_notes.push(SpectrumWarning::new(
+                        SpectrumWarningKind::ZError,
+                        format!(
+                            "the web with |Z| = {:.6} at phase {:.6}: the integrator's charge differs from the quadrature by {:.1e} (a joint placed less accurately); Z is the quadrature's",
+                            state.abs, state.phase, state.z_error
+                        ),
                     ));
                 }
-                if !problems.is_empty() {
-                    self.unknown_notes.push(format!(
-                        "the web with |Z| = {:.6} at phase {:.6} has index unknown: {problems}",
-                        state.abs, state.phase
+                // One warning lists every reason; its kind is the first.
+                if let Some(&first) = problems.first() {
+                    let why: Vec<&str> = problems.iter().map(|&p| problem_text(p)).collect();
+                    self.unknown_notes.push(SpectrumWarning::new(
+                        first,
+                        format!(
+                            "the web with |Z| = {:.6} at phase {:.6} has index unknown: {}",
+                            state.abs,
+                            state.phase,
+                            why.join("; ")
+                        ),
                     ));
                 }
                 self.states.push(state);
@@ -767,7 +823,11 @@ impl<'a> WebFinder<'a> {
     /// A first look at the scan's tolerance rejects most candidates
     /// cheaply: a pass of the right charge must come within
     /// `QUICK_FRACTION` of the capture radius of its branch point.
-    fn confirm(&mut self, candidate: Complex64, only: Option<&[usize]>) -> Vec<(BpsState, String)> {
+    fn confirm(
+        &mut self,
+        candidate: Complex64,
+        only: Option<&[usize]>,
+    ) -> Vec<(BpsState, Vec<SpectrumWarningKind>)> {
         let mut z_cand = candidate;
         let mut theta = phase_mod_pi(z_cand.arg());
         {
@@ -827,7 +887,7 @@ impl<'a> WebFinder<'a> {
         net: &Network,
         passes: &[Pass],
         confirmed: Web,
-    ) -> Vec<(BpsState, String)> {
+    ) -> Vec<(BpsState, Vec<SpectrumWarningKind>)> {
         // `+ 0.0` turns a phase of -0.0 into 0.0.
         let theta = phase_mod_pi(net.theta) + 0.0;
         let mut webs: Vec<Web> = vec![confirmed];
@@ -862,19 +922,19 @@ impl<'a> WebFinder<'a> {
                     continue;
                 }
                 let problem = if !same_up_to_sign(webs[a].z, webs[b].z, SAME_WEB) {
-                    Some("another web of a different charge closes at the same phase")
+                    Some(SpectrumWarningKind::IndexUnknownSamePhase)
                 } else if webs[a]
                     .endpoints
                     .iter()
                     .any(|e| webs[b].endpoints.contains(e))
                 {
-                    Some("another web of the same charge shares a branch point with it")
+                    Some(SpectrumWarningKind::IndexUnknownSharedBranchPoint)
                 } else {
                     None
                 };
                 if let Some(p) = problem {
-                    if !webs[a].problems.iter().any(|q| q == p) {
-                        webs[a].problems.push(p.to_string());
+                    if !webs[a].problems.contains(&p) {
+                        webs[a].problems.push(p);
                     }
                 }
             }
@@ -908,7 +968,7 @@ impl<'a> WebFinder<'a> {
                     charge: None,
                     lift: web.lift,
                 };
-                (state, web.problems.join("; "))
+                (state, web.problems)
             })
             .collect()
     }
@@ -948,21 +1008,16 @@ impl<'a> WebFinder<'a> {
         walls_used.sort_unstable();
         walls_used.dedup();
         if walls_used.len() < edges.len() {
-            problems.push(
-                "a wall of the web is used twice (a street carries a joint of the web)".to_string(),
-            );
+            problems.push(SpectrumWarningKind::IndexUnknownWallUsedTwice);
         }
         endpoints.sort_unstable();
         let n_ends = endpoints.len();
         endpoints.dedup();
         if endpoints.len() < n_ends {
-            problems.push("the web reaches one branch point twice".to_string());
+            problems.push(SpectrumWarningKind::IndexUnknownBranchPointTwice);
         }
         if endpoints.iter().any(|&e| self.ramification[e] > 2) {
-            problems.push(
-                "the web ends on a point where more than two sheets meet (its index is not the simple web's)"
-                    .to_string(),
-            );
+            problems.push(SpectrumWarningKind::IndexUnknownSpecialPoint);
         }
         let mut z = Complex64::new(0.0, 0.0);
         let mut polylines = Vec::new();
@@ -971,7 +1026,7 @@ impl<'a> WebFinder<'a> {
             let wall = &net.walls[w];
             let e = self.edge(wall, end)?;
             if e.counts.iter().any(|mu| mu.abs() != 1) {
-                problems.push("a wall of the web carries more than one soliton".to_string());
+                problems.push(SpectrumWarningKind::IndexUnknownSeveralSolitons);
             }
             z += e.z;
             polylines.push(e.line);
@@ -1051,21 +1106,32 @@ impl<'a> WebFinder<'a> {
         })
     }
 
-    fn into_spectrum(self, mut warnings: Vec<String>) -> Spectrum {
-        warnings.extend(summarised(self.unknown_notes, "have index unknown"));
+    fn into_spectrum(self, mut warnings: Vec<SpectrumWarning>) -> Spectrum {
+        warnings.extend(summarised(
+            self.unknown_notes,
+            "have index unknown",
+            SpectrumWarningKind::IndexUnknownNotListed,
+        ));
         warnings.extend(summarised(
             self.error_notes,
             "have charges that disagree by more than 1e-6 relative",
+            SpectrumWarningKind::ZErrorNotListed,
         ));
         if self.truncated {
-            warnings.push(format!(
-                "some networks stopped growing at a bound (max_walls or {MAX_GENERATIONS} generations): webs deeper than that may be missing"
+            warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::TruncatedNetworks,
+                format!(
+                    "some networks stopped growing at a bound (max_walls or {MAX_GENERATIONS} generations): webs deeper than that may be missing"
+                ),
             ));
         }
         if self.networks_hit {
-            warnings.push(format!(
-                "stopped after max_networks = {} networks: the spectrum may be incomplete",
-                self.settings.max_networks
+            warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::MaxNetworks,
+                format!(
+                    "stopped after max_networks = {} networks: the spectrum may be incomplete",
+                    self.settings.max_networks
+                ),
             ));
         }
         Spectrum::finished(

@@ -42,11 +42,35 @@ fn threads_and_shards_give_the_single_run_byte_for_byte() {
     let reference = read(&single);
     let text = String::from_utf8(reference.clone()).unwrap();
     assert_eq!(text.lines().count(), 35);
+    let mut codes_at_two = Vec::new();
     for (k, line) in text.lines().enumerate() {
         let v: serde_json::Value = serde_json::from_str(line).unwrap();
         assert_eq!(v["index"], k, "sorted by grid index");
         assert!(v["param"].is_array() && v["states"].is_array() && v["warnings"].is_array());
+        // Warnings are objects with a stable code and the sentence.
+        for w in v["warnings"].as_array().unwrap() {
+            let code = w["code"].as_str().unwrap_or_else(|| panic!("no code: {w}"));
+            assert!(
+                code.chars().all(|c| c.is_ascii_lowercase() || c == '_'),
+                "{w}"
+            );
+            assert!(!w["message"].as_str().unwrap().is_empty(), "{w}");
+            let (re, im) = (
+                v["param"][0].as_f64().unwrap(),
+                v["param"][1].as_f64().unwrap(),
+            );
+            if (re - 2.0).abs() < 1e-9 && im.abs() < 1e-9 {
+                codes_at_two.push(code.to_string());
+            }
+        }
     }
+    // u = 2 is a grid point where two branch points of z^3 - 3z + u meet
+    // (the discriminant 4 * 27 - 27 u^2 vanishes): the finder works on a
+    // resolution and says so.
+    assert!(
+        codes_at_two.iter().any(|c| c == "resolved"),
+        "{codes_at_two:?}"
+    );
     // Two threads.
     let two = dir.join("two.jsonl");
     let (code, _, err) = run(&scan_args(
@@ -299,4 +323,81 @@ fn rank_three_singular_points_are_the_collisions_where_a_cycle_vanishes() {
         );
     }
     assert!(found.iter().all(|f| f.0.hypot(f.1) > 0.5), "{found:?}");
+}
+
+/// Where the curve cannot be built (y^2 = u (z^3 - 1) at u = 0: y^2 = 0 has
+/// one sheet twice) the point's line carries a `no_curve` warning and the
+/// map leaves the point out of every chamber. A map written before
+/// warnings had codes (bare sentences) summarises the same.
+#[test]
+fn points_without_a_curve_are_coded_and_left_out_of_the_map() {
+    let dir = tmp_dir("no-curve");
+    let jsonl = dir.join("map.jsonl");
+    let summary = dir.join("map.json");
+    let args = [
+        "scan",
+        "--curve",
+        "y^2 = u*(z^3 - 1)",
+        "--set",
+        "u=1",
+        "--param",
+        "u",
+        "--re",
+        "-1..1",
+        "--im",
+        "0..1",
+        "--grid",
+        "3x2",
+        "--reach",
+        "8",
+        "-o",
+        jsonl.to_str().unwrap(),
+        "--summary",
+        summary.to_str().unwrap(),
+    ];
+    let (code, _, err) = run(&args);
+    assert_eq!(code, 0, "{err}");
+    let text = String::from_utf8(read(&jsonl)).unwrap();
+    let lines: Vec<serde_json::Value> = text
+        .lines()
+        .map(|l| serde_json::from_str(l).unwrap())
+        .collect();
+    // Grid point 1 is u = 0 (the middle of the bottom row).
+    assert_eq!(lines[1]["param"], serde_json::json!([0.0, 0.0]));
+    let w = &lines[1]["warnings"][0];
+    assert_eq!(w["code"], "no_curve", "{w}");
+    assert!(w["message"]
+        .as_str()
+        .unwrap()
+        .starts_with("no curve here: "));
+    let coded = String::from_utf8(read(&summary)).unwrap();
+    let map: serde_json::Value = serde_json::from_str(&coded).unwrap();
+    let in_chambers: u64 = map["chambers"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| c["points"].as_u64().unwrap())
+        .sum();
+    assert_eq!(in_chambers, 5, "{coded}");
+    // The same map with its warnings as bare sentences, as older versions
+    // wrote them: the file is complete, so the run only redoes the summary.
+    let old: String = lines
+        .iter()
+        .map(|v| {
+            let mut v = v.clone();
+            let sentences: Vec<serde_json::Value> = v["warnings"]
+                .as_array()
+                .unwrap()
+                .iter()
+                .map(|w| w["message"].clone())
+                .collect();
+            v["warnings"] = serde_json::Value::Array(sentences);
+            format!("{v}\n")
+        })
+        .collect();
+    std::fs::write(&jsonl, old).unwrap();
+    std::fs::remove_file(&summary).unwrap();
+    let (code, _, err) = run(&args);
+    assert_eq!(code, 0, "{err}");
+    assert_eq!(String::from_utf8(read(&summary)).unwrap(), coded);
 }

@@ -134,3 +134,32 @@ fn crossing_bad_input_exits_2() {
         assert_eq!(err.trim().lines().count(), 1, "{args:?}: {err}");
     }
 }
+
+/// Spectrum warnings in JSON are objects with a stable code beside the
+/// sentence that stderr shows. The decoupled curve y (y^2 - (z^2 - 1)) = 0
+/// has branch points where the cover is singular (a sheet crosses the other
+/// two), which the finder names and skips.
+#[test]
+fn spectrum_json_warnings_have_codes() {
+    let (code, out, err) = run(&["spectrum", "--curve", "y^3 - (z^2 - 1) y = 0", "--json"]);
+    assert_eq!(code, 0, "{err}");
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let warnings = v["warnings"].as_array().unwrap();
+    assert!(!warnings.is_empty(), "{out}");
+    for w in warnings {
+        let code = w["code"].as_str().unwrap_or_else(|| panic!("no code: {w}"));
+        assert!(
+            !code.is_empty() && code.chars().all(|c| c.is_ascii_lowercase() || c == '_'),
+            "{w}"
+        );
+        let message = w["message"].as_str().unwrap();
+        assert!(err.contains(message), "{message} not on stderr: {err}");
+    }
+    let non_simple: Vec<&str> = warnings
+        .iter()
+        .filter(|w| w["code"] == "non_simple_branch_point")
+        .map(|w| w["message"].as_str().unwrap())
+        .collect();
+    assert!(!non_simple.is_empty(), "{out}");
+    assert!(non_simple.iter().all(|m| m.contains("is not simple")));
+}

@@ -7,6 +7,7 @@
 use num_complex::Complex64;
 use std::collections::BTreeMap;
 use wallflower::algebra::parse_equation;
+use wallflower::network::WarningKind;
 use wallflower::quad::gauss_legendre_unit;
 use wallflower::walls::{Origin, Wall};
 use wallflower::{compute, CancelToken, Curve, Settings};
@@ -171,7 +172,7 @@ fn joints_left_on_chords_are_announced() {
         let warned = net
             .warnings
             .iter()
-            .any(|w| w.message.contains("could not be refined onto the walls"));
+            .any(|w| w.kind == WarningKind::JointsOnChords);
         assert_eq!(warned, n > 0, "{text}: {n} on chords, warned: {warned}");
         flagged += n;
     }

@@ -12,7 +12,7 @@ use num_complex::Complex64;
 use std::f64::consts::{PI, TAU};
 use wallflower::cancel::CancelToken;
 use wallflower::curve::Curve;
-use wallflower::network::{compute, jump};
+use wallflower::network::{compute, jump, WarningKind};
 use wallflower::walls::{special_seeds, Origin, Settings, WallSeed};
 
 use crate::support::curve;
@@ -187,10 +187,7 @@ fn singular_points_are_drawn_from_a_stated_resolution() {
         );
     }
     let net = compute(&c, 0.3, &s.settings().unwrap(), &CancelToken::new());
-    assert!(net
-        .warnings
-        .iter()
-        .any(|w| w.message.contains("resolution")));
+    assert!(net.warnings.iter().any(|w| w.kind == WarningKind::Resolved));
     assert!(net.flatness.worst < 1e-9, "{:?}", net.flatness);
     // Far out the walls follow the 5 directions of the local model of
     // z^3: 2 (theta + k pi)/5 (several walls may share a direction).

@@ -21,7 +21,9 @@
 use num_complex::Complex64;
 use std::f64::consts::PI;
 use wallflower::quad::gauss_legendre_unit;
-use wallflower::spectrum::{find, same_up_to_sign, BpsState, Kind, Spectrum, SpectrumSettings};
+use wallflower::spectrum::{
+    find, same_up_to_sign, BpsState, Kind, Spectrum, SpectrumSettings, SpectrumWarningKind,
+};
 use wallflower::walls::Origin;
 use wallflower::{compute, CancelToken, Curve, Settings};
 
@@ -218,11 +220,10 @@ fn check_states(label: &str, curve: &Curve, sp: &Spectrum, max_z_error: f64) {
             s.z_error
         );
         if s.z_error > 1e-6 * s.abs {
-            assert!(sp
-                .warnings
-                .iter()
-                .any(|w| w.contains("differs from the quadrature")
-                    || w.contains("charges that disagree")));
+            assert!(sp.warnings.iter().any(|w| matches!(
+                w.kind,
+                SpectrumWarningKind::ZError | SpectrumWarningKind::ZErrorNotListed
+            )));
         }
         assert_eq!(
             s.kind == Kind::Hyper,
@@ -375,11 +376,12 @@ fn symmetric_curve_gets_index_unknown_with_warnings() {
         assert!(
             sp.warnings
                 .iter()
-                .any(|w| w.contains("index unknown") && w.contains(&format!("{:.6}", s.abs)))
+                .any(|w| w.kind.is_index_unknown()
+                    && w.message.contains(&format!("|Z| = {:.6}", s.abs)))
                 || sp
                     .warnings
                     .iter()
-                    .any(|w| w.contains("more webs have index unknown")),
+                    .any(|w| w.kind == SpectrumWarningKind::IndexUnknownNotListed),
             "no warning for |Z| = {}: {:?}",
             s.abs,
             sp.warnings
@@ -519,7 +521,9 @@ fn decoupled_curve_warns_and_claims_no_index() {
     let sp = spectrum(&cv, 8.0);
     print("decoupled", &sp);
     assert!(
-        sp.warnings.iter().any(|w| w.contains("not simple")),
+        sp.warnings
+            .iter()
+            .any(|w| w.kind == SpectrumWarningKind::NonSimpleBranchPoint),
         "{:?}",
         sp.warnings
     );
@@ -650,7 +654,9 @@ fn network_budget_stops_with_a_warning() {
     let sp = find(&cv, &settings, &CancelToken::new(), &mut |_| {});
     assert!(sp.stats.networks_grown <= 12, "{:?}", sp.stats);
     assert!(
-        sp.warnings.iter().any(|w| w.contains("max_networks")),
+        sp.warnings
+            .iter()
+            .any(|w| w.kind == SpectrumWarningKind::MaxNetworks),
         "{:?}",
         sp.warnings
     );
@@ -863,7 +869,7 @@ fn symmetric_cube_root_points_have_their_webs() {
     assert!(sp
         .warnings
         .iter()
-        .any(|w| w.contains("more than two sheets meet")));
+        .any(|w| w.kind == SpectrumWarningKind::IndexUnknownSpecialPoint));
 }
 
 /// The pure SU(3)-type curve at u = 0 (v = 0.5), where every branch point
@@ -897,7 +903,9 @@ fn webs_of_one_charge_are_one_state() {
         .collect();
     assert!(!merged.is_empty(), "no state drawn with several webs");
     assert!(
-        sp.warnings.iter().any(|w| w.contains("webs of one charge")),
+        sp.warnings
+            .iter()
+            .any(|w| w.kind == SpectrumWarningKind::IndexUnknownSameCharge),
         "{:?}",
         sp.warnings
     );
