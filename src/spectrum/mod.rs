@@ -323,11 +323,6 @@ fn split_massless(curve: &Curve, spectrum: &mut Spectrum) {
     if cut == 0.0 || !cut.is_finite() {
         return;
     }
-    eprintln!(
-        "DEBUG unit {} abs {:?}",
-        cut / MASSLESS_MARGIN,
-        spectrum.states.iter().map(|s| s.abs).collect::<Vec<_>>()
-    );
     let (light, heavy): (Vec<BpsState>, Vec<BpsState>) =
         spectrum.states.drain(..).partition(|s| s.abs < cut);
     spectrum.states = heavy;
