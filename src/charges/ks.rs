@@ -510,10 +510,7 @@ mod tests {
         expected.sort_by_key(key);
         assert_eq!(got, expected);
         // In the phase order the product is read in, it is itself.
-        assert_eq!(
-            factor(&su2, z2, z1).unwrap(),
-            vec![k(0, 1, 1), k(1, 0, 1)]
-        );
+        assert_eq!(factor(&su2, z2, z1).unwrap(), vec![k(0, 1, 1), k(1, 0, 1)]);
     }
 
     /// Something that is no product of KS factors is refused, not fitted:
@@ -523,7 +520,10 @@ mod tests {
         let mut p = product(&[k(0, 1, 1), k(1, 0, 1)], 1, 6).unwrap();
         p.images.swap(0, 1);
         let (z1, z2) = (Complex64::new(1.0, 0.0), Complex64::from_polar(1.0, 0.5));
-        assert!(matches!(factor(&p, z1, z2), Err(KsError::NotAProduct { .. })));
+        assert!(matches!(
+            factor(&p, z1, z2),
+            Err(KsError::NotAProduct { .. })
+        ));
     }
 
     #[test]

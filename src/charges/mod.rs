@@ -118,6 +118,7 @@ fn merge_equal_charges(spectrum: &mut Spectrum) {
                 m.z_error = m.z_error.max(s.z_error);
                 m.kind = Kind::Other;
                 m.omega = None;
+                m.streets = None;
                 counts[k] += 1;
             }
             None => {

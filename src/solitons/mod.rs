@@ -40,27 +40,156 @@ const BAND: f64 = 1e-2;
 /// Sample points along each polyline of a web, as fractions of its length.
 const SAMPLES: [f64; 3] = [0.3, 0.5, 0.7];
 
-/// The index of one web and the evidence for it.
+/// One sampled point of a street: its series and how often the web covers
+/// the street there.
 #[derive(Clone, Debug, PartialEq)]
-pub struct WebIndex {
-    /// `Omega(gamma)`, when every usable sample agrees.
-    pub omega: Option<i64>,
-    /// `Omega(k gamma)` for k = 2, 3, ... as far as the truncation allows
-    /// (index 0 is k = 2), when the samples agree on them.
-    pub multiples: Vec<i64>,
-    /// Multiples are complete up to this `|Z|`.
+pub struct StreetSample {
+    /// `q[k]`: coefficient of `x^k`, x the class of the state.
+    pub q: Vec<i128>,
+    pub covers: i64,
+}
+
+/// The soliton data of a web: a series at each usable sample point.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct StreetData {
+    pub samples: Vec<StreetSample>,
+    /// `Omega(k gamma)` is complete for `k |Z|` up to this.
     pub complete_to: f64,
-    /// Samples that gave a series, of those tried.
-    pub used: usize,
+    /// Samples tried (some fall next to a cut or a joint and are skipped).
     pub tried: usize,
-    /// Why `omega` is `None`.
+    /// A sample that should have given a series and did not.
     pub problem: Option<String>,
+}
+
+/// The sign of the state's class in the engine's gauge against the
+/// twisted torus: `x -> x` or `x -> -x`. The two differ by a character of
+/// the lattice mod 2 (two quadratic refinements of one form differ by a
+/// linear one), which [`settle`] fixes from the states where only one sign
+/// gives whole indices.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Twist {
+    Keep,
+    Flip,
+}
+
+/// What the street data say about the index.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Reading {
+    /// One twist gives whole indices at every sample, all agreeing:
+    /// `Omega(k gamma)` for k = 1, 2, ...
+    Unique(Twist, Vec<i64>),
+    /// Both do (an even index); the lattice's character decides.
+    Either { keep: Vec<i64>, flip: Vec<i64> },
+    /// No twist gives one answer.
+    Neither(String),
+}
+
+/// `Omega(k gamma)`, k = 1.., from every sample under one twist, or why not.
+fn indices_under(data: &StreetData, twist: Twist) -> Result<Vec<i64>, String> {
+    let mut agreed: Option<Vec<i64>> = None;
+    for s in &data.samples {
+        let q: Vec<i128> =
+            s.q.iter()
+                .enumerate()
+                .map(|(k, &c)| {
+                    if twist == Twist::Flip && k % 2 == 1 {
+                        -c
+                    } else {
+                        c
+                    }
+                })
+                .collect();
+        let alpha = series::exponents(&q).map_err(|e| format!("{e:?}"))?;
+        // alpha_k = k Omega(k gamma) n_p.
+        let mut omegas = Vec::with_capacity(alpha.len());
+        for (k, &a) in alpha.iter().enumerate().skip(1) {
+            let per = k as i64 * s.covers;
+            if a % per != 0 {
+                return Err(format!(
+                    "a street's exponents {:?} are not multiples of its cover {}",
+                    &alpha[1..],
+                    s.covers
+                ));
+            }
+            omegas.push(a / per);
+        }
+        match &agreed {
+            None => agreed = Some(omegas),
+            Some(o) if *o == omegas => {}
+            Some(_) => return Err("its streets give different indices".into()),
+        }
+    }
+    agreed.ok_or_else(|| "no point of its streets could be sampled".into())
+}
+
+/// Reads the index off the street data (see [`Reading`]).
+pub fn read(data: &StreetData) -> Reading {
+    if let Some(p) = &data.problem {
+        return Reading::Neither(p.clone());
+    }
+    match (
+        indices_under(data, Twist::Keep),
+        indices_under(data, Twist::Flip),
+    ) {
+        (Ok(keep), Ok(flip)) => Reading::Either { keep, flip },
+        (Ok(k), Err(_)) => Reading::Unique(Twist::Keep, k),
+        (Err(_), Ok(f)) => Reading::Unique(Twist::Flip, f),
+        (Err(e), Err(_)) => Reading::Neither(e),
+    }
+}
+
+/// The soliton data of the web of mass `abs` whose polylines at the
+/// critical phase are `web` (one per wall as far as the web uses it), from
+/// the networks on both sides of the phase, grown to `reach`.
+pub fn street_data(
+    curve: &Curve,
+    sides: [&Network; 2],
+    web: &[Vec<Complex64>],
+    abs: f64,
+    reach: f64,
+) -> StreetData {
+    let scale = curve.length_scale();
+    let n = ((reach * (1.0 + 1e-9)) / abs).floor().max(1.0) as usize;
+    let mut data = StreetData {
+        complete_to: n as f64 * abs,
+        ..StreetData::default()
+    };
+    for line in web {
+        for f in SAMPLES {
+            let Some(x) = along(line, f) else { continue };
+            // How often the web runs through x (overlapping walls of the web
+            // share their points).
+            let covers = web
+                .iter()
+                .filter(|l| to_line(l, x) <= 1e-9 * scale)
+                .count()
+                .max(1) as i64;
+            let room = curve
+                .singular_points
+                .iter()
+                .map(|s| (s - x).norm())
+                .fold(f64::INFINITY, f64::min);
+            let band = (BAND * scale).min(0.25 * room);
+            for net in sides {
+                data.tried += 1;
+                match series_at(curve, net, x, band, abs, n) {
+                    Ok(s) => data.samples.push(StreetSample { q: s.q, covers }),
+                    Err(SampleError::CutBetween | SampleError::SeveralPairs) => {}
+                    Err(e) => {
+                        data.problem
+                            .get_or_insert(format!("a street sample gave no series ({e:?})"));
+                    }
+                }
+            }
+        }
+    }
+    data
 }
 
 /// Point at fraction `f` of the arclength of `line`.
 fn along(line: &[Complex64], f: f64) -> Option<Complex64> {
     let total: f64 = line.windows(2).map(|w| (w[1] - w[0]).norm()).sum();
-    if !(total > 0.0) {
+    if total.is_nan() || total <= 0.0 {
         return None;
     }
     let mut left = f * total;
@@ -87,92 +216,4 @@ fn to_line(line: &[Complex64], x: Complex64) -> f64 {
             (w[0] + d * t - x).norm()
         })
         .fold(f64::INFINITY, f64::min)
-}
-
-/// The index of the state of mass `abs` whose web at the critical phase is
-/// `web` (its polylines, one per wall as far as the web uses it), from the
-/// networks on both sides of the phase, grown to `reach`.
-pub fn web_index(
-    curve: &Curve,
-    sides: [&Network; 2],
-    web: &[Vec<Complex64>],
-    abs: f64,
-    reach: f64,
-) -> WebIndex {
-    let scale = curve.length_scale();
-    let n = ((reach * (1.0 + 1e-9)) / abs).floor().max(1.0) as usize;
-    let mut found: Vec<Vec<i64>> = Vec::new();
-    let mut tried = 0;
-    let mut problem: Option<String> = None;
-    for line in web {
-        for f in SAMPLES {
-            let Some(x) = along(line, f) else { continue };
-            // How often the web runs through x (overlapping walls of the web
-            // share their points).
-            let covers = web
-                .iter()
-                .filter(|l| to_line(l, x) <= 1e-9 * scale)
-                .count()
-                .max(1) as i64;
-            let room = curve
-                .singular_points
-                .iter()
-                .map(|s| (s - x).norm())
-                .fold(f64::INFINITY, f64::min);
-            let band = (BAND * scale).min(0.25 * room);
-            for net in sides {
-                tried += 1;
-                let s = match series_at(curve, net, x, band, abs, n) {
-                    Ok(s) => s,
-                    Err(SampleError::CutBetween | SampleError::SeveralPairs) => continue,
-                    Err(e) => {
-                        problem.get_or_insert(format!("a street sample gave no series ({e:?})"));
-                        continue;
-                    }
-                };
-                let Ok(alpha) = series::exponents(&s.q) else {
-                    problem.get_or_insert("a street's series overflowed".into());
-                    continue;
-                };
-                // alpha_k = k Omega(k gamma) n_p.
-                let mut omegas = Vec::with_capacity(n);
-                let mut whole = true;
-                for (k, &a) in alpha.iter().enumerate().skip(1) {
-                    let per = k as i64 * covers;
-                    whole &= a % per == 0;
-                    omegas.push(a / per);
-                }
-                if !whole {
-                    problem.get_or_insert(format!(
-                        "a street's exponents {:?} are not multiples of its cover {covers}",
-                        &alpha[1..]
-                    ));
-                    continue;
-                }
-                found.push(omegas);
-            }
-        }
-    }
-    let used = found.len();
-    let agreed = found.first().filter(|f| found.iter().all(|g| g == *f)).cloned();
-    let (omega, multiples) = match (&agreed, found.is_empty()) {
-        (Some(o), _) if problem.is_none() => (o.first().copied(), o[1..].to_vec()),
-        (_, true) => {
-            problem.get_or_insert("no point of its streets could be sampled".into());
-            (None, Vec::new())
-        }
-        (None, false) => {
-            problem.get_or_insert("its streets give different indices".into());
-            (None, Vec::new())
-        }
-        _ => (None, Vec::new()),
-    };
-    WebIndex {
-        omega,
-        multiples,
-        complete_to: n as f64 * abs,
-        used,
-        tried,
-        problem,
-    }
 }

@@ -38,6 +38,7 @@ pub mod period;
 pub mod ring;
 pub mod saddle;
 mod settings;
+mod twist;
 pub mod warning;
 pub mod web;
 
@@ -119,6 +120,10 @@ pub struct BpsState {
     /// rank >= 3 (empty otherwise: saddles and rings are lifted from `web`).
     #[serde(skip)]
     pub lift: Vec<crate::charges::LiftedEdge>,
+    /// The soliton data on the web's streets, for webs found at rank >= 3
+    /// (see [`crate::solitons`]); read again once charges are known.
+    #[serde(skip)]
+    pub streets: Option<crate::solitons::StreetData>,
 }
 
 /// Counters of the work done.
@@ -281,6 +286,7 @@ pub fn find(
     let mut spectrum = find_states(curve, settings, cancel, progress, lattice.as_ref().ok());
     if settings.validate().is_ok() {
         crate::charges::assign_with(&lattice, curve, &mut spectrum);
+        twist::settle(&mut spectrum);
     }
     split_massless(curve, &mut spectrum);
     limit::to_singular_limit(curve, &mut spectrum);
@@ -727,6 +733,7 @@ impl<'a> Finder<'a> {
             z_error,
             charge: None,
             lift: Vec::new(),
+            streets: None,
         };
         self.add_lattice_candidates(&state);
         self.states.push(state);
@@ -780,6 +787,7 @@ impl<'a> Finder<'a> {
                         .min((z_quad + pass.z_wall).norm()),
                     charge: None,
                     lift: Vec::new(),
+                    streets: None,
                 });
             }
             theta = theta_new;

@@ -72,8 +72,14 @@ pub enum SpectrumWarningKind {
     /// Index unknown: a vector multiplet (a ring domain of closed
     /// trajectories) whose index may differ from -2.
     IndexUnknownRingDomain,
+    /// Index unknown: the soliton data allow two even indices and no state
+    /// of known twist decides between them.
+    IndexUnknownTwist,
     /// The count of index-unknown warnings beyond those listed.
     IndexUnknownNotListed,
+    /// The soliton data on a simple web's streets give another index than
+    /// the simple web's 1 (the simple web's is kept).
+    StreetsDisagree,
     /// A state's integrator charge disagrees with its independent
     /// quadrature.
     ZError,
@@ -108,7 +114,7 @@ pub enum SpectrumWarningKind {
 
 impl SpectrumWarningKind {
     /// Every kind, in declaration order.
-    pub const ALL: [Self; 32] = [
+    pub const ALL: [Self; 34] = [
         Self::InvalidSettings,
         Self::RankUnsupported,
         Self::NonSimpleBranchPoint,
@@ -126,6 +132,8 @@ impl SpectrumWarningKind {
         Self::IndexUnknownSharedBranchPoint,
         Self::IndexUnknownSameCharge,
         Self::IndexUnknownRingDomain,
+        Self::IndexUnknownTwist,
+        Self::StreetsDisagree,
         Self::IndexUnknownNotListed,
         Self::ZError,
         Self::ZErrorNotListed,
@@ -163,6 +171,8 @@ impl SpectrumWarningKind {
             Self::IndexUnknownSharedBranchPoint => "index_unknown_shared_branch_point",
             Self::IndexUnknownSameCharge => "index_unknown_same_charge",
             Self::IndexUnknownRingDomain => "index_unknown_ring_domain",
+            Self::IndexUnknownTwist => "index_unknown_twist",
+            Self::StreetsDisagree => "streets_disagree",
             Self::IndexUnknownNotListed => "index_unknown_not_listed",
             Self::ZError => "z_error",
             Self::ZErrorNotListed => "z_error_not_listed",
@@ -194,6 +204,7 @@ impl SpectrumWarningKind {
                 | Self::IndexUnknownSharedBranchPoint
                 | Self::IndexUnknownSameCharge
                 | Self::IndexUnknownRingDomain
+                | Self::IndexUnknownTwist
                 | Self::IndexUnknownNotListed
         )
     }

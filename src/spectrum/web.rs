@@ -82,6 +82,7 @@ use crate::charges::{intmat, Lattice, LiftedEdge};
 use crate::curve::local::{cycle_lengths, lcm};
 use crate::curve::{Curve, Site};
 use crate::network::{self, growth, GrowthLimit, Network};
+use crate::solitons::{self, Reading, StreetData, RESOLUTION_EPS};
 use crate::walls::{
     grow_wall, primary_seeds, special_seeds, Bounds, GrowContext, Origin, Settings, Wall,
 };
@@ -588,6 +589,7 @@ impl<'a> WebFinder<'a> {
                 web: vec![line.clone()],
                 z_error,
                 charge: None,
+                streets: None,
                 lift: vec![LiftedEdge {
                     points: line,
                     sheets,
@@ -940,8 +942,10 @@ impl<'a> WebFinder<'a> {
             }
         }
         let rot = Complex64::from_polar(1.0, theta);
+        let indices = self.street_indices(theta, &webs);
         webs.into_iter()
-            .map(|web| {
+            .zip(indices)
+            .map(|(mut web, index)| {
                 // Particle and antiparticle are one state: Z along e^(i theta).
                 let mut z = if (web.z / rot).re >= 0.0 {
                     web.z
@@ -956,12 +960,42 @@ impl<'a> WebFinder<'a> {
                 }
                 let z_error = (web.z - web.z_wall).norm().min((web.z + web.z_wall).norm());
                 let simple = web.problems.is_empty();
+                let omega = match solitons::read(&index) {
+                    Reading::Unique(_, om) if simple && om.first() != Some(&1) => {
+                        self.unknown_notes.push(SpectrumWarning::new(
+                            SpectrumWarningKind::StreetsDisagree,
+                            format!(
+                                "the simple web with |Z| = {:.6} at phase {phase:.6}: its streets give Omega = {:?}, not 1 (1 is kept)",
+                                z.norm(),
+                                om.first()
+                            ),
+                        ));
+                        Some(1)
+                    }
+                    Reading::Unique(_, om) => {
+                        web.problems.clear();
+                        om.first().copied()
+                    }
+                    // Two even indices: the twist is settled once charges
+                    // are known.
+                    Reading::Either { .. } if !simple => {
+                        web.problems.clear();
+                        None
+                    }
+                    _ if simple => Some(1),
+                    _ => None,
+                };
                 let state = BpsState {
                     z,
                     abs: z.norm(),
                     phase,
-                    kind: if simple { Kind::Hyper } else { Kind::Other },
-                    omega: simple.then_some(1),
+                    kind: match omega {
+                        Some(1) => Kind::Hyper,
+                        Some(-2) => Kind::Vector,
+                        _ => Kind::Other,
+                    },
+                    omega,
+                    streets: Some(index),
                     endpoints: web.endpoints,
                     web: web.polylines,
                     z_error,
@@ -969,6 +1003,25 @@ impl<'a> WebFinder<'a> {
                     lift: web.lift,
                 };
                 (state, web.problems)
+            })
+            .collect()
+    }
+
+    /// Each web's index from the soliton data on its streets, read off the
+    /// full networks on both sides of the critical phase ([`solitons`]).
+    fn street_indices(&mut self, theta: f64, webs: &[Web]) -> Vec<StreetData> {
+        let tol = self.settings.tolerance;
+        let below = self.network_at(theta - RESOLUTION_EPS, tol, None);
+        let above = self.network_at(theta + RESOLUTION_EPS, tol, None);
+        webs.iter()
+            .map(|web| {
+                solitons::street_data(
+                    self.curve,
+                    [&below, &above],
+                    &web.polylines,
+                    web.z.norm(),
+                    self.settings.reach,
+                )
             })
             .collect()
     }

@@ -1,0 +1,139 @@
+//! Settling the sign of each class in the soliton series.
+//!
+//! A street's series `Q(x)` is computed in the engine's gauge, where the
+//! closed class x of a state may carry the opposite sign from the twisted
+//! torus of the KS formula. Both signs are quadratic refinements of the
+//! same pairing mod 2, so their ratio is a character of the lattice mod 2:
+//! `x -> chi(gamma) x` with `chi` linear. A state with an odd index fixes
+//! `chi(gamma)` by itself (only one sign gives whole indices, see
+//! [`crate::solitons::read`]); those values fix `chi` on their span mod 2,
+//! and that decides the states whose two readings are both whole. Values
+//! that contradict linearity are a failed check and settle nothing.
+
+use super::warning::{SpectrumWarning, SpectrumWarningKind};
+use super::{Kind, Spectrum};
+use crate::solitons::{read, Reading, Twist};
+
+/// A linear function over GF(2) known on some vectors: rows kept reduced
+/// (each with its own leading bit), as `(mask, value)`.
+#[derive(Default)]
+struct Gf2Character {
+    rows: Vec<(u64, bool)>,
+}
+
+impl Gf2Character {
+    fn reduce(&self, mut mask: u64, mut value: bool) -> (u64, bool) {
+        for &(r, v) in &self.rows {
+            let lead = 63 - r.leading_zeros();
+            if mask >> lead & 1 == 1 {
+                mask ^= r;
+                value ^= v;
+            }
+        }
+        (mask, value)
+    }
+
+    /// Records `chi(mask) = value`; false when that contradicts the rows.
+    fn insert(&mut self, mask: u64, value: bool) -> bool {
+        let (m, v) = self.reduce(mask, value);
+        if m == 0 {
+            return !v;
+        }
+        let lead = 63 - m.leading_zeros();
+        // Keep every row free of the others' leading bits.
+        for row in &mut self.rows {
+            if row.0 >> lead & 1 == 1 {
+                row.0 ^= m;
+                row.1 ^= v;
+            }
+        }
+        self.rows.push((m, v));
+        true
+    }
+
+    /// `chi(mask)` when the rows determine it.
+    fn value(&self, mask: u64) -> Option<bool> {
+        let (m, v) = self.reduce(mask, false);
+        (m == 0).then_some(v)
+    }
+}
+
+/// A charge mod 2 as bits (None beyond 64 coordinates).
+fn parity(charge: &[i64]) -> Option<u64> {
+    (charge.len() <= 64).then(|| {
+        charge
+            .iter()
+            .enumerate()
+            .filter(|(_, x)| x.rem_euclid(2) == 1)
+            .fold(0_u64, |m, (i, _)| m | 1 << i)
+    })
+}
+
+/// Decides the indices left open between two even values (see the module
+/// docs), and warns about those it cannot decide.
+pub(super) fn settle(spectrum: &mut Spectrum) {
+    let mut chi = Gf2Character::default();
+    let mut consistent = true;
+    let mut open = Vec::new();
+    for (idx, s) in spectrum.states.iter().enumerate() {
+        let Some(data) = &s.streets else { continue };
+        let mask = s.charge.as_deref().and_then(parity);
+        match (read(data), mask) {
+            (Reading::Unique(twist, _), Some(m)) => {
+                consistent &= chi.insert(m, twist == Twist::Flip);
+            }
+            (Reading::Either { keep, flip }, m) if s.omega.is_none() => {
+                open.push((idx, m, keep, flip));
+            }
+            _ => {}
+        }
+    }
+    for (idx, mask, keep, flip) in open {
+        let state = &mut spectrum.states[idx];
+        let decided = mask.filter(|_| consistent).and_then(|m| chi.value(m));
+        match decided {
+            Some(flipped) => {
+                let omegas = if flipped { flip } else { keep };
+                state.omega = omegas.first().copied();
+                state.kind = match state.omega {
+                    Some(1) => Kind::Hyper,
+                    Some(-2) => Kind::Vector,
+                    _ => Kind::Other,
+                };
+            }
+            None => spectrum.warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::IndexUnknownTwist,
+                format!(
+                    "the web with |Z| = {:.6} at phase {:.6} has index unknown: its streets give Omega = {} or {}, and {}",
+                    state.abs,
+                    state.phase,
+                    keep.first().copied().unwrap_or(0),
+                    flip.first().copied().unwrap_or(0),
+                    if consistent {
+                        "no state of odd index fixes the sign of its class"
+                    } else {
+                        "the signs fixed by the states of odd index are not linear in the charge (a failed check)"
+                    }
+                ),
+            )),
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_character_is_fixed_on_the_span_and_contradictions_are_seen() {
+        let mut chi = Gf2Character::default();
+        assert!(chi.insert(0b011, true));
+        assert!(chi.insert(0b110, false));
+        // 0b101 = 0b011 + 0b110.
+        assert_eq!(chi.value(0b101), Some(true));
+        assert_eq!(chi.value(0b001), None);
+        assert!(chi.insert(0b101, true));
+        assert!(!chi.insert(0b101, false));
+        assert_eq!(parity(&[3, -1, 2, -4]), Some(0b0011));
+    }
+}
