@@ -171,6 +171,71 @@ fn problem_text(problem: SpectrumWarningKind) -> &'static str {
     }
 }
 
+/// The index of a ring domain that no wall of another pair crosses: there
+/// the network is locally that of the ring's own two sheets, and a ring
+/// domain of a rank-2 network is a vector multiplet (Gaiotto-Moore-Neitzke
+/// 2012; the W boson of Seiberg-Witten 1994).
+const RING_INDEX: i64 = -2;
+
+/// Whether a wall of `net` whose pair is not the ring's crosses the closed
+/// trajectory `line` (labelled `sheets` at its first point). The ring's
+/// labels are carried round it across the cuts, so both are compared in
+/// the labels that hold where they cross.
+fn ring_crossed(curve: &Curve, net: &Network, line: &[Complex64], sheets: [usize; 2]) -> bool {
+    let mut pair = sheets;
+    let mut closed = line.to_vec();
+    if let Some(&first) = line.first() {
+        closed.push(first);
+    }
+    for seg in closed.windows(2) {
+        let (a0, a1) = (seg[0], seg[1]);
+        let (lo, hi) = (
+            Complex64::new(a0.re.min(a1.re), a0.im.min(a1.im)),
+            Complex64::new(a0.re.max(a1.re), a0.im.max(a1.im)),
+        );
+        for wall in &net.walls {
+            for (s, w) in wall.points.windows(2).enumerate() {
+                let (b0, b1) = (w[0].z, w[1].z);
+                // Bounding boxes first: most segments are far apart.
+                if b0.re.max(b1.re) < lo.re
+                    || b0.re.min(b1.re) > hi.re
+                    || b0.im.max(b1.im) < lo.im
+                    || b0.im.min(b1.im) > hi.im
+                {
+                    continue;
+                }
+                if crate::geometry::segment_crossing(a0, a1, b0, b1).is_some() {
+                    let k = wall.kind_at(s);
+                    let mut theirs = [usize::from(k.i), usize::from(k.j)];
+                    let mut ours = pair;
+                    theirs.sort_unstable();
+                    ours.sort_unstable();
+                    if theirs != ours {
+                        return true;
+                    }
+                }
+            }
+        }
+        // Carry the ring's labels across the cuts this segment crosses.
+        let mut hits: Vec<(f64, &crate::curve::Cut, bool)> = curve
+            .cuts
+            .iter()
+            .filter_map(|c| c.crossing(a0, a1).map(|(f, w)| (f, c, w)))
+            .collect();
+        hits.sort_by(|x, y| x.0.total_cmp(&y.0));
+        for (_, cut, west_to_east) in hits {
+            for label in &mut pair {
+                *label = if west_to_east {
+                    cut.perm.get(*label).copied().unwrap_or(*label)
+                } else {
+                    cut.perm.iter().position(|&b| b == *label).unwrap_or(*label)
+                };
+            }
+        }
+    }
+    false
+}
+
 /// The branch points at the ends of the tree of walls behind a pass.
 fn tree_endpoints(net: &Network, pass: &Pass) -> Option<Vec<usize>> {
     let mut ends = vec![pass.to];
@@ -329,6 +394,10 @@ struct WebFinder<'a> {
     truncated: bool,
     /// Per-web warnings: index unknown, and charges that disagree.
     unknown_notes: Vec<SpectrumWarning>,
+    /// Index-unknown notes of webs, by state: shown only if the state's
+    /// index is still unknown at the end (a ring domain found later can
+    /// decide it).
+    web_notes: Vec<(usize, SpectrumWarning)>,
     error_notes: Vec<SpectrumWarning>,
 }
 
@@ -389,6 +458,7 @@ impl<'a> WebFinder<'a> {
             networks_hit: false,
             truncated: false,
             unknown_notes: Vec::new(),
+            web_notes: Vec::new(),
             error_notes: Vec::new(),
         }
     }
@@ -531,17 +601,25 @@ impl<'a> WebFinder<'a> {
             else {
                 continue;
             };
+            let phase = phase_mod_pi(cand.z.arg()) + 0.0;
+            let net = self.network_at(phase, self.settings.tolerance, None);
+            let alone = !ring_crossed(self.curve, &net, &line, sheets);
             if let Some(k) = same {
                 let web = &mut self.states[k];
                 web.kind = Kind::Vector;
                 web.web.push(line);
-                self.unknown_notes.push(SpectrumWarning::new(
-                    SpectrumWarningKind::IndexUnknownRingDomain,
-                    format!(
-                        "the web with |Z| = {:.6} at phase {:.6} bounds a ring domain of closed trajectories: a vector multiplet, index unknown (-2 unless walls of another pair cross the ring)",
-                        web.abs, web.phase
-                    ),
-                ));
+                if alone {
+                    web.omega = Some(RING_INDEX);
+                    web.streets = None;
+                } else {
+                    self.unknown_notes.push(SpectrumWarning::new(
+                        SpectrumWarningKind::IndexUnknownRingDomain,
+                        format!(
+                            "the web with |Z| = {:.6} at phase {:.6} bounds a ring domain of closed trajectories: a vector multiplet, index unknown (walls of another pair cross the ring)",
+                            web.abs, web.phase
+                        ),
+                    ));
+                }
                 continue;
             }
             line.push(line[0]);
@@ -561,15 +639,16 @@ impl<'a> WebFinder<'a> {
                 .map_or(f64::INFINITY, |(along, _)| {
                     (along - cand.z).norm().min((along + cand.z).norm())
                 });
-            let phase = phase_mod_pi(cand.z.arg()) + 0.0;
             let z = Complex64::from_polar(cand.z.norm(), phase);
-            self.unknown_notes.push(SpectrumWarning::new(
-                SpectrumWarningKind::IndexUnknownRingDomain,
-                format!(
-                    "the ring domain with |Z| = {:.6} at phase {phase:.6} (a vector multiplet) has index unknown: -2 unless walls of another pair cross its annulus",
-                    z.norm()
-                ),
-            ));
+            if !alone {
+                self.unknown_notes.push(SpectrumWarning::new(
+                    SpectrumWarningKind::IndexUnknownRingDomain,
+                    format!(
+                        "the ring domain with |Z| = {:.6} at phase {phase:.6} (a vector multiplet) has index unknown: walls of another pair cross its annulus",
+                        z.norm()
+                    ),
+                ));
+            }
             if z_error > WARN_Z_ERROR * z.norm() {
                 self.error_notes.push(SpectrumWarning::new(
                     SpectrumWarningKind::ZError,
@@ -584,7 +663,7 @@ impl<'a> WebFinder<'a> {
                 abs: z.norm(),
                 phase,
                 kind: Kind::Vector,
-                omega: None,
+                omega: alone.then_some(RING_INDEX),
                 endpoints: Vec::new(),
                 web: vec![line.clone()],
                 z_error,
@@ -707,13 +786,16 @@ impl<'a> WebFinder<'a> {
                 // One warning lists every reason; its kind is the first.
                 if let Some(&first) = problems.first() {
                     let why: Vec<&str> = problems.iter().map(|&p| problem_text(p)).collect();
-                    self.unknown_notes.push(SpectrumWarning::new(
-                        first,
-                        format!(
-                            "the web with |Z| = {:.6} at phase {:.6} has index unknown: {}",
-                            state.abs,
-                            state.phase,
-                            why.join("; ")
+                    self.web_notes.push((
+                        self.states.len(),
+                        SpectrumWarning::new(
+                            first,
+                            format!(
+                                "the web with |Z| = {:.6} at phase {:.6} has index unknown: {}",
+                                state.abs,
+                                state.phase,
+                                why.join("; ")
+                            ),
                         ),
                     ));
                 }
@@ -1159,9 +1241,16 @@ impl<'a> WebFinder<'a> {
         })
     }
 
-    fn into_spectrum(self, mut warnings: Vec<SpectrumWarning>) -> Spectrum {
+    fn into_spectrum(mut self, mut warnings: Vec<SpectrumWarning>) -> Spectrum {
+        let open: Vec<SpectrumWarning> = std::mem::take(&mut self.web_notes)
+            .into_iter()
+            .filter(|(k, _)| self.states.get(*k).is_some_and(|s| s.omega.is_none()))
+            .map(|(_, w)| w)
+            .collect();
+        let mut notes = open;
+        notes.append(&mut self.unknown_notes);
         warnings.extend(summarised(
-            self.unknown_notes,
+            notes,
             "have index unknown",
             SpectrumWarningKind::IndexUnknownNotListed,
         ));
@@ -1195,5 +1284,42 @@ impl<'a> WebFinder<'a> {
             self.cancelled,
             self.stats,
         )
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::parse_equation;
+    use std::collections::BTreeMap;
+
+    fn circle(centre: Complex64, r: f64) -> Vec<Complex64> {
+        (0..200)
+            .map(|k| centre + Complex64::from_polar(r, 2.0 * PI * f64::from(k) / 200.0))
+            .collect()
+    }
+
+    /// A circle round all six branch points of a rank-3 curve is crossed
+    /// by walls of every pair; a small one far outside the network is
+    /// crossed by none.
+    #[test]
+    fn rings_crossed_by_other_pairs_are_seen() {
+        let poly = parse_equation("y^3 - 1.5 * z * y + z^3 - 1 = 0")
+            .unwrap()
+            .evaluate(&BTreeMap::new())
+            .unwrap();
+        let curve = Curve::from_poly_in_y(&poly).unwrap();
+        let settings = Settings {
+            reach: 6.0,
+            ..Settings::default()
+        };
+        let net = network::compute(&curve, 0.3, &settings, &CancelToken::new());
+        assert!(net.walls.len() > 6);
+        for sheets in [[0, 1], [0, 2], [1, 2]] {
+            let big = circle(Complex64::new(0.0, 0.0), 1.6);
+            assert!(ring_crossed(&curve, &net, &big, sheets), "{sheets:?}");
+            let far = circle(Complex64::new(300.0, 300.0), 0.5);
+            assert!(!ring_crossed(&curve, &net, &far, sheets), "{sheets:?}");
+        }
     }
 }

@@ -721,6 +721,9 @@ fn pure_su3_near_strong_coupling_has_six_hypers_spanning_the_lattice() {
 /// tower: some dyons differ by exactly one W boson's charge. Z of the
 /// heaviest (a web at the ring's edge, by the web quadrature) equals the sum
 /// of the two lighter ones (circle periods): two independent quadratures.
+/// No wall of another pair crosses any of the three rings, so each has the
+/// index of a rank-2 ring domain, Omega = -2 (a vector multiplet, as a W
+/// boson must be), and no index is left unknown.
 #[test]
 fn pure_su3_weak_coupling_w_bosons_are_the_positive_roots() {
     let cv = pure_su3(c(8.0, 0.0), c(0.0, 3.0));
@@ -743,6 +746,14 @@ fn pure_su3_weak_coupling_w_bosons_are_the_positive_roots() {
         .filter(|s| s.kind == Kind::Vector)
         .collect();
     assert_eq!(w.len(), 3, "{:?}", sp.warnings);
+    for s in &w {
+        assert_eq!(s.omega, Some(-2), "W at |Z| {}", s.abs);
+    }
+    assert!(
+        !sp.warnings.iter().any(|w| w.kind.is_index_unknown()),
+        "{:?}",
+        sp.warnings
+    );
     let q: Vec<&Vec<i64>> = w.iter().map(|s| s.charge.as_ref().unwrap()).collect();
     for a in 0..3 {
         // A ring's two periods agree to rounding; a web bounding a ring
