@@ -185,6 +185,8 @@ fn self_check_passed(found: &spectrum::Spectrum) -> bool {
 #[derive(Serialize)]
 struct SpectrumJson {
     reach: f64,
+    /// Every state below this |Z| has an integer `omega`.
+    complete_to: f64,
     states: Vec<StateJson>,
     /// States that are massless at a singular point of the curve (Z = 0).
     massless: Vec<StateJson>,
@@ -253,6 +255,7 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
     if args.json {
         let doc = SpectrumJson {
             reach: found.reach,
+            complete_to: found.indices_complete_to(),
             states: found
                 .states
                 .iter()
@@ -331,6 +334,13 @@ pub fn run(args: &SpectrumArgs) -> anyhow::Result<ExitCode> {
                 l.flavour_rank,
                 l.basis.iter().map(|z| fmt_z(*z)).collect::<Vec<_>>().join(", "),
                 l.worst_z_error
+            ));
+        }
+        let complete = found.indices_complete_to();
+        if complete < found.reach {
+            out.push_str(&format!(
+                "indices: known for every state below |Z| = {complete:.6} (reach {})\n",
+                found.reach
             ));
         }
         if args.pairing {

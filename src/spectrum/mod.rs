@@ -159,6 +159,16 @@ pub struct Spectrum {
 }
 
 impl Spectrum {
+    /// Every state below this `|Z|` has an integer index: the lightest
+    /// state of unknown index, or the reach when there is none.
+    pub fn indices_complete_to(&self) -> f64 {
+        self.states
+            .iter()
+            .filter(|s| s.omega.is_none())
+            .map(|s| s.abs)
+            .fold(self.reach, f64::min)
+    }
+
     fn empty(reach: f64, warnings: Vec<SpectrumWarning>) -> Self {
         Self {
             reach,
@@ -287,6 +297,7 @@ pub fn find(
     if settings.validate().is_ok() {
         crate::charges::assign_with(&lattice, curve, &mut spectrum);
         twist::settle(&mut spectrum);
+        twist::warn_aligned(&mut spectrum);
     }
     split_massless(curve, &mut spectrum);
     limit::to_singular_limit(curve, &mut spectrum);

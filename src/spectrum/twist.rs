@@ -120,6 +120,46 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
     }
 }
 
+/// Two states of independent charges at one phase: the parameters lie on
+/// a wall of marginal stability (or on a symmetric slice, such as a real
+/// curve whose states all align at phase 0). Their series mix two classes
+/// and the indices there belong to neither side; this is said rather than
+/// hidden.
+pub(super) fn warn_aligned(spectrum: &mut Spectrum) {
+    let states = &spectrum.states;
+    let independent = |a: &[i64], b: &[i64]| {
+        // Not proportional: some 2x2 minor is non-zero.
+        (0..a.len()).any(|i| (0..a.len()).any(|j| a[i] * b[j] != a[j] * b[i]))
+    };
+    let mut found: Option<(usize, usize)> = None;
+    'outer: for i in 0..states.len() {
+        for j in i + 1..states.len() {
+            let (Some(a), Some(b)) = (&states[i].charge, &states[j].charge) else {
+                continue;
+            };
+            let gap = (states[i].phase - states[j].phase).abs();
+            if gap.min(std::f64::consts::PI - gap) < ALIGNED && independent(a, b) {
+                found = Some((i, j));
+                break 'outer;
+            }
+        }
+    }
+    if let Some((i, j)) = found {
+        let (a, b) = (&spectrum.states[i], &spectrum.states[j]);
+        spectrum.warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::AlignedCharges,
+            format!(
+                "states of independent charges align at phase {:.9} (|Z| = {:.6} and {:.6}): these parameters lie on a wall of marginal stability, where the states at that phase belong to neither side; move off it for their indices",
+                a.phase, a.abs, b.abs
+            ),
+        ));
+    }
+}
+
+/// Phases closer than this are aligned (the finder's phases are good to
+/// 1e-10).
+const ALIGNED: f64 = 1e-8;
+
 #[cfg(test)]
 mod tests {
     use super::*;

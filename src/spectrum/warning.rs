@@ -77,6 +77,9 @@ pub enum SpectrumWarningKind {
     IndexUnknownTwist,
     /// The count of index-unknown warnings beyond those listed.
     IndexUnknownNotListed,
+    /// States of independent charges share a phase: the parameters lie on
+    /// a wall of marginal stability.
+    AlignedCharges,
     /// The soliton data on a simple web's streets give another index than
     /// the simple web's 1 (the simple web's is kept).
     StreetsDisagree,
@@ -114,7 +117,7 @@ pub enum SpectrumWarningKind {
 
 impl SpectrumWarningKind {
     /// Every kind, in declaration order.
-    pub const ALL: [Self; 34] = [
+    pub const ALL: [Self; 35] = [
         Self::InvalidSettings,
         Self::RankUnsupported,
         Self::NonSimpleBranchPoint,
@@ -134,6 +137,7 @@ impl SpectrumWarningKind {
         Self::IndexUnknownRingDomain,
         Self::IndexUnknownTwist,
         Self::StreetsDisagree,
+        Self::AlignedCharges,
         Self::IndexUnknownNotListed,
         Self::ZError,
         Self::ZErrorNotListed,
@@ -173,6 +177,7 @@ impl SpectrumWarningKind {
             Self::IndexUnknownRingDomain => "index_unknown_ring_domain",
             Self::IndexUnknownTwist => "index_unknown_twist",
             Self::StreetsDisagree => "streets_disagree",
+            Self::AlignedCharges => "aligned_charges",
             Self::IndexUnknownNotListed => "index_unknown_not_listed",
             Self::ZError => "z_error",
             Self::ZErrorNotListed => "z_error_not_listed",

@@ -21,6 +21,8 @@ fn oscillator_json_contract() {
     assert_eq!(code, 0, "{err}");
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert_eq!(v["reach"].as_f64(), Some(8.0));
+    // Every index is known: complete to the reach.
+    assert_eq!(v["complete_to"].as_f64(), Some(8.0));
     let states = v["states"].as_array().unwrap();
     assert_eq!(states.len(), 1);
     let s = &states[0];
@@ -162,4 +164,50 @@ fn spectrum_json_warnings_have_codes() {
         .collect();
     assert!(!non_simple.is_empty(), "{out}");
     assert!(non_simple.iter().all(|m| m.contains("is not simple")));
+}
+
+/// Pure SU(3) at real u = 1, v = 0.5: the curve is real, so the states of
+/// real Z all sit at phase 0 with independent charges (6.094 and 9.084 are
+/// not multiples): the point lies on a wall of marginal stability. The
+/// spectrum says so (`aligned_charges`), and `complete_to` stops at an
+/// index left unknown at that phase; a step off the slice
+/// (u = 1 + 0.05i) separates the phases and decides both (1).
+#[test]
+fn a_point_on_a_wall_of_marginal_stability_is_named() {
+    let curve = "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0";
+    let json = |u: &str| {
+        let (code, out, err) = run(&[
+            "spectrum", "--curve", curve, "--set", u, "--set", "v=0.5", "--reach", "12", "--json",
+        ]);
+        assert_eq!(code, 0, "{err}");
+        serde_json::from_str::<serde_json::Value>(&out).unwrap()
+    };
+    let on = json("u=1");
+    let codes: Vec<&str> = on["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|w| w["code"].as_str().unwrap())
+        .collect();
+    assert!(codes.contains(&"aligned_charges"), "{codes:?}");
+    // Complete up to an undecided state at phase 0.
+    let complete = on["complete_to"].as_f64().unwrap();
+    assert!(complete < 12.0);
+    assert!(on["states"].as_array().unwrap().iter().any(|s| {
+        s["omega"].is_null()
+            && s["phase"].as_f64() == Some(0.0)
+            && (s["abs"].as_f64().unwrap() - complete).abs() < 1e-12
+    }));
+    let off = json("u=1+0.05i");
+    let codes: Vec<&str> = off["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|w| w["code"].as_str().unwrap())
+        .collect();
+    assert!(!codes.contains(&"aligned_charges"), "{codes:?}");
+    assert_eq!(off["complete_to"].as_f64(), Some(12.0));
+    for s in off["states"].as_array().unwrap() {
+        assert_eq!(s["omega"].as_i64(), Some(1), "{s}");
+    }
 }
