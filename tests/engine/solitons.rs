@@ -101,14 +101,13 @@ fn rank_three_simple_webs_agree_with_their_streets() {
         .any(|w| w.kind == SpectrumWarningKind::StreetsDisagree));
 }
 
-/// Pure SU(3) at u = 2, v = 0.1i (an example that left indices unknown:
-/// webs reaching one branch point twice). The point lies inside the
-/// singular locus (|u| < 2.48 there, from u^3 = -(27/4)(v +- 2)^2), where
-/// the light spectrum is the six hypermultiplets of strong coupling (Alim
-/// et al. 2011, from memory): every state below |Z| = 10 has a unique
-/// reading of its streets, Omega = 1, and there are six of them.
+/// Pure SU(3) at u = 2, v = 0.1i, inside the singular locus (|u| < 2.48
+/// there, from u^3 = -(27/4)(v +- 2)^2), where the light spectrum is the
+/// six hypermultiplets of strong coupling (Alim et al. 2011, from memory).
+/// The streets of every one of them read Omega = 1 uniquely, the same as
+/// the finder's simple-web rule.
 #[test]
-fn pure_su3_webs_through_a_branch_point_twice_get_their_index() {
+fn pure_su3_strong_coupling_streets_read_index_one() {
     let cv = curve_with(
         "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
         &[("u", c(2.0, 0.0)), ("v", c(0.0, 0.1))],
