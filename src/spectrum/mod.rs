@@ -48,6 +48,7 @@ use crate::curve::Curve;
 use crate::network::default_bounds;
 use crate::walls::{
     grow_wall, primary_anchors, primary_seeds_from, Bounds, GrowContext, Origin, Settings, Wall,
+    WallSeed,
 };
 use num_complex::Complex64;
 use period::Quadratic;
@@ -496,6 +497,23 @@ impl<'a> Finder<'a> {
     /// The primary walls at phase `theta` (only those from branch point
     /// `from` if given), reaching just past the reach.
     fn walls_at(&mut self, theta: f64, tolerance: f64, from: Option<usize>) -> Vec<Wall> {
+        let seeds = self.seeds_at(theta, from);
+        self.grow(theta, tolerance, seeds)
+    }
+
+    /// The seeds of [`Finder::walls_at`].
+    fn seeds_at(&self, theta: f64, from: Option<usize>) -> Vec<WallSeed> {
+        primary_seeds_from(self.curve, theta, &self.anchors)
+            .into_iter()
+            .filter(|seed| match (from, seed.origin) {
+                (Some(f), Origin::BranchPoint { index, .. }) => index == f,
+                _ => true,
+            })
+            .collect()
+    }
+
+    /// The walls of `seeds` at phase `theta`, reaching just past the reach.
+    fn grow(&mut self, theta: f64, tolerance: f64, seeds: Vec<WallSeed>) -> Vec<Wall> {
         let settings = self.wall_settings(tolerance, self.settings.reach * (1.0 + 1e-6));
         let ctx = GrowContext {
             curve: self.curve,
@@ -504,12 +522,8 @@ impl<'a> Finder<'a> {
             bounds: self.bounds,
             cancel: self.cancel,
         };
-        let walls: Vec<Wall> = primary_seeds_from(self.curve, theta, &self.anchors)
+        let walls: Vec<Wall> = seeds
             .into_iter()
-            .filter(|seed| match (from, seed.origin) {
-                (Some(f), Origin::BranchPoint { index, .. }) => index == f,
-                _ => true,
-            })
             .map(|seed| grow_wall(&ctx, seed))
             .collect();
         self.stats.walls_grown += walls.len();
@@ -733,18 +747,26 @@ impl<'a> Finder<'a> {
         self.states.push(state);
     }
 
-    /// Whether a wall at the scan's tolerance passes a branch point with a
-    /// period within [`COARSE_MATCH`] of `z`: without one, no wall at the
-    /// confirming tolerance matches it to [`CANDIDATE_MATCH`] either, and
-    /// the candidate is rejected at a fraction of the cost.
-    fn coarse_match(&mut self, z: Complex64, theta: f64, from: Option<usize>) -> bool {
-        let walls = self.walls_at(theta, self.settings.scan_tolerance, from);
+    /// The seeds at phase `theta` (from branch point `from` if given) whose
+    /// wall at the scan's tolerance passes a branch point with a period
+    /// within [`COARSE_MATCH`] of `z`. The wall of any other seed does not
+    /// match `z` to [`CANDIDATE_MATCH`] at the confirming tolerance either,
+    /// so it need not be grown there; with none left the candidate is
+    /// rejected at a fraction of the cost.
+    fn coarse_match(&mut self, z: Complex64, theta: f64, from: Option<usize>) -> Vec<WallSeed> {
+        let seeds = self.seeds_at(theta, from);
+        let walls = self.grow(theta, self.settings.scan_tolerance, seeds.clone());
         let tol = COARSE_MATCH * (1.0 + z.norm());
-        walls.iter().any(|wall| {
-            saddle::passes(&self.quad, self.curve, wall, theta, &self.radii)
-                .iter()
-                .any(|pass| (pass.z_wall - z).norm().min((pass.z_wall + z).norm()) <= tol)
-        })
+        seeds
+            .into_iter()
+            .zip(&walls)
+            .filter(|(_, wall)| {
+                saddle::passes(&self.quad, self.curve, wall, theta, &self.radii)
+                    .iter()
+                    .any(|pass| (pass.z_wall - z).norm().min((pass.z_wall + z).norm()) <= tol)
+            })
+            .map(|(seed, _)| seed)
+            .collect()
     }
 
     /// Re-integrates at the candidate's phase until the phase settles; a
@@ -752,14 +774,17 @@ impl<'a> Finder<'a> {
     fn confirm_hyper(&mut self, candidate: Complex64, from: Option<usize>) -> Option<BpsState> {
         let mut z_cand = candidate;
         let mut theta = phase_mod_pi(z_cand.arg());
-        if !self.coarse_match(z_cand, theta, from) {
-            return None;
-        }
         for _ in 0..MAX_REFINE {
             if self.stop() {
                 return None;
             }
-            let walls = self.walls_at(theta, self.settings.tolerance, from);
+            // Only the walls whose coarse version matches can hold the
+            // best pass: those alone are grown at the confirming tolerance.
+            let seeds = self.coarse_match(z_cand, theta, from);
+            if seeds.is_empty() {
+                return None;
+            }
+            let walls = self.grow(theta, self.settings.tolerance, seeds);
             let mut best: Option<(usize, saddle::Pass, f64)> = None;
             for (w_idx, wall) in walls.iter().enumerate() {
                 for pass in saddle::passes(&self.quad, self.curve, wall, theta, &self.radii) {
