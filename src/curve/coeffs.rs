@@ -218,6 +218,27 @@ mod tests {
     }
 
     #[test]
+    fn square_of_the_sheets_matches_the_coefficients() {
+        // y^2 = (z^2 + 2 u z + 1) / z^3 with u = 0.4 + 0.3i, written as
+        // y^2 + u2 = 0: minus_u2 must give -u2 as eval_into computes it.
+        let u = c(0.4, 0.3);
+        let u2 = Rational {
+            num: Poly::new(vec![c(-1.0, 0.0), -u * 2.0, c(-1.0, 0.0)]),
+            den: Poly::new(vec![ZERO, ZERO, ZERO, c(1.0, 0.0)]),
+        };
+        let coeffs = vec![Rational::one(), Rational::constant(ZERO), u2.clone()];
+        let fast = CoeffEval::new(&coeffs);
+        let mut v = [ZERO; 3];
+        for z in [c(0.3, -0.7), c(-2.5, 1.0), c(1e-3, 4.0)] {
+            fast.eval_into(z, &mut v);
+            let q = fast.minus_u2(z).expect("u1 = 0");
+            assert_eq!(q, -v[2]);
+            let want = -u2.eval(z);
+            assert!((q - want).norm() <= 1e-14 * want.norm());
+        }
+    }
+
+    #[test]
     fn evaluator_matches_rational_evaluation() {
         // u1 = (z + 2) / (z - 1), u2 = 3 z^2 / 2, u3 = (1 - z) / (z - 1)^2,
         // u4 = i z / (z - 1).
