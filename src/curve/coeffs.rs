@@ -22,6 +22,18 @@ pub struct CoeffEval {
     den_of: Vec<Option<usize>>,
     /// The distinct non-constant denominators.
     dens: Vec<Vec<Complex64>>,
+    /// K = 2 with `u_1 = 0`, the way `y^2 = q` is written: `u_2` alone,
+    /// for the straight-line sheet evaluation of [`CoeffEval::minus_u2`].
+    square_root_form: Option<SquareRootForm>,
+}
+
+/// `u_2 = num / den` of a curve `y^2 + u_2 = 0`, arranged as in
+/// [`CoeffEval`] (a constant denominator divided into the numerator).
+#[derive(Clone, Debug, Default, PartialEq)]
+struct SquareRootForm {
+    num: Vec<Complex64>,
+    /// `None` when the denominator is constant.
+    den: Option<Vec<Complex64>>,
 }
 
 /// Value and derivative of an ascending polynomial by Horner's rule.
@@ -64,7 +76,29 @@ impl CoeffEval {
             out.num.push(r.num.coeffs.clone());
             out.den_of.push(Some(idx));
         }
+        if out.num.len() == 2 && out.num[0].iter().all(|c| *c == ZERO) {
+            out.square_root_form = Some(SquareRootForm {
+                num: out.num[1].clone(),
+                den: out.den_of[1].map(|i| out.dens[i].clone()),
+            });
+        }
         out
+    }
+
+    /// For a curve `y^2 = q` (K = 2, `u_1 = 0`): `q(z) = -u_2(z)`, the
+    /// square of each sheet, with the same arithmetic as
+    /// [`CoeffEval::eval_into`] (so the same value, up to the sign of a
+    /// zero part) in straight-line code: this runs at every stage of every
+    /// wall step. `None` for other curves.
+    #[inline]
+    pub fn minus_u2(&self, z: Complex64) -> Option<Complex64> {
+        let form = self.square_root_form.as_ref()?;
+        let v = horner(&form.num, z);
+        let u2 = match &form.den {
+            Some(d) => v * (ONE / horner(d, z)),
+            None => v,
+        };
+        Some(-u2)
     }
 
     /// Number of coefficients arranged (K once built, 0 when empty).
@@ -184,6 +218,27 @@ mod tests {
     }
 
     #[test]
+    fn square_of_the_sheets_matches_the_coefficients() {
+        // y^2 = (z^2 + 2 u z + 1) / z^3 with u = 0.4 + 0.3i, written as
+        // y^2 + u2 = 0: minus_u2 must give -u2 as eval_into computes it.
+        let u = c(0.4, 0.3);
+        let u2 = Rational {
+            num: Poly::new(vec![c(-1.0, 0.0), -u * 2.0, c(-1.0, 0.0)]),
+            den: Poly::new(vec![ZERO, ZERO, ZERO, c(1.0, 0.0)]),
+        };
+        let coeffs = vec![Rational::one(), Rational::constant(ZERO), u2.clone()];
+        let fast = CoeffEval::new(&coeffs);
+        let mut v = [ZERO; 3];
+        for z in [c(0.3, -0.7), c(-2.5, 1.0), c(1e-3, 4.0)] {
+            fast.eval_into(z, &mut v);
+            let q = fast.minus_u2(z).expect("u1 = 0");
+            assert_eq!(q, -v[2]);
+            let want = -u2.eval(z);
+            assert!((q - want).norm() <= 1e-14 * want.norm());
+        }
+    }
+
+    #[test]
     fn evaluator_matches_rational_evaluation() {
         // u1 = (z + 2) / (z - 1), u2 = 3 z^2 / 2, u3 = (1 - z) / (z - 1)^2,
         // u4 = i z / (z - 1).
@@ -209,6 +264,7 @@ mod tests {
         ];
         let fast = CoeffEval::new(&u);
         assert_eq!(fast.dens.len(), 2);
+        assert_eq!(fast.minus_u2(c(0.3, 0.1)), None);
         let mut v = [ZERO; 5];
         let mut d = [ZERO; 5];
         for z in [c(0.3, -0.7), c(2.5, 1.0), c(-4.0, 0.1)] {

@@ -160,28 +160,14 @@ impl Curve {
         free: Option<usize>,
     ) -> bool {
         let k = roots.len();
+        if k == 2 {
+            return self.step_two_roots(roots, z1, next);
+        }
         let mut c = [Complex64::new(0.0, 0.0); super::MAX_RANK + 1];
         self.coeffs_into(z1, &mut c);
         let c = &c[..=k];
         if c.iter().any(|x| !x.is_finite()) {
             return false;
-        }
-        if k == 2 {
-            // Closed form: the two roots are -u1/2 +- s.
-            let half = -c[1] * 0.5;
-            let s = super::csqrt(half * half - c[2]);
-            let (a, b) = (half + s, half - s);
-            let keep = (a - roots[0]).norm_sqr() + (b - roots[1]).norm_sqr()
-                <= (b - roots[0]).norm_sqr() + (a - roots[1]).norm_sqr();
-            (next[0], next[1]) = if keep { (a, b) } else { (b, a) };
-            // Each root moved much less than the two are apart (squared).
-            let sep = (roots[0] - roots[1])
-                .norm_sqr()
-                .min((next[0] - next[1]).norm_sqr());
-            let moved = (next[0] - roots[0])
-                .norm_sqr()
-                .max((next[1] - roots[1]).norm_sqr());
-            return moved.is_finite() && moved <= MAX_MOVE_FRACTION * MAX_MOVE_FRACTION * sep;
         }
         let free = free.filter(|&a| a < k && k >= 3);
         if k == 3 {
@@ -204,6 +190,41 @@ impl Curve {
             next[a] = -c[1] - sum;
         }
         unambiguous(roots, next)
+    }
+
+    /// K = 2: the closed form `-u1/2 +- s`, `s^2 = u1^2/4 - u2`, matched
+    /// to `roots`. For `y^2 = q` the square `q` comes straight from the
+    /// evaluator ([`CoeffEval::minus_u2`]), with no coefficient array.
+    ///
+    /// [`CoeffEval::minus_u2`]: super::coeffs::CoeffEval::minus_u2
+    fn step_two_roots(&self, roots: &[Complex64], z1: Complex64, next: &mut [Complex64]) -> bool {
+        let (a, b) = if let Some(q) = self.fast.minus_u2(z1).filter(|_| self.rank == 2) {
+            if !q.is_finite() {
+                return false;
+            }
+            let s = super::csqrt(q);
+            (s, -s)
+        } else {
+            let mut c = [Complex64::new(0.0, 0.0); 3];
+            self.coeffs_into(z1, &mut c);
+            if c.iter().any(|x| !x.is_finite()) {
+                return false;
+            }
+            let half = -c[1] * 0.5;
+            let s = super::csqrt(half * half - c[2]);
+            (half + s, half - s)
+        };
+        let keep = (a - roots[0]).norm_sqr() + (b - roots[1]).norm_sqr()
+            <= (b - roots[0]).norm_sqr() + (a - roots[1]).norm_sqr();
+        (next[0], next[1]) = if keep { (a, b) } else { (b, a) };
+        // Each root moved much less than the two are apart (squared).
+        let sep = (roots[0] - roots[1])
+            .norm_sqr()
+            .min((next[0] - next[1]).norm_sqr());
+        let moved = (next[0] - roots[0])
+            .norm_sqr()
+            .max((next[1] - roots[1]).norm_sqr());
+        moved.is_finite() && moved <= MAX_MOVE_FRACTION * MAX_MOVE_FRACTION * sep
     }
 
     /// K = 3: root `f` by Newton from its guess, the other two from the

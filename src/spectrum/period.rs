@@ -39,6 +39,24 @@ pub fn continue_sign(d: Complex64, prev: Complex64) -> Complex64 {
     }
 }
 
+/// Nodes of the fine trapezoidal rule of [`Quadratic::ellipse_loop`] (the
+/// coarse one takes every other).
+const FINE: usize = 4096;
+
+/// `(cos phi, sin phi)` at the fine rule's angles `phi = 2 pi k / FINE`,
+/// computed once: every pair loop of every curve uses the same angles.
+fn ellipse_angles() -> &'static [(f64, f64)] {
+    static ANGLES: std::sync::OnceLock<Vec<(f64, f64)>> = std::sync::OnceLock::new();
+    ANGLES.get_or_init(|| {
+        (0..FINE)
+            .map(|k| {
+                let phi = TAU * k as f64 / FINE as f64;
+                (phi.cos(), phi.sin())
+            })
+            .collect()
+    })
+}
+
 /// Panels of the composite rule near a branch point.
 const ENDPOINT_PANELS: usize = 4;
 
@@ -138,28 +156,35 @@ impl Quadratic {
             Complex64::new(1.0, 0.0)
         };
         let major = (half.norm_sqr() + minor * minor).sqrt();
-        let at = |phi: f64| {
-            let p = Complex64::new(major * phi.cos(), minor * phi.sin());
-            let dp = Complex64::new(-major * phi.sin(), minor * phi.cos());
+        let at = |(cos, sin): (f64, f64)| {
+            let p = Complex64::new(major * cos, minor * sin);
+            let dp = Complex64::new(-major * sin, minor * cos);
             (centre + u * p, u * dp)
         };
-        let integrate = |n: usize| -> Option<Complex64> {
-            let (z0, _) = at(0.0);
-            let d0 = self.diff(z0);
-            let mut prev = d0;
-            let mut total = Complex64::new(0.0, 0.0);
-            for k in 0..n {
-                let phi = TAU * k as f64 / n as f64;
-                let (z, dz) = at(phi);
-                let d = continue_sign(self.diff(z), prev);
-                total += d * dz;
-                prev = d;
+        // Both resolutions in one pass: the coarse rule's nodes are the
+        // fine rule's even ones (the same angles bit for bit, n being
+        // powers of two), each resolution continuing its own sign.
+        let angles = ellipse_angles();
+        let (z0, _) = at(angles[0]);
+        let d0 = self.diff(z0);
+        let (mut prev_fine, mut prev_coarse) = (d0, d0);
+        let (mut fine, mut coarse) = (Complex64::new(0.0, 0.0), Complex64::new(0.0, 0.0));
+        for (k, &angle) in angles.iter().enumerate() {
+            let (z, dz) = at(angle);
+            let d = self.diff(z);
+            prev_fine = continue_sign(d, prev_fine);
+            fine += prev_fine * dz;
+            if k % 2 == 0 {
+                prev_coarse = continue_sign(d, prev_coarse);
+                coarse += prev_coarse * dz;
             }
-            let back = continue_sign(self.diff(z0), prev);
-            ((back - d0).norm() <= 1e-9 * d0.norm()).then_some(total * (TAU / n as f64))
-        };
-        let coarse = integrate(2048)?;
-        let fine = integrate(4096)?;
+        }
+        let closes = |prev: Complex64| (continue_sign(d0, prev) - d0).norm() <= 1e-9 * d0.norm();
+        if !(closes(prev_coarse) && closes(prev_fine)) {
+            return None;
+        }
+        let coarse = coarse * (TAU / (FINE / 2) as f64);
+        let fine = fine * (TAU / FINE as f64);
         ((fine - coarse).norm() <= 1e-10 * (1.0 + fine.norm())).then_some(fine)
     }
 }

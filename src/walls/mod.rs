@@ -8,7 +8,10 @@ mod start;
 
 pub use grow::{crossed_cuts, grow_wall, hermite, invert, GrowContext, WallSeed};
 pub use settings::{show_f64, Bounds, Settings};
-pub use start::{period_from_branch_point, period_from_point, primary_seeds, special_seeds};
+pub use start::{
+    period_from_branch_point, period_from_point, primary_anchors, primary_seeds,
+    primary_seeds_from, special_seeds,
+};
 
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};

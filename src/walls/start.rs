@@ -33,15 +33,41 @@ const PERIOD_NODES: usize = 10;
 /// Seeds of the three primary walls of every simple branch point.
 /// Branch points that are not simple give none (the caller warns).
 pub fn primary_seeds(curve: &Curve, theta: f64) -> Vec<WallSeed> {
+    primary_seeds_from(curve, theta, &primary_anchors(curve))
+}
+
+/// The labelled sheets at the anchor of each branch point's starts (a point
+/// just beside it, on the side away from its cut), `None` where the point
+/// is not simple or the labelling failed. They do not depend on the phase:
+/// a caller that grows primary walls at many phases computes them once and
+/// passes them to [`primary_seeds_from`].
+pub fn primary_anchors(curve: &Curve) -> Vec<Option<Vec<Complex64>>> {
+    curve
+        .branch_points
+        .iter()
+        .map(|bp| {
+            if !bp.simple {
+                return None;
+            }
+            let anchor = bp.z - CUT_DIRECTION * (START_FRACTION * curve.room_around(bp.z));
+            curve.sheets_at(anchor).ok()
+        })
+        .collect()
+}
+
+/// [`primary_seeds`] with the anchors' sheets given ([`primary_anchors`]
+/// of the same curve).
+pub fn primary_seeds_from(
+    curve: &Curve,
+    theta: f64,
+    anchors: &[Option<Vec<Complex64>>],
+) -> Vec<WallSeed> {
     let mut seeds = Vec::new();
-    for (index, bp) in curve.branch_points.iter().enumerate() {
+    for (index, (bp, anchor_roots)) in curve.branch_points.iter().zip(anchors).enumerate() {
         if !bp.simple {
             continue;
         }
         // One labelling per branch point, carried round to each start.
-        let r0 = START_FRACTION * curve.room_around(bp.z);
-        let anchor = bp.z - CUT_DIRECTION * r0;
-        let anchor_roots = curve.sheets_at(anchor).ok();
         for n in 0..3u8 {
             if let Some(seed) = seed_for(curve, bp, index, n, theta, anchor_roots.as_deref()) {
                 seeds.push(seed);
