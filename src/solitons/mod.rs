@@ -37,6 +37,11 @@ pub const RESOLUTION_EPS: f64 = 1e-6;
 /// Walls within this distance of a sample point, relative to the curve's
 /// length scale, run along its street.
 const BAND: f64 = 1e-2;
+/// The walls of a street come apart by about `(eps |Z|)^(2/3)` (1e-4 of
+/// the scale at most, measured); walls within this, relative to the
+/// length scale, always count as the street's, and the next wall of the
+/// pair that only passes by was 1e-2 away or more in every case looked at.
+const TIGHT: f64 = 1e-3;
 /// Sample points along each polyline of a web, as fractions of its length.
 const SAMPLES: [f64; 3] = [0.3, 0.5, 0.7];
 
@@ -172,7 +177,7 @@ pub fn street_data(
             let band = (BAND * scale).min(0.25 * room);
             for net in sides {
                 data.tried += 1;
-                match series_at(curve, net, x, band, abs, n) {
+                match series_at(curve, net, x, band, TIGHT * scale, abs, n) {
                     Ok(s) => data.samples.push(StreetSample { q: s.q, covers }),
                     Err(SampleError::CutBetween | SampleError::SeveralPairs) => {}
                     Err(e) => {

@@ -105,6 +105,10 @@ pub fn passes_near(net: &Network, x: Complex64, band: f64) -> Vec<(Pass, Complex
     out
 }
 
+/// The passes of a street lie within this many times the nearest one's
+/// distance (or within the caller's `tight` floor).
+const CLUSTER: f64 = 50.0;
+
 /// The series at a sample point.
 #[derive(Clone, Debug, PartialEq)]
 pub struct StreetSeries {
@@ -117,16 +121,28 @@ pub struct StreetSeries {
 }
 
 /// `Q(x)` from the passes at `x`, in powers of the class of mass `unit`, up
-/// to `x^n`.
+/// to `x^n`: walls within `band` are looked at, and those in the cluster
+/// nearest x (at least `tight` wide) are the street's.
 pub fn series_at(
     curve: &Curve,
     net: &Network,
     x: Complex64,
     band: f64,
+    tight: f64,
     unit: f64,
     n: usize,
 ) -> Result<StreetSeries, SampleError> {
-    let passes = passes_near(net, x, band);
+    let mut passes = passes_near(net, x, band);
+    // The street's own walls hug it (within about (eps |Z|)^(2/3) of it);
+    // another wall of the pair may pass within the search band without
+    // running along the street, and a pair of one of each makes no closed
+    // class. Keep the cluster next to the nearest pass.
+    let nearest = passes
+        .iter()
+        .map(|(p, _)| p.distance)
+        .fold(f64::INFINITY, f64::min);
+    let cluster = (CLUSTER * nearest).max(tight).min(band);
+    passes.retain(|(p, _)| p.distance <= cluster);
     // Labels change across cuts: a pass on the far side of one is read in
     // other labels than x's.
     if passes
