@@ -16,6 +16,7 @@ pub mod lattice;
 pub use lattice::{Charge, Lattice, LatticeError, LiftedEdge};
 
 use crate::curve::Curve;
+use crate::solitons::{Reading, StreetData};
 use crate::spectrum::{BpsState, Kind, Spectrum, SpectrumWarning, SpectrumWarningKind};
 use num_complex::Complex64;
 use serde::{Deserialize, Serialize};
@@ -95,7 +96,7 @@ fn state_charge(curve: &Curve, lat: &Lattice, s: &BpsState) -> Result<Charge, St
 /// symmetric curve's webs through different branch points, all closing at
 /// one phase) are one state, drawn with all its webs. Each web adds to the
 /// index, so it is unknown; a warning says how many webs there were.
-fn merge_equal_charges(spectrum: &mut Spectrum) {
+fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
     let canonical = |c: &[i64]| -> Vec<i64> {
         match c.iter().find(|&&x| x != 0) {
             Some(&x) if x < 0 => c.iter().map(|v| -v).collect(),
@@ -103,6 +104,9 @@ fn merge_equal_charges(spectrum: &mut Spectrum) {
         }
     };
     let mut merged: Vec<BpsState> = Vec::with_capacity(spectrum.states.len());
+    // Per merged state, the street data of each of its webs (None when one
+    // has none).
+    let mut parts: Vec<Option<Vec<StreetData>>> = Vec::new();
     let mut counts: Vec<usize> = Vec::new();
     for s in std::mem::take(&mut spectrum.states) {
         let same = s.charge.as_ref().and_then(|c| {
@@ -118,25 +122,43 @@ fn merge_equal_charges(spectrum: &mut Spectrum) {
                 m.z_error = m.z_error.max(s.z_error);
                 m.kind = Kind::Other;
                 m.omega = None;
-                m.streets = None;
+                parts[k] = parts[k].take().zip(s.streets).map(|(mut v, d)| {
+                    v.push(d);
+                    v
+                });
                 counts[k] += 1;
             }
             None => {
-                merged.push(s);
+                parts.push(s.streets.clone().map(|d| vec![d]));
                 counts.push(1);
+                merged.push(s);
             }
         }
     }
-    for (m, &n) in merged.iter().zip(&counts) {
-        if n > 1 {
+    let scale = curve.length_scale();
+    for ((m, part), n) in merged.iter_mut().zip(parts).zip(counts) {
+        if n < 2 {
+            continue;
+        }
+        let data = part.map(|p| {
+            let refs: Vec<&StreetData> = p.iter().collect();
+            crate::solitons::merge(&refs, &m.web, scale)
+        });
+        // Read again once the twist is known (spectrum::twist); say now
+        // when the streets cannot decide.
+        if data
+            .as_ref()
+            .is_none_or(|d| matches!(crate::solitons::read(d), Reading::Neither(_)))
+        {
             spectrum.warnings.push(SpectrumWarning::new(
                 SpectrumWarningKind::IndexUnknownSameCharge,
                 format!(
-                    "{n} webs of one charge close at phase {:.6} (|Z| = {:.6}): listed as one state with index unknown (each web adds to it)",
+                    "{n} webs of one charge close at phase {:.6} (|Z| = {:.6}): listed as one state with index unknown (its streets do not give one index)",
                     m.phase, m.abs
                 ),
             ));
         }
+        m.streets = data;
     }
     spectrum.states = merged;
 }
@@ -204,7 +226,7 @@ pub fn assign_with(
         }
     }
     spectrum.states = kept;
-    merge_equal_charges(spectrum);
+    merge_equal_charges(curve, spectrum);
     if spectrum.states.len() != before {
         mismatched.retain(|(i, _)| *i < spectrum.states.len());
     }

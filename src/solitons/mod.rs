@@ -45,13 +45,17 @@ const TIGHT: f64 = 1e-3;
 /// Sample points along each polyline of a web, as fractions of its length.
 const SAMPLES: [f64; 3] = [0.3, 0.5, 0.7];
 
-/// One sampled point of a street: its series and how often the web covers
-/// the street there.
+/// One sampled point of a street: its series and how often the state's
+/// chain covers the street there, `covers / webs` times.
 #[derive(Clone, Debug, PartialEq)]
 pub struct StreetSample {
+    pub x: Complex64,
     /// `q[k]`: coefficient of `x^k`, x the class of the state.
     pub q: Vec<i128>,
+    /// Webs of the state through x (overlapping walls counted each time).
     pub covers: i64,
+    /// Webs the state is the average of (1 for one web; see [`merge`]).
+    pub webs: i64,
 }
 
 /// The soliton data of a web: a series at each usable sample point.
@@ -105,10 +109,11 @@ fn indices_under(data: &StreetData, twist: Twist) -> Result<Vec<i64>, String> {
                 })
                 .collect();
         let alpha = series::exponents(&q).map_err(|e| format!("{e:?}"))?;
-        // alpha_k = k Omega(k gamma) n_p.
+        // alpha_k = k Omega(k gamma) n_p, n_p = covers / webs.
         let mut omegas = Vec::with_capacity(alpha.len());
         for (k, &a) in alpha.iter().enumerate().skip(1) {
             let per = k as i64 * s.covers;
+            let a = a * s.webs;
             if a % per != 0 {
                 return Err(format!(
                     "a street's exponents {:?} are not multiples of its cover {}",
@@ -178,7 +183,12 @@ pub fn street_data(
             for net in sides {
                 data.tried += 1;
                 match series_at(curve, net, x, band, TIGHT * scale, abs, n) {
-                    Ok(s) => data.samples.push(StreetSample { q: s.q, covers }),
+                    Ok(s) => data.samples.push(StreetSample {
+                        x,
+                        q: s.q,
+                        covers,
+                        webs: 1,
+                    }),
                     Err(SampleError::CutBetween | SampleError::SeveralPairs) => {}
                     Err(e) => {
                         data.problem
@@ -189,6 +199,44 @@ pub fn street_data(
         }
     }
     data
+}
+
+/// The street data of one state made of several webs of one charge at one
+/// phase: every web is a chain of the class, `gamma = sum_p n_p(r) [p]`, so
+/// `gamma` is also their average, `sum_p (N_p / m) [p]` with `N_p` the
+/// webs' covers summed and m the number of webs, and `L(gamma) = Omega
+/// gamma` holds with `alpha(p) = Omega N_p / m` when the streets' exponents
+/// are proportional to the summed covers (checked at every sample, as for
+/// one web; where they are not, the readings disagree and the index stays
+/// unknown). `lines` are all the webs' polylines.
+pub fn merge(parts: &[&StreetData], lines: &[Vec<Complex64>], scale: f64) -> StreetData {
+    let webs = parts.len() as i64;
+    let mut out = StreetData {
+        complete_to: parts
+            .iter()
+            .map(|p| p.complete_to)
+            .fold(f64::INFINITY, f64::min),
+        ..StreetData::default()
+    };
+    for part in parts {
+        out.tried += part.tried;
+        if out.problem.is_none() {
+            out.problem.clone_from(&part.problem);
+        }
+        for s in &part.samples {
+            let covers = lines
+                .iter()
+                .filter(|l| to_line(l, s.x) <= 1e-9 * scale)
+                .count()
+                .max(1) as i64;
+            out.samples.push(StreetSample {
+                covers,
+                webs,
+                ..s.clone()
+            });
+        }
+    }
+    out
 }
 
 /// Point at fraction `f` of the arclength of `line`.
@@ -221,4 +269,59 @@ fn to_line(line: &[Complex64], x: Complex64) -> f64 {
             (w[0] + d * t - x).norm()
         })
         .fold(f64::INFINITY, f64::min)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn web_of(x: Complex64, q: Vec<i128>) -> StreetData {
+        StreetData {
+            samples: vec![StreetSample {
+                x,
+                q,
+                covers: 1,
+                webs: 1,
+            }],
+            complete_to: 10.0,
+            tried: 1,
+            problem: None,
+        }
+    }
+
+    /// One web with `Q = 1 - x` is a hypermultiplet; two webs of one charge
+    /// on streets apart from each other add (L = gamma + gamma = 2 gamma,
+    /// an even index, so both signs read whole); `1 - x^2` on a street of
+    /// the class would mean Omega(2 gamma) = 1/2 under either sign: refused.
+    #[test]
+    fn readings_of_one_and_of_two_webs() {
+        let c = |re: f64| Complex64::new(re, 0.0);
+        let a = web_of(c(0.0), vec![1, -1, 0]);
+        assert_eq!(read(&a), Reading::Unique(Twist::Keep, vec![1, 0]));
+        let b = web_of(c(5.0), vec![1, -1, 0]);
+        let lines = vec![vec![c(-1.0), c(1.0)], vec![c(4.0), c(6.0)]];
+        let both = merge(&[&a, &b], &lines, 1.0);
+        assert_eq!(both.samples.len(), 2);
+        assert!(both.samples.iter().all(|s| s.covers == 1 && s.webs == 2));
+        // An even index: both signs of the class give whole indices.
+        assert_eq!(
+            read(&both),
+            Reading::Either {
+                keep: vec![2, 0],
+                flip: vec![-2, 1]
+            }
+        );
+        // Overlapping webs cover the shared street twice: back to 1.
+        let shared = vec![vec![c(-1.0), c(1.0)], vec![c(-1.0), c(1.0)]];
+        let on_one = merge(&[&a, &a], &shared, 1.0);
+        assert_eq!(read(&on_one), Reading::Unique(Twist::Keep, vec![1, 0]));
+        // Streets that disagree leave it open.
+        let c2 = web_of(c(5.0), vec![1, 1, 1]);
+        assert!(matches!(
+            read(&merge(&[&a, &c2], &lines, 1.0)),
+            Reading::Neither(_)
+        ));
+        let d = web_of(c(0.0), vec![1, 0, -1]);
+        assert!(matches!(read(&d), Reading::Neither(_)));
+    }
 }

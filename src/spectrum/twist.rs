@@ -69,18 +69,37 @@ fn parity(charge: &[i64]) -> Option<u64> {
     })
 }
 
+/// Gives a state its index from its street reading; a state already known
+/// to be a vector multiplet (a ring domain) keeps its kind.
+fn set_index(state: &mut super::BpsState, omegas: &[i64]) {
+    state.omega = omegas.first().copied();
+    state.kind = match state.omega {
+        _ if state.kind == Kind::Vector => Kind::Vector,
+        Some(1) => Kind::Hyper,
+        Some(-2) => Kind::Vector,
+        _ => Kind::Other,
+    };
+}
+
 /// Decides the indices left open between two even values (see the module
 /// docs), and warns about those it cannot decide.
 pub(super) fn settle(spectrum: &mut Spectrum) {
     let mut chi = Gf2Character::default();
     let mut consistent = true;
     let mut open = Vec::new();
+    let mut decided = Vec::new();
     for (idx, s) in spectrum.states.iter().enumerate() {
         let Some(data) = &s.streets else { continue };
         let mask = s.charge.as_deref().and_then(parity);
         match (read(data), mask) {
-            (Reading::Unique(twist, _), Some(m)) => {
-                consistent &= chi.insert(m, twist == Twist::Flip);
+            (Reading::Unique(twist, omegas), m) => {
+                if let Some(m) = m {
+                    consistent &= chi.insert(m, twist == Twist::Flip);
+                }
+                // A state of several webs is read only once merged.
+                if s.omega.is_none() {
+                    decided.push((idx, omegas));
+                }
             }
             (Reading::Either { keep, flip }, m) if s.omega.is_none() => {
                 open.push((idx, m, keep, flip));
@@ -88,19 +107,14 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
             _ => {}
         }
     }
+    for (idx, omegas) in decided {
+        set_index(&mut spectrum.states[idx], &omegas);
+    }
     for (idx, mask, keep, flip) in open {
         let state = &mut spectrum.states[idx];
         let decided = mask.filter(|_| consistent).and_then(|m| chi.value(m));
         match decided {
-            Some(flipped) => {
-                let omegas = if flipped { flip } else { keep };
-                state.omega = omegas.first().copied();
-                state.kind = match state.omega {
-                    Some(1) => Kind::Hyper,
-                    Some(-2) => Kind::Vector,
-                    _ => Kind::Other,
-                };
-            }
+            Some(flipped) => set_index(state, if flipped { &flip } else { &keep }),
             None => spectrum.warnings.push(SpectrumWarning::new(
                 SpectrumWarningKind::IndexUnknownTwist,
                 format!(
