@@ -135,6 +135,14 @@ fn summarised(
     what: &str,
     rest: SpectrumWarningKind,
 ) -> Vec<SpectrumWarning> {
+    // Webs of one state (one charge at one phase) say the same thing: once.
+    let mut unique: Vec<SpectrumWarning> = Vec::with_capacity(notes.len());
+    for w in notes {
+        if !unique.contains(&w) {
+            unique.push(w);
+        }
+    }
+    let notes = unique;
     let n = notes.len();
     let mut out: Vec<SpectrumWarning> = notes.into_iter().take(NOTES_SHOWN).collect();
     if n > NOTES_SHOWN {

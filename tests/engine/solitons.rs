@@ -125,3 +125,29 @@ fn pure_su3_strong_coupling_streets_read_index_one() {
         );
     }
 }
+
+/// A state made of several webs of one charge (pure SU(3) at u = 1 + 0.05i,
+/// v = 0.5: four webs at |Z| = 15.179) is one state, and its webs' notes
+/// are said once: no warning is listed twice.
+#[test]
+fn webs_of_one_state_are_warned_about_once() {
+    let cv = curve_with(
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        &[("u", c(1.0, 0.05)), ("v", c(0.5, 0.0))],
+    );
+    let sp = spectrum(&cv, 20.0);
+    assert_self_check(&sp);
+    let heavy: Vec<_> = sp
+        .states
+        .iter()
+        .filter(|s| (s.abs - 15.1793).abs() < 1e-3)
+        .collect();
+    assert_eq!(heavy.len(), 1, "{:?}", sp.states);
+    assert!(heavy[0].web.len() >= 4, "its webs are drawn together");
+    for (i, a) in sp.warnings.iter().enumerate() {
+        for b in &sp.warnings[i + 1..] {
+            assert_ne!(a, b, "said twice: {}", a.message);
+        }
+    }
+    assert!(sp.warnings.iter().any(|w| w.kind.is_index_unknown()));
+}
