@@ -96,6 +96,18 @@ pub fn segment_crossing(
     }
 }
 
+/// Distance from `x` to the segment `a -> b`, and the fraction along it of
+/// the nearest point (0 for a segment of zero length).
+pub fn to_segment(a: Complex64, b: Complex64, x: Complex64) -> (f64, f64) {
+    let d = b - a;
+    let t = if d.norm_sqr() > 0.0 {
+        (((x - a) * d.conj()).re / d.norm_sqr()).clamp(0.0, 1.0)
+    } else {
+        0.0
+    };
+    ((a + d * t - x).norm(), t)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -94,8 +94,9 @@ fn state_charge(curve: &Curve, lat: &Lattice, s: &BpsState) -> Result<Charge, St
 
 /// A BPS index belongs to a charge: several webs of one charge (a
 /// symmetric curve's webs through different branch points, all closing at
-/// one phase) are one state, drawn with all its webs. Each web adds to the
-/// index, so it is unknown; a warning says how many webs there were.
+/// one phase) are one state, drawn with all its webs. Its index is read off
+/// the webs' streets together ([`crate::solitons::merge`]); a warning says
+/// how many webs there were when they do not give one.
 fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
     let canonical = |c: &[i64]| -> Vec<i64> {
         match c.iter().find(|&&x| x != 0) {
@@ -105,7 +106,7 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
     };
     let mut merged: Vec<BpsState> = Vec::with_capacity(spectrum.states.len());
     // Per merged state, the street data of each of its webs (None when one
-    // has none).
+    // has none), gathered only once a second web comes.
     let mut parts: Vec<Option<Vec<StreetData>>> = Vec::new();
     let mut counts: Vec<usize> = Vec::new();
     for s in std::mem::take(&mut spectrum.states) {
@@ -118,6 +119,9 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
         match same {
             Some(k) => {
                 let m = &mut merged[k];
+                if counts[k] == 1 {
+                    parts[k] = m.streets.take().map(|d| vec![d]);
+                }
                 m.web.extend(s.web);
                 m.z_error = m.z_error.max(s.z_error);
                 m.kind = Kind::Other;
@@ -129,7 +133,7 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
                 counts[k] += 1;
             }
             None => {
-                parts.push(s.streets.clone().map(|d| vec![d]));
+                parts.push(None);
                 counts.push(1);
                 merged.push(s);
             }

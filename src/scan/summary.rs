@@ -202,9 +202,7 @@ pub fn through_singular_points(
             }
             let (mut best, mut at) = (f64::INFINITY, 0);
             for (k, seg) in w.points.windows(2).enumerate() {
-                let (a, b) = (seg[0], seg[1]);
-                let t = ((sp.param - a) * (b - a).conj()).re / (b - a).norm_sqr().max(1e-300);
-                let d = (a + (b - a) * t.clamp(0.0, 1.0) - sp.param).norm();
+                let (d, _) = crate::geometry::to_segment(seg[0], seg[1], sp.param);
                 if d < best {
                     (best, at) = (d, k + 1);
                 }

@@ -259,15 +259,7 @@ fn along(line: &[Complex64], f: f64) -> Option<Complex64> {
 /// Distance from `x` to a polyline.
 fn to_line(line: &[Complex64], x: Complex64) -> f64 {
     line.windows(2)
-        .map(|w| {
-            let d = w[1] - w[0];
-            let t = if d.norm_sqr() > 0.0 {
-                (((x - w[0]) * d.conj()).re / d.norm_sqr()).clamp(0.0, 1.0)
-            } else {
-                0.0
-            };
-            (w[0] + d * t - x).norm()
-        })
+        .map(|w| crate::geometry::to_segment(w[0], w[1], x).0)
         .fold(f64::INFINITY, f64::min)
 }
 

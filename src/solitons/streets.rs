@@ -17,6 +17,7 @@
 //! reads `Q = 1 - x` for a hypermultiplet.
 
 use crate::curve::Curve;
+use crate::geometry::to_segment;
 use crate::network::Network;
 use crate::walls::WallType;
 use num_complex::Complex64;
@@ -46,17 +47,6 @@ pub enum SampleError {
     /// A closed class is not a whole multiple of the unit.
     NotAMultiple,
     Overflow,
-}
-
-/// Distance from `x` to the segment `a b`, and the fraction along it.
-fn to_segment(a: Complex64, b: Complex64, x: Complex64) -> (f64, f64) {
-    let d = b - a;
-    let t = if d.norm_sqr() > 0.0 {
-        (((x - a) * d.conj()).re / d.norm_sqr()).clamp(0.0, 1.0)
-    } else {
-        0.0
-    };
-    ((a + d * t - x).norm(), t)
 }
 
 /// Every pass of a wall of `net` within `band` of `x`: a run of consecutive

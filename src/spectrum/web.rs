@@ -433,15 +433,7 @@ fn pair_by_hint(roots: &[Complex64], hint: Complex64) -> Option<Pair> {
 
 /// Index of the segment of `points` nearest to `z`.
 fn nearest_segment(points: &[Complex64], z: Complex64) -> usize {
-    let dist = |a: Complex64, b: Complex64| {
-        let d = b - a;
-        let t = if d.norm_sqr() > 0.0 {
-            (((z - a) * d.conj()).re / d.norm_sqr()).clamp(0.0, 1.0)
-        } else {
-            0.0
-        };
-        (a + d * t - z).norm()
-    };
+    let dist = |a: Complex64, b: Complex64| crate::geometry::to_segment(a, b, z).0;
     (0..points.len().saturating_sub(1))
         .min_by(|&x, &y| dist(points[x], points[x + 1]).total_cmp(&dist(points[y], points[y + 1])))
         .unwrap_or(0)
