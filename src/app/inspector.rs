@@ -50,7 +50,16 @@ fn contents(ui: &mut egui::Ui, app: &WallflowerApp, it: &mut Interaction, out: &
         .default_open(true)
         .show(ui, |ui| {
             if net.joints.is_empty() {
-                ui.label(RichText::new("none: joints need three or more sheets").weak());
+                // A third sheet shows in the walls' types.
+                let three = net.walls.iter().any(|w| w.kind.i.max(w.kind.j) >= 2);
+                ui.label(
+                    RichText::new(if three {
+                        "none: no wall of type ij crosses one of type jk within the reach"
+                    } else {
+                        "none: joints need three or more sheets"
+                    })
+                    .weak(),
+                );
             }
             egui::Grid::new("joints").striped(true).show(ui, |ui| {
                 if !net.joints.is_empty() {
