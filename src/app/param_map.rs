@@ -153,6 +153,8 @@ impl ParamMap {
             let blank = PointStates {
                 param: Complex64::new(0.0, 0.0),
                 states: Vec::new(),
+                omegas: Vec::new(),
+                pairings: None,
                 usable: false,
             };
             self.data = Some(MapData {

@@ -26,7 +26,7 @@ use wallflower::algebra::parse_equation;
 use wallflower::export;
 use wallflower::scan::singular::branch_polynomial;
 use wallflower::scan::summary::{summarize, MapSummary};
-use wallflower::scan::walls::PointStates;
+use wallflower::scan::walls::{pairings_of, PointStates};
 use wallflower::scan::{self, Grid, PointResult, Shard};
 use wallflower::scenario::{Scenario, Theme};
 use wallflower::scene::param_map::{build_param_map, MapOptions};
@@ -147,6 +147,9 @@ struct PointLine {
     param: [f64; 2],
     states: Vec<super::spectrum::StateJson>,
     warnings: Vec<WarningJson>,
+    /// `<a, b>` of the lattice basis the charges are written in.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pairing: Option<Vec<Vec<i64>>>,
 }
 
 fn point_line(r: &PointResult, reach: f64) -> String {
@@ -155,6 +158,7 @@ fn point_line(r: &PointResult, reach: f64) -> String {
         param: [r.param.re, r.param.im],
         states: r.states.iter().map(|s| state_json(s, reach)).collect(),
         warnings: warnings_json(&r.warnings),
+        pairing: r.pairing.clone(),
     };
     let mut text = serde_json::to_string(&line).unwrap_or_default();
     text.push('\n');
@@ -457,6 +461,10 @@ fn read_points(path: &Path, grid: &Grid) -> anyhow::Result<Vec<PointStates>> {
     struct StateIn {
         z: [f64; 2],
         kind: String,
+        #[serde(default)]
+        omega: Option<i64>,
+        #[serde(default)]
+        charge: Option<Vec<i64>>,
     }
     /// A warning as written now, with its code, or as lines of maps
     /// written before warnings had codes carry it: the sentence alone.
@@ -482,6 +490,9 @@ fn read_points(path: &Path, grid: &Grid) -> anyhow::Result<Vec<PointStates>> {
         param: [f64; 2],
         states: Vec<StateIn>,
         warnings: Vec<WarningIn>,
+        /// Lines of maps written before it was recorded have none.
+        #[serde(default)]
+        pairing: Option<Vec<Vec<i64>>>,
     }
     let shown = path.display();
     let file = std::fs::File::open(path).with_context(|| format!("cannot read {shown}"))?;
@@ -500,6 +511,11 @@ fn read_points(path: &Path, grid: &Grid) -> anyhow::Result<Vec<PointStates>> {
             );
         }
         let usable = !parsed.warnings.iter().any(WarningIn::no_curve);
+        let pairings = parsed.pairing.as_ref().and_then(|m| {
+            let charges: Option<Vec<&Vec<i64>>> =
+                parsed.states.iter().map(|s| s.charge.as_ref()).collect();
+            pairings_of(&charges?, m)
+        });
         points.push(PointStates {
             param: Complex64::new(parsed.param[0], parsed.param[1]),
             states: parsed
@@ -514,6 +530,8 @@ fn read_points(path: &Path, grid: &Grid) -> anyhow::Result<Vec<PointStates>> {
                     (Complex64::new(s.z[0], s.z[1]), kind)
                 })
                 .collect(),
+            omegas: parsed.states.iter().map(|s| s.omega).collect(),
+            pairings,
             usable,
         });
     }

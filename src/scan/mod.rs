@@ -11,6 +11,7 @@
 //! finder whatever the number of threads, and results are handed over in
 //! grid order, the output of a parallel run equals a serial run's.
 
+pub mod carry;
 pub mod grid;
 pub mod singular;
 pub mod summary;
@@ -42,6 +43,9 @@ pub struct PointResult {
     /// The curve's notes and the finder's warnings; the reason when the
     /// curve could not be built (then `states` is empty).
     pub warnings: Vec<SpectrumWarning>,
+    /// `<a, b>` of the lattice basis the states' charges are written in
+    /// (`None` without a lattice).
+    pub pairing: Option<Vec<Vec<i64>>>,
     /// The finder was cancelled: the point must not be written.
     pub cancelled: bool,
 }
@@ -69,6 +73,7 @@ pub fn compute_point(
                 param,
                 states: found.states,
                 warnings,
+                pairing: found.lattice.map(|l| l.pairing),
                 cancelled: found.cancelled,
             }
         }
@@ -80,6 +85,7 @@ pub fn compute_point(
                 SpectrumWarningKind::NoCurve,
                 format!("no curve here: {e}"),
             )],
+            pairing: None,
             cancelled: cancel.is_cancelled(),
         },
     }

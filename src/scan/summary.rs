@@ -1,10 +1,10 @@
 //! What a map shows: the singular points, the walls of marginal stability
 //! and the chambers (connected regions of grid points with the same
-//! spectrum; until states carry charges, "the same spectrum" means the same
-//! numbers of hypermultiplets, vector multiplets and other states).
+//! spectrum: the same [`Signature`], which compares kinds, indices and the
+//! pairings between the states' charges).
 
 use super::singular::{classify, singular_points, BranchPolyAt, SingularPoint};
-use super::walls::{trace, MarginalWall, PointStates};
+use super::walls::{trace, MarginalWall, PointStates, Signature};
 use super::warning::{MapWarning, MapWarningKind};
 use super::{CurveAt, Grid};
 use crate::cancel::CancelToken;
@@ -16,10 +16,12 @@ use num_complex::Complex64;
 pub struct Chamber {
     /// Numbers of hypermultiplets, vector multiplets and other states.
     pub signature: [usize; 3],
+    /// The spectrum, as far as it tells chambers apart.
+    pub spectrum: Signature,
     pub n_states: usize,
     /// Grid points in the region.
     pub points: usize,
-    /// Chambers with equal signatures share this number (and a colour).
+    /// Chambers with equal spectra share this number (and a colour).
     pub class: usize,
     /// One grid point of the region.
     pub sample: Complex64,
@@ -36,11 +38,12 @@ pub struct MapSummary {
     pub warnings: Vec<MapWarning>,
 }
 
-/// Connected regions (through the four neighbours) of equal signature.
+/// Connected regions (through the four neighbours) of equal spectrum.
 pub fn chambers(grid: &Grid, points: &[PointStates]) -> (Vec<Chamber>, Vec<Option<usize>>) {
     let mut of: Vec<Option<usize>> = vec![None; points.len()];
     let mut out: Vec<Chamber> = Vec::new();
-    let mut classes: Vec<[usize; 3]> = Vec::new();
+    let mut classes: Vec<Signature> = Vec::new();
+    let sigs: Vec<Signature> = points.iter().map(PointStates::signature).collect();
     if points.len() != grid.len() {
         return (out, of);
     }
@@ -48,7 +51,7 @@ pub fn chambers(grid: &Grid, points: &[PointStates]) -> (Vec<Chamber>, Vec<Optio
         if of[start].is_some() || !points[start].usable {
             continue;
         }
-        let sig = points[start].signature();
+        let sig = &sigs[start];
         let id = out.len();
         let mut stack = vec![start];
         of[start] = Some(id);
@@ -70,19 +73,20 @@ pub fn chambers(grid: &Grid, points: &[PointStates]) -> (Vec<Chamber>, Vec<Optio
                 nbrs.push(idx + grid.n_re);
             }
             for n in nbrs {
-                if of[n].is_none() && points[n].usable && points[n].signature() == sig {
+                if of[n].is_none() && points[n].usable && sigs[n] == *sig {
                     of[n] = Some(id);
                     stack.push(n);
                 }
             }
         }
-        let class = classes.iter().position(|c| *c == sig).unwrap_or_else(|| {
-            classes.push(sig);
+        let class = classes.iter().position(|c| c == sig).unwrap_or_else(|| {
+            classes.push(sig.clone());
             classes.len() - 1
         });
         out.push(Chamber {
-            signature: sig,
-            n_states: sig.iter().sum(),
+            signature: sig.counts,
+            n_states: sig.counts.iter().sum(),
+            spectrum: sig.clone(),
             points: count,
             class,
             sample: points[start].param,
@@ -130,16 +134,7 @@ pub fn summarize(
         }
     };
     let (chambers, chamber_of) = chambers(grid, points);
-    let rank_two = curve_at(grid.point(0)).is_ok_and(|c| c.rank == 2);
-    let traced = if rank_two {
-        trace(grid, points, curve_at, settings, cancel)
-    } else {
-        warnings.push(MapWarning::new(
-            MapWarningKind::WallsUnsupported,
-            "walls of marginal stability are traced for rank-2 curves only: none shown",
-        ));
-        Default::default()
-    };
+    let traced = trace(grid, points, curve_at, settings, cancel);
     warnings.extend(traced.warnings);
     let walls = through_singular_points(traced.walls, &singular, grid);
     if !singular.is_empty() {

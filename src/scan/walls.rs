@@ -16,26 +16,23 @@
 //! the spectrum for another reason (a state crossing the reach) and carries
 //! no wall.
 //!
-//! The crossing is then refined on the edge by continuation: each state's
-//! cycle is its saddle connection (or closed trajectory) at the grid point,
-//! with its ends moved to the branch points at the new parameter value, and
-//! its Z is a direct quadrature of `2 sqrt(q) dz` along that path
-//! ([`crate::spectrum::period`]). The root of the alignment along the edge
-//! is found by the Illinois variant of regula falsi, so the traced points
-//! lie on the wall to the quadrature's accuracy, not on the grid.
-//! Consecutive crossings are joined through the grid cells (each cell
-//! crossed by a wall has two crossed edges) into polylines; between two
-//! crossings one more point is refined on the segment's perpendicular
-//! bisector, so the drawn curve has no grid staircase.
-//!
-//! Rank 2 only (the quadrature is that of `y^2 = q`).
+//! The crossing is then refined on the edge by continuation: the pair's
+//! central charges are carried from the grid point along the edge
+//! ([`super::carry`]: at rank 2 by quadrature along each state's own cycle,
+//! at rank 3 and up from its charge and the continued lattice basis). The
+//! root of the alignment along the edge is found by the Illinois variant of
+//! regula falsi, so the traced points lie on the wall to the quadrature's
+//! accuracy, not on the grid. Consecutive crossings are joined through the
+//! grid cells (each cell crossed by a wall has two crossed edges) into
+//! polylines; between two crossings one more point is refined on the
+//! segment's perpendicular bisector, so the drawn curve has no grid
+//! staircase.
 
+use super::carry::{Carried, PairAt};
 use super::warning::{MapWarning, MapWarningKind};
 use super::{CurveAt, Grid, PointResult};
 use crate::cancel::CancelToken;
-use crate::curve::Curve;
-use crate::spectrum::period::{continue_sign, Quadratic};
-use crate::spectrum::{self, BpsState, Kind, SpectrumSettings};
+use crate::spectrum::{self, Kind, SpectrumSettings};
 use num_complex::Complex64;
 use std::collections::HashMap;
 
@@ -45,15 +42,48 @@ pub struct PointStates {
     pub param: Complex64,
     /// Central charges and kinds of the states.
     pub states: Vec<(Complex64, Kind)>,
+    /// The index of each state (`None` where the engine could not decide).
+    pub omegas: Vec<Option<i64>>,
+    /// `<a, b>` for every two states, when each has a charge and the point
+    /// has a lattice.
+    pub pairings: Option<Vec<Vec<i64>>>,
     /// False where the curve could not be built or the finder gave up.
     pub usable: bool,
 }
 
+/// What tells two spectra apart with no common basis of charges: the
+/// multiset, over the states, of each state's kind, index and the multiset
+/// of its pairings with the others, up to sign. The charges at two
+/// parameter values are in bases that differ by a change of basis (a
+/// monodromy, once a singular point is encircled), which preserves all
+/// three; the sign goes because each state stands for a particle and its
+/// antiparticle, and which of `gamma, -gamma` is listed follows the phase
+/// convention of Z (its phase in [0, pi)), which flips where a Z crosses
+/// the real axis. So equal spectra always have equal signatures; unequal
+/// spectra with equal signatures would need a symmetry of the pairings
+/// that the states do not share.
+#[derive(Clone, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub struct Signature {
+    /// Numbers of hypermultiplets, vector multiplets and other states.
+    pub counts: [usize; 3],
+    /// Per state (sorted): kind (0, 1, 2 as in `counts`), index (`None`
+    /// unknown) and the sorted `|<a, b>|` with the other states (empty
+    /// when the pairings are not known).
+    pub states: Vec<(u8, Option<i64>, Vec<i64>)>,
+}
+
 impl From<&PointResult> for PointStates {
     fn from(r: &PointResult) -> Self {
+        let pairings = r.pairing.as_ref().and_then(|m| {
+            let charges: Option<Vec<&Vec<i64>>> =
+                r.states.iter().map(|s| s.charge.as_ref()).collect();
+            pairings_of(&charges?, m)
+        });
         Self {
             param: r.param,
             states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
+            omegas: r.states.iter().map(|s| s.omega).collect(),
+            pairings,
             usable: !r
                 .warnings
                 .iter()
@@ -62,12 +92,70 @@ impl From<&PointResult> for PointStates {
     }
 }
 
+/// `<a, b>` for every two of `charges` under the basis pairing `m` (None
+/// when a charge does not fit the basis or a value overflows).
+pub fn pairings_of(charges: &[&Vec<i64>], m: &[Vec<i64>]) -> Option<Vec<Vec<i64>>> {
+    let pair = |a: &[i64], b: &[i64]| -> Option<i64> {
+        if a.len() != m.len() || b.len() != m.len() {
+            return None;
+        }
+        let mut v = 0_i64;
+        for (i, x) in a.iter().enumerate() {
+            for (j, y) in b.iter().enumerate() {
+                v = v.checked_add(x.checked_mul(*y)?.checked_mul(*m[i].get(j)?)?)?;
+            }
+        }
+        Some(v)
+    };
+    charges
+        .iter()
+        .map(|a| charges.iter().map(|b| pair(a, b)).collect())
+        .collect()
+}
+
+fn kind_code(k: Kind) -> u8 {
+    match k {
+        Kind::Hyper => 0,
+        Kind::Vector => 1,
+        Kind::Other => 2,
+    }
+}
+
 impl PointStates {
-    /// The counts of hypermultiplets, vector multiplets and others: what
-    /// tells chambers apart until states carry charges.
-    pub fn signature(&self) -> [usize; 3] {
+    /// The counts of hypermultiplets, vector multiplets and others.
+    pub fn counts(&self) -> [usize; 3] {
         let count = |k: Kind| self.states.iter().filter(|s| s.1 == k).count();
         [count(Kind::Hyper), count(Kind::Vector), count(Kind::Other)]
+    }
+
+    /// What tells this point's spectrum from another's (see [`Signature`]).
+    pub fn signature(&self) -> Signature {
+        let mut states: Vec<(u8, Option<i64>, Vec<i64>)> = self
+            .states
+            .iter()
+            .enumerate()
+            .map(|(k, s)| {
+                let mut row: Vec<i64> = self
+                    .pairings
+                    .as_ref()
+                    .and_then(|m| m.get(k))
+                    .map(|r| {
+                        r.iter()
+                            .enumerate()
+                            .filter(|(j, _)| *j != k)
+                            .map(|(_, v)| v.abs())
+                            .collect()
+                    })
+                    .unwrap_or_default();
+                row.sort_unstable();
+                (kind_code(s.1), self.omegas.get(k).copied().flatten(), row)
+            })
+            .collect();
+        states.sort();
+        Signature {
+            counts: self.counts(),
+            states,
+        }
     }
 }
 
@@ -97,231 +185,29 @@ pub struct TraceReport {
 /// Most grid edges examined (each may cost a spectrum).
 const MAX_EDGES: usize = 20_000;
 
-/// The cycle of one state, to be carried to nearby parameter values.
-#[derive(Clone, Debug)]
-struct Cycle {
-    /// A path from a branch point to a branch point (saddle), or a closed
-    /// loop (ring).
-    path: Vec<Complex64>,
-    closed: bool,
-    /// Value of `2 sqrt q` at `path[1]` (saddle) or `path[0]` (loop) at
-    /// the grid point: fixes the sheet at nearby parameter values.
-    d_hint: Complex64,
-    /// Sign that makes the quadrature equal the state's Z at the grid point.
-    sign: f64,
-}
-
-fn nearest(points: &[Complex64], z: Complex64) -> Option<Complex64> {
-    points
-        .iter()
-        .copied()
-        .min_by(|a, b| (a - z).norm().total_cmp(&(b - z).norm()))
-}
-
-impl Cycle {
-    /// `Z` of the cycle on `curve` (the same curve or one nearby).
-    fn z_on(&self, curve: &Curve, quad: &Quadratic) -> Option<Complex64> {
-        let raw = if self.closed {
-            let mut d = continue_sign(quad.diff(self.path[0]), self.d_hint);
-            let mut total = Complex64::new(0.0, 0.0);
-            let mut closed = self.path.clone();
-            closed.push(self.path[0]);
-            for seg in closed.windows(2) {
-                let (part, next) = quad.segment(seg[0], seg[1], d);
-                total += part;
-                d = next;
-            }
-            total
-        } else {
-            let bps: Vec<Complex64> = curve.branch_points.iter().map(|b| b.z).collect();
-            let start = nearest(&bps, self.path[0])?;
-            let end = nearest(&bps, *self.path.last()?)?;
-            if (start - end).norm() == 0.0 {
-                return None;
-            }
-            // Both halves start at a branch point and meet in the middle,
-            // where their sheets are matched.
-            let inner = &self.path[1..self.path.len() - 1];
-            if inner.is_empty() {
-                return None;
-            }
-            let mid = inner.len() / 2;
-            let mut first: Vec<Complex64> = vec![start];
-            first.extend_from_slice(&inner[..=mid]);
-            let mut second: Vec<Complex64> = vec![end];
-            second.extend(inner[mid..].iter().rev());
-            let (i1, d1) = quad.polyline_from_branch_point(&first, self.d_hint);
-            let hint2 = quad.diff(second[1]);
-            let (i2, d2) = quad.polyline_from_branch_point(&second, hint2);
-            let i2 = if (d2 - d1).norm() <= (d2 + d1).norm() {
-                i2
-            } else {
-                -i2
-            };
-            i1 - i2
-        };
-        let z = raw * self.sign;
-        z.is_finite().then_some(z)
-    }
-
-    /// The cycle of `state` on `curve`, if its quadrature reproduces the
-    /// state's Z.
-    fn of_state(state: &BpsState, curve: &Curve, quad: &Quadratic) -> Option<Self> {
-        let path = state.web.first()?.clone();
-        let closed = state.kind == Kind::Vector;
-        if path.len() < 3 {
-            return None;
-        }
-        let probe = if closed { path[0] } else { path[1] };
-        let mut cycle = Self {
-            d_hint: quad.diff(probe),
-            path,
-            closed,
-            sign: 1.0,
-        };
-        let z = cycle.z_on(curve, quad)?;
-        let tol = 1e-6 * (1.0 + state.z.norm());
-        if (z - state.z).norm() <= tol {
-            Some(cycle)
-        } else if (z + state.z).norm() <= tol {
-            cycle.sign = -1.0;
-            Some(cycle)
-        } else {
-            None
-        }
-    }
-}
-
-/// The continued central charges of a pair of states at parameter values
-/// near the grid point they were found at.
-struct PairAt<'a> {
-    cycles: [Cycle; 2],
-    curve_at: &'a CurveAt<'a>,
-}
-
-impl PairAt<'_> {
-    fn zs(&self, p: Complex64) -> Option<[Complex64; 2]> {
-        let curve = (self.curve_at)(p).ok()?;
-        let quad = Quadratic::new(curve.quadratic_differential()?);
-        Some([
-            self.cycles[0].z_on(&curve, &quad)?,
-            self.cycles[1].z_on(&curve, &quad)?,
-        ])
-    }
-
-    /// The alignment `Im(Z_a conj Z_b) / (|Z_a| |Z_b|)` (the sine of the
-    /// angle between them).
-    fn alignment(&self, p: Complex64) -> Option<f64> {
-        let [a, b] = self.zs(p)?;
-        let s = (a * b.conj()).im / (a.norm() * b.norm());
-        s.is_finite().then_some(s)
-    }
-
-    /// The root of the alignment on the segment `from -> to` (where it has
-    /// opposite signs at the ends), to `tol` in the parameter.
-    fn root_on(&self, from: Complex64, to: Complex64, tol: f64) -> Option<Complex64> {
-        let at = |t: f64| from + (to - from) * t;
-        let (mut a, mut b) = (0.0_f64, 1.0_f64);
-        let (mut fa, mut fb) = (self.alignment(from)?, self.alignment(to)?);
-        if fa == 0.0 {
-            return Some(from);
-        }
-        if fb == 0.0 {
-            return Some(to);
-        }
-        if fa.signum() == fb.signum() {
-            return None;
-        }
-        let len = (to - from).norm().max(1e-300);
-        let mut side = 0;
-        for _ in 0..200 {
-            let c = (a * fb - b * fa) / (fb - fa);
-            let c = if c.is_finite() && c > a && c < b {
-                c
-            } else {
-                0.5 * (a + b)
-            };
-            let fc = self.alignment(at(c))?;
-            if fc == 0.0 {
-                return Some(at(c));
-            }
-            if fc.signum() == fa.signum() {
-                a = c;
-                fa = fc;
-                if side == -1 {
-                    fb *= 0.5;
-                }
-                side = -1;
-            } else {
-                b = c;
-                fb = fc;
-                if side == 1 {
-                    fa *= 0.5;
-                }
-                side = 1;
-            }
-            if (b - a) * len <= tol {
-                break;
-            }
-        }
-        ((b - a) * len <= 10.0 * tol).then(|| at(0.5 * (a + b)))
-    }
-}
-
-/// The states at a grid point whose cycles reproduce their Z, with the
-/// cycles.
-struct BaseCycles {
-    states: Vec<(Complex64, Cycle)>,
-    /// The charge of each state of `states`, when known.
-    charges: Vec<Option<Vec<i64>>>,
-}
-
-/// Recomputes the spectrum at `p` and keeps each state's cycle.
-fn cycles_of(
-    p: Complex64,
-    curve_at: &CurveAt<'_>,
-    settings: &SpectrumSettings,
-    cancel: &CancelToken,
-) -> Option<BaseCycles> {
-    let curve = curve_at(p).ok()?;
-    let quad = Quadratic::new(curve.quadratic_differential()?);
-    let found = spectrum::find(&curve, settings, cancel, &mut |_| {});
-    if found.cancelled {
-        return None;
-    }
-    let mut states = Vec::new();
-    let mut charges = Vec::new();
-    for s in &found.states {
-        if let Some(c) = Cycle::of_state(s, &curve, &quad) {
-            states.push((s.z, c));
-            charges.push(s.charge.clone());
-        }
-    }
-    Some(BaseCycles { states, charges })
-}
-
 fn sine(a: Complex64, b: Complex64) -> f64 {
     (a * b.conj()).im / (a.norm() * b.norm()).max(1e-300)
 }
 
 /// Among the states at one end of an edge (the side with fewer states),
 /// the lightest pair whose alignment changes sign on the way to `to`, with
-/// their cycles carried along the edge. A state counts only if its carried
-/// Z at `to` is one of the states found there (up to sign, to 1e-6): that
-/// both confirms the carried cycle and that the state exists on both sides.
+/// their central charges carried along the edge. A state counts only if
+/// its carried Z at `to` is one of the states found there (up to sign, to
+/// 1e-6): that both confirms the carrying and that the state exists on
+/// both sides. A pair whose charges are known and pair to zero is passed
+/// over: such states never bind, so their alignment changes nothing.
 fn binding_pair<'a>(
-    base: &BaseCycles,
+    base: &'a Carried,
     many: &PointStates,
     to: Complex64,
     curve_at: &'a CurveAt<'a>,
-) -> Option<((usize, usize), PairAt<'a>)> {
-    let curve = curve_at(to).ok()?;
-    let quad = Quadratic::new(curve.quadratic_differential()?);
+) -> Option<PairAt<'a>> {
+    let all: Vec<usize> = (0..base.len()).collect();
     let carried: Vec<Option<Complex64>> = base
-        .states
-        .iter()
-        .map(|(_, c)| {
-            let z = c.z_on(&curve, &quad)?;
+        .zs_at(&all, to, curve_at)
+        .into_iter()
+        .map(|z| {
+            let z = z?;
             many.states
                 .iter()
                 .any(|s| spectrum::same_up_to_sign(s.0, z, 1e-6))
@@ -329,12 +215,15 @@ fn binding_pair<'a>(
         })
         .collect();
     let mut best: Option<(usize, usize, f64)> = None;
-    for a in 0..base.states.len() {
-        for b in a + 1..base.states.len() {
+    for a in 0..base.len() {
+        for b in a + 1..base.len() {
             let (Some(wa), Some(wb)) = (carried[a], carried[b]) else {
                 continue;
             };
-            let (za, zb) = (base.states[a].0, base.states[b].0);
+            if base.pair(a, b) == Some(0) {
+                continue;
+            }
+            let (za, zb) = (base.z[a], base.z[b]);
             if sine(za, zb).signum() != sine(wa, wb).signum() {
                 let weight = za.norm() + zb.norm();
                 if best.is_none_or(|x| weight < x.2) {
@@ -344,13 +233,11 @@ fn binding_pair<'a>(
         }
     }
     let (a, b, _) = best?;
-    Some((
-        (a, b),
-        PairAt {
-            cycles: [base.states[a].1.clone(), base.states[b].1.clone()],
-            curve_at,
-        },
-    ))
+    Some(PairAt {
+        carried: base,
+        pair: (a, b),
+        curve_at,
+    })
 }
 
 /// A refined crossing on one grid edge.
@@ -392,7 +279,8 @@ pub fn trace(
             edges.push((2 * idx + 1, idx, idx + grid.n_re));
         }
     }
-    let mut cycles_at: HashMap<usize, Option<BaseCycles>> = HashMap::new();
+    let sigs: Vec<Signature> = points.iter().map(PointStates::signature).collect();
+    let mut cycles_at: HashMap<usize, Option<Carried>> = HashMap::new();
     let mut crossings: HashMap<usize, EdgeCrossing> = HashMap::new();
     let mut examined = 0;
     let mut unrefined = 0;
@@ -405,7 +293,7 @@ pub fn trace(
             break;
         }
         let (pi, pj) = (&points[i], &points[j]);
-        if !(pi.usable && pj.usable) || pi.signature() == pj.signature() {
+        if !(pi.usable && pj.usable) || sigs[i] == sigs[j] {
             continue;
         }
         examined += 1;
@@ -425,19 +313,20 @@ pub fn trace(
         };
         let entry = cycles_at
             .entry(few)
-            .or_insert_with(|| cycles_of(points[few].param, curve_at, settings, cancel));
+            .or_insert_with(|| Carried::at(points[few].param, curve_at, settings, cancel));
         let Some(base) = entry.as_ref() else {
             unrefined += 1;
             continue;
         };
         let (pf, pm) = (points[few].param, points[many].param);
-        let Some((pair, tracer)) = binding_pair(base, &points[many], pm, curve_at) else {
+        let Some(tracer) = binding_pair(base, &points[many], pm, curve_at) else {
             report.edges_without_wall += 1;
             continue;
         };
         match tracer.root_on(pf, pm, tol) {
             Some(z) => {
                 let pair_z = tracer.zs(z).unwrap_or([Complex64::new(0.0, 0.0); 2]);
+                let pair = tracer.pair;
                 let charges = match (&base.charges[pair.0], &base.charges[pair.1]) {
                     (Some(a), Some(b)) => Some([a.clone(), b.clone()]),
                     _ => None,
@@ -548,7 +437,18 @@ pub fn trace(
                 .and_then(|t| t.alignment(b.z))
                 .is_some_and(|s| s.abs() < 1e-6)
     };
-    join_across_gaps(&mut chains, &crossings, 4.0 * cell, &on_same_wall);
+    // An edge on the rectangle's border: a chain ending there leaves the
+    // map, and is not joined across a gap (on a small grid its two ends
+    // can be closer than the gap).
+    let exits = |edge: usize| {
+        let (col, row) = grid.col_row(edge / 2);
+        if edge % 2 == 0 {
+            row == 0 || row + 1 == grid.n_im
+        } else {
+            col == 0 || col + 1 == grid.n_re
+        }
+    };
+    join_across_gaps(&mut chains, &crossings, 4.0 * cell, &on_same_wall, &exits);
     // A lone crossing joined to nothing is noise of the finder near the
     // wall, not a wall.
     let lone = chains
@@ -611,28 +511,27 @@ fn same_pair(a: &EdgeCrossing, b: &EdgeCrossing) -> bool {
 /// The pair of a crossing, carried from its grid point.
 fn tracer_of<'a>(
     c: &EdgeCrossing,
-    cycles_at: &HashMap<usize, Option<BaseCycles>>,
+    cycles_at: &'a HashMap<usize, Option<Carried>>,
     curve_at: &'a CurveAt<'a>,
 ) -> Option<PairAt<'a>> {
-    let base = cycles_at.get(&c.base)?.as_ref()?;
-    Some(PairAt {
-        cycles: [
-            base.states.get(c.pair.0)?.1.clone(),
-            base.states.get(c.pair.1)?.1.clone(),
-        ],
+    let carried = cycles_at.get(&c.base)?.as_ref()?;
+    (c.pair.0.max(c.pair.1) < carried.len()).then_some(PairAt {
+        carried,
+        pair: c.pair,
         curve_at,
     })
 }
 
 /// Joins the ends of open chains (or closes one chain) where the grid
 /// missed a crossing or two: ends closer than `gap` that belong to the
-/// same pair of states, nearest first. Between them points are refined
-/// like everywhere else.
+/// same pair of states, nearest first, and not on the border (`exits`).
+/// Between them points are refined like everywhere else.
 fn join_across_gaps(
     chains: &mut Vec<(Vec<usize>, bool)>,
     crossings: &HashMap<usize, EdgeCrossing>,
     gap: f64,
     on_same_wall: &dyn Fn(&EdgeCrossing, &EdgeCrossing) -> bool,
+    exits: &dyn Fn(usize) -> bool,
 ) {
     let end = |chain: &[usize], e: usize| {
         if e == 0 {
@@ -653,8 +552,11 @@ fn join_across_gaps(
                         if i == j && (ei == ej || chains[i].0.len() < 4) {
                             continue;
                         }
-                        let a = &crossings[&end(&chains[i].0, ei)];
-                        let b = &crossings[&end(&chains[j].0, ej)];
+                        let (ea, eb) = (end(&chains[i].0, ei), end(&chains[j].0, ej));
+                        if exits(ea) || exits(eb) {
+                            continue;
+                        }
+                        let (a, b) = (&crossings[&ea], &crossings[&eb]);
                         let d = (a.z - b.z).norm();
                         if d <= gap && best.is_none_or(|x| d < x.0) && on_same_wall(a, b) {
                             best = Some((d, i, ei, j, ej));
@@ -689,7 +591,7 @@ fn point_between(
     c: &EdgeCrossing,
     d: &EdgeCrossing,
     at: Complex64,
-    cycles_at: &HashMap<usize, Option<BaseCycles>>,
+    cycles_at: &HashMap<usize, Option<Carried>>,
     curve_at: &CurveAt<'_>,
     spacing: [f64; 2],
     tol: f64,

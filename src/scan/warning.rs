@@ -36,7 +36,8 @@ pub enum MapWarningKind {
     SmoothCollision,
     /// The singular locus is not computed at this rank.
     SingularLocusUnsupported,
-    /// Walls of marginal stability are not traced at this rank.
+    /// Walls of marginal stability are not traced at this rank (no longer
+    /// said: every rank is traced; kept so that older map files read).
     WallsUnsupported,
     /// Grid points close to a singular point may be unreliable.
     NearSingularPoint,

@@ -9,6 +9,7 @@ use super::grid::grid_named;
 use super::palette::{chamber_color, theme_colors};
 use super::{Anchor, Item, Layer, Scene, Shape, Transform};
 use crate::scan::summary::MapSummary;
+use crate::scan::walls::Signature;
 use crate::scan::Grid;
 use crate::scenario::Theme;
 use num_complex::Complex64;
@@ -90,6 +91,38 @@ pub fn signature_label(sig: [usize; 3]) -> String {
     } else {
         parts.join(" + ")
     }
+}
+
+/// Legend labels of distinct chamber spectra: the counts, then the indices
+/// of the states that are not hypermultiplets or vector multiplets, then
+/// (where two spectra still read the same: their pairings differ) a
+/// variant number.
+pub fn chamber_labels(spectra: &[&Signature]) -> Vec<String> {
+    let mut labels: Vec<String> = spectra
+        .iter()
+        .map(|sig| {
+            let mut label = signature_label(sig.counts);
+            let others: Vec<String> = sig
+                .states
+                .iter()
+                .filter(|s| s.0 == 2)
+                .map(|s| s.1.map_or("?".to_string(), |o| o.to_string()))
+                .collect();
+            if !others.is_empty() {
+                label.push_str(&format!(" (\u{3a9} {})", others.join(", ")));
+            }
+            label
+        })
+        .collect();
+    let plain = labels.clone();
+    for k in 0..labels.len() {
+        let same: Vec<usize> = (0..plain.len()).filter(|&j| plain[j] == plain[k]).collect();
+        if same.len() > 1 {
+            let n = same.iter().position(|&j| j == k).unwrap_or(0) + 1;
+            labels[k] = format!("{}, variant {n}", plain[k]);
+        }
+    }
+    labels
 }
 
 /// Builds the figure of a map.
@@ -254,13 +287,14 @@ fn legend(summary: &MapSummary, opts: &MapOptions, s: f32) -> Vec<Shape> {
     let row_h = 1.45 * text_size;
     let pad = 0.7 * text_size;
     let swatch = 1.1 * text_size;
-    let mut classes: Vec<(usize, [usize; 3])> = Vec::new();
+    let mut classes: Vec<(usize, &Signature)> = Vec::new();
     for c in &summary.chambers {
         if !classes.iter().any(|(k, _)| *k == c.class) {
-            classes.push((c.class, c.signature));
+            classes.push((c.class, &c.spectrum));
         }
     }
     classes.sort_by_key(|(k, _)| *k);
+    let labels = chamber_labels(&classes.iter().map(|(_, s)| *s).collect::<Vec<_>>());
     enum Row {
         Chamber(usize, String),
         Wall,
@@ -268,7 +302,8 @@ fn legend(summary: &MapSummary, opts: &MapOptions, s: f32) -> Vec<Shape> {
     }
     let mut rows: Vec<Row> = classes
         .iter()
-        .map(|(k, sig)| Row::Chamber(*k, signature_label(*sig)))
+        .zip(labels)
+        .map(|((k, _), label)| Row::Chamber(*k, label))
         .collect();
     if !summary.walls.is_empty() {
         rows.push(Row::Wall);

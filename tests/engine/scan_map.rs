@@ -51,11 +51,7 @@ fn map_of(equation: &str, grid: Grid, reach: f64) -> (Vec<PointStates>, MapSumma
         2,
         &CancelToken::new(),
         &mut |r| {
-            points.push(PointStates {
-                param: r.param,
-                states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
-                usable: true,
-            });
+            points.push(PointStates::from(&r));
             true
         },
     );
