@@ -104,7 +104,10 @@ impl Carried {
 
     /// `<a, b>` of kept states `a` and `b`, when both charges are known.
     pub fn pair(&self, a: usize, b: usize) -> Option<i64> {
-        let (ca, cb) = (self.charges.get(a)?.as_ref()?, self.charges.get(b)?.as_ref()?);
+        let (ca, cb) = (
+            self.charges.get(a)?.as_ref()?,
+            self.charges.get(b)?.as_ref()?,
+        );
         let m = pairings_of(&[ca, cb], self.pairing.as_ref()?)?;
         Some(m[0][1])
     }

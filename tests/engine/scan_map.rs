@@ -10,7 +10,7 @@ use wallflower::algebra::parse_equation;
 use wallflower::scan::singular::branch_polynomial;
 use wallflower::scan::summary::{summarize, MapSummary};
 use wallflower::scan::walls::PointStates;
-use wallflower::scan::{self, Grid};
+use wallflower::scan::{self, Grid, PointResult};
 use wallflower::scenario::Scenario;
 use wallflower::spectrum::{Kind, SpectrumSettings};
 use wallflower::CancelToken;
@@ -21,10 +21,27 @@ fn c(re: f64, im: f64) -> Complex64 {
 
 /// Scans `equation` over `grid` (2 threads) and builds its map.
 fn map_of(equation: &str, grid: Grid, reach: f64) -> (Vec<PointStates>, MapSummary) {
+    let (results, summary) = map_with(equation, &[], grid, reach);
+    (results.iter().map(PointStates::from).collect(), summary)
+}
+
+/// [`map_of`] with other parameters held at `fixed`; the grid points' full
+/// results.
+fn map_with(
+    equation: &str,
+    fixed: &[(&str, Complex64)],
+    grid: Grid,
+    reach: f64,
+) -> (Vec<PointResult>, MapSummary) {
+    let mut params: std::collections::BTreeMap<String, [f64; 2]> =
+        [("u".to_string(), [0.0, 0.0])].into_iter().collect();
+    for (name, v) in fixed {
+        params.insert(name.to_string(), [v.re, v.im]);
+    }
     let scenario = Scenario {
         curve: Some(equation.to_string()),
         quadratic: None,
-        params: [("u".to_string(), [0.0, 0.0])].into_iter().collect(),
+        params: params.clone().into_iter().collect(),
         ..Scenario::default()
     };
     let curve_at = |p: Complex64| {
@@ -34,7 +51,11 @@ fn map_of(equation: &str, grid: Grid, reach: f64) -> (Vec<PointStates>, MapSumma
     };
     let eq = parse_equation(equation).expect("equation");
     let poly_at = |p: Complex64| {
-        let values = [("u".to_string(), p)].into_iter().collect();
+        let mut values: std::collections::BTreeMap<String, Complex64> = params
+            .iter()
+            .map(|(k, v)| (k.clone(), Complex64::new(v[0], v[1])))
+            .collect();
+        values.insert("u".to_string(), p);
         branch_polynomial(&eq.evaluate(&values).ok()?)
     };
     let settings = SpectrumSettings {
@@ -42,7 +63,7 @@ fn map_of(equation: &str, grid: Grid, reach: f64) -> (Vec<PointStates>, MapSumma
         ..SpectrumSettings::default()
     };
     let indices: Vec<usize> = (0..grid.len()).collect();
-    let mut points = Vec::new();
+    let mut results = Vec::new();
     let outcome = scan::run(
         &grid,
         &indices,
@@ -51,11 +72,12 @@ fn map_of(equation: &str, grid: Grid, reach: f64) -> (Vec<PointStates>, MapSumma
         2,
         &CancelToken::new(),
         &mut |r| {
-            points.push(PointStates::from(&r));
+            results.push(r);
             true
         },
     );
     assert!(!outcome.stopped);
+    let points: Vec<PointStates> = results.iter().map(PointStates::from).collect();
     let summary = summarize(
         &grid,
         &points,
@@ -64,7 +86,7 @@ fn map_of(equation: &str, grid: Grid, reach: f64) -> (Vec<PointStates>, MapSumma
         &settings,
         &CancelToken::new(),
     );
-    (points, summary)
+    (results, summary)
 }
 
 /// `2 sqrt(q)` integrated once around the ellipse with foci `f1`, `f2`
@@ -505,4 +527,116 @@ fn rank_three_collisions_are_classified_by_the_local_model() {
     assert!((singular[0].param.re - u_s).abs() < 1e-12);
     assert_eq!(smooth.len(), 1, "{smooth:?}");
     assert_eq!(smooth[0].param, Complex64::new(0.0, 0.0));
+}
+
+/// The smallest `|sin(arg Z_a - arg Z_b)|` over the pairs of `states`
+/// lighter than `below`.
+fn closest_alignment(states: &[(Complex64, Kind)], below: f64) -> f64 {
+    let light: Vec<Complex64> = states
+        .iter()
+        .map(|s| s.0)
+        .filter(|z| z.norm() < below)
+        .collect();
+    let mut best = f64::INFINITY;
+    for (k, a) in light.iter().enumerate() {
+        for b in &light[k + 1..] {
+            best = best.min(((a * b.conj()).im / (a.norm() * b.norm())).abs());
+        }
+    }
+    best
+}
+
+/// Pure SU(3) (`y^3 + u y / z^2 + (1 + v z + z^2) / z^4`, v held at
+/// 0.4 - 0.1i) across the wall where its two lightest hypermultiplets
+/// align. Rank 3, so the wall is traced from the states' charges with the
+/// lattice basis continued along each grid edge. Checked against the
+/// spectrum finder itself at the traced points (Z from the webs, not from
+/// the lattice periods): two states are aligned there. And the pentagon
+/// (Kontsevich-Soibelman 2008; section 8 of the mathematics notes): the
+/// pair has <a, b> = +-1, and their bound state a + b exists on one side
+/// of the wall only.
+#[test]
+fn pure_su3_map_traces_the_wall_of_its_two_lightest_hypers_from_their_charges() {
+    let grid = Grid {
+        re: [2.45, 2.62],
+        im: [0.1, 0.3],
+        n_re: 4,
+        n_im: 3,
+    };
+    let equation = "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0";
+    let v = c(0.4, -0.1);
+    let (results, map) = map_with(equation, &[("v", v)], grid, 20.0);
+
+    assert_eq!(map.walls.len(), 1, "{:?}", map.walls);
+    let wall = &map.walls[0];
+    assert!(!wall.closed, "it runs across the map");
+    assert!(wall.points.len() >= 5, "refined: {:?}", wall.points);
+    let pairing = results[0].pairing.clone().expect("a lattice");
+    assert!(results.iter().all(|r| r.pairing.as_ref() == Some(&pairing)));
+    let [a, b] = wall.charges.clone().expect("charges");
+    let pair = wallflower::scan::walls::pairings_of(&[&a, &b], &pairing).expect("pairing")[0][1];
+    assert_eq!(pair.abs(), 1, "a pentagon pair: {a:?}, {b:?}");
+
+    // At the traced points the finder's own spectrum has two aligned
+    // states; at the grid points, none closer than 1e-3.
+    let settings = SpectrumSettings {
+        reach: 20.0,
+        ..SpectrumSettings::default()
+    };
+    let curve_at = |u: Complex64| {
+        let sc = Scenario {
+            curve: Some(equation.to_string()),
+            quadratic: None,
+            params: [
+                ("u".to_string(), [u.re, u.im]),
+                ("v".to_string(), [v.re, v.im]),
+            ]
+            .into_iter()
+            .collect(),
+            ..Scenario::default()
+        };
+        sc.build_curve().expect("curve")
+    };
+    for &p in [wall.points[0], wall.points[wall.points.len() / 2]].iter() {
+        let found =
+            wallflower::spectrum::find(&curve_at(p), &settings, &CancelToken::new(), &mut |_| {});
+        let states: Vec<(Complex64, Kind)> = found.states.iter().map(|s| (s.z, s.kind)).collect();
+        let s = closest_alignment(&states, 6.0);
+        assert!(s < 1e-7, "at {p}: the closest pair is {s:e} from aligned");
+    }
+    for r in &results {
+        let states: Vec<(Complex64, Kind)> = r.states.iter().map(|s| (s.z, s.kind)).collect();
+        assert!(closest_alignment(&states, 6.0) > 1e-3, "at {}", r.param);
+    }
+
+    // The bound state: on the side of smaller Re u (the wall runs near
+    // Re u = 2.53) the two lightest states a, b have a state of charge
+    // a + b with Z_a + Z_b; beyond it no state has Z_a +- Z_b.
+    let mut bound_side = 0;
+    let mut other_side = 0;
+    for r in &results {
+        let (sa, sb) = (&r.states[0], &r.states[1]);
+        let (ca, cb) = (
+            sa.charge.clone().expect("charge"),
+            sb.charge.clone().expect("charge"),
+        );
+        let sum: Vec<i64> = ca.iter().zip(&cb).map(|(x, y)| x + y).collect();
+        let has = |z: Complex64| {
+            r.states
+                .iter()
+                .any(|s| (s.z - z).norm().min((s.z + z).norm()) < 1e-6 * (1.0 + z.norm()))
+        };
+        if r.param.re < 2.51 {
+            bound_side += 1;
+            let bound = r.states.iter().find(|s| s.charge.as_ref() == Some(&sum));
+            let bound =
+                bound.unwrap_or_else(|| panic!("at {}: no state of charge {sum:?}", r.param));
+            assert!((bound.z - (sa.z + sb.z)).norm() < 1e-6, "at {}", r.param);
+            assert_eq!(bound.omega, Some(1));
+        } else if r.param.re > 2.55 {
+            other_side += 1;
+            assert!(!has(sa.z + sb.z) && !has(sa.z - sb.z), "at {}", r.param);
+        }
+    }
+    assert_eq!((bound_side, other_side), (6, 6));
 }
