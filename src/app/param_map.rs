@@ -154,6 +154,7 @@ impl ParamMap {
                 param: Complex64::new(0.0, 0.0),
                 states: Vec::new(),
                 omegas: Vec::new(),
+                charges: Vec::new(),
                 pairings: None,
                 usable: false,
             };

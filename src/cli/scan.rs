@@ -531,6 +531,7 @@ fn read_points(path: &Path, grid: &Grid) -> anyhow::Result<Vec<PointStates>> {
                 })
                 .collect(),
             omegas: parsed.states.iter().map(|s| s.omega).collect(),
+            charges: parsed.states.iter().map(|s| s.charge.clone()).collect(),
             pairings,
             usable,
         });

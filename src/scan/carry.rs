@@ -17,7 +17,7 @@
 //! Either way a state is kept only if its carried Z at the grid point
 //! itself reproduces the finder's Z, so what is carried is that state.
 
-use super::walls::pairings_of;
+use super::walls::{pairings_of, PointStates};
 use super::CurveAt;
 use crate::cancel::CancelToken;
 use crate::charges::{Charge, Lattice, Z_CHECK};
@@ -48,49 +48,71 @@ enum How {
 }
 
 impl Carried {
-    /// Recomputes the spectrum at `p` and keeps what carries each state.
+    /// What carries the states of grid point `point`. At rank 2 the
+    /// spectrum is recomputed there for the states' paths (a map read
+    /// back from its file keeps only their Z); at rank 3 and up the
+    /// charges the point already has are enough, with the lattice rebuilt
+    /// (the same curve gives the same basis, which the check of each Z
+    /// against its charge's period confirms).
     pub fn at(
-        p: Complex64,
+        point: &PointStates,
         curve_at: &CurveAt<'_>,
         settings: &SpectrumSettings,
         cancel: &CancelToken,
     ) -> Option<Self> {
+        let p = point.param;
         let curve = curve_at(p).ok()?;
-        let found = spectrum::find(&curve, settings, cancel, &mut |_| {});
-        if found.cancelled {
-            return None;
+        if curve.rank == 2 {
+            return Self::by_cycles(&curve, p, settings, cancel);
         }
-        let pairing = found.lattice.as_ref().map(|l| l.pairing.clone());
+        let lattice = Lattice::new(&curve).ok()?;
         let (mut z, mut charges) = (Vec::new(), Vec::new());
-        let how = if curve.rank == 2 {
-            let quad = Quadratic::new(curve.quadratic_differential()?);
-            let mut cycles = Vec::new();
-            for s in &found.states {
-                if let Some(c) = Cycle::of_state(s, &curve, &quad) {
-                    z.push(s.z);
-                    charges.push(s.charge.clone());
-                    cycles.push(c);
-                }
+        for (s, c) in point.states.iter().zip(&point.charges) {
+            let Some(c) = c else { continue };
+            if c.len() != lattice.rank() {
+                continue;
             }
-            How::Cycles(cycles)
-        } else {
-            let lattice = Lattice::new(&curve).ok()?;
-            for s in &found.states {
-                let Some(c) = &s.charge else { continue };
-                let tol = 1e3 * Z_CHECK * (1.0 + s.z.norm());
-                if (lattice.central_charge(c) - s.z).norm() <= tol {
-                    z.push(s.z);
-                    charges.push(Some(c.clone()));
-                }
+            let tol = 1e3 * Z_CHECK * (1.0 + s.0.norm());
+            if (lattice.central_charge(c) - s.0).norm() <= tol {
+                z.push(s.0);
+                charges.push(Some(c.clone()));
             }
-            How::Charges(Box::new(lattice))
-        };
+        }
         Some(Self {
             param: p,
             z,
             charges,
-            pairing,
-            how,
+            pairing: Some(lattice.pairing.clone()),
+            how: How::Charges(Box::new(lattice)),
+        })
+    }
+
+    /// Rank 2: the spectrum at `p` again, with each state's cycle.
+    fn by_cycles(
+        curve: &Curve,
+        p: Complex64,
+        settings: &SpectrumSettings,
+        cancel: &CancelToken,
+    ) -> Option<Self> {
+        let found = spectrum::find(curve, settings, cancel, &mut |_| {});
+        if found.cancelled {
+            return None;
+        }
+        let quad = Quadratic::new(curve.quadratic_differential()?);
+        let (mut z, mut charges, mut cycles) = (Vec::new(), Vec::new(), Vec::new());
+        for s in &found.states {
+            if let Some(c) = Cycle::of_state(s, curve, &quad) {
+                z.push(s.z);
+                charges.push(s.charge.clone());
+                cycles.push(c);
+            }
+        }
+        Some(Self {
+            param: p,
+            z,
+            charges,
+            pairing: found.lattice.map(|l| l.pairing),
+            how: How::Cycles(cycles),
         })
     }
 

@@ -44,6 +44,8 @@ pub struct PointStates {
     pub states: Vec<(Complex64, Kind)>,
     /// The index of each state (`None` where the engine could not decide).
     pub omegas: Vec<Option<i64>>,
+    /// The charge of each state (`None` where it has none).
+    pub charges: Vec<Option<Vec<i64>>>,
     /// `<a, b>` for every two states, when each has a charge and the point
     /// has a lattice.
     pub pairings: Option<Vec<Vec<i64>>>,
@@ -83,6 +85,7 @@ impl From<&PointResult> for PointStates {
             param: r.param,
             states: r.states.iter().map(|s| (s.z, s.kind)).collect(),
             omegas: r.states.iter().map(|s| s.omega).collect(),
+            charges: r.states.iter().map(|s| s.charge.clone()).collect(),
             pairings,
             usable: !r
                 .warnings
@@ -313,7 +316,7 @@ pub fn trace(
         };
         let entry = cycles_at
             .entry(few)
-            .or_insert_with(|| Carried::at(points[few].param, curve_at, settings, cancel));
+            .or_insert_with(|| Carried::at(&points[few], curve_at, settings, cancel));
         let Some(base) = entry.as_ref() else {
             unrefined += 1;
             continue;
