@@ -24,8 +24,10 @@ use eframe::egui;
 use num_complex::Complex64;
 use std::sync::Arc;
 
-/// Grid points each way.
+/// Grid points each way (rank 2; a rank-3 spectrum costs about 100 times
+/// more, so its map is coarser: about 2.5 minutes on one core).
 const MAP_POINTS: usize = 21;
+const MAP_POINTS_HIGHER_RANK: usize = 11;
 /// Half the side of the mapped square, in parameter units.
 const MAP_HALF_SIDE: f64 = 2.0;
 /// Side of the view in pixels.
@@ -132,11 +134,15 @@ impl ParamMap {
                 self.centre.unwrap_or(value)
             };
             self.centre = Some(centre);
+            let n = match scenario.build_curve() {
+                Ok(c) if c.rank > 2 => MAP_POINTS_HIGHER_RANK,
+                _ => MAP_POINTS,
+            };
             let grid = Grid {
                 re: [centre.re - MAP_HALF_SIDE, centre.re + MAP_HALF_SIDE],
                 im: [centre.im - MAP_HALF_SIDE, centre.im + MAP_HALF_SIDE],
-                n_re: MAP_POINTS,
-                n_im: MAP_POINTS,
+                n_re: n,
+                n_im: n,
             };
             let job = self
                 .job
@@ -187,7 +193,7 @@ fn job_key(scenario: &Scenario, param: &str) -> String {
     sc.to_ron()
 }
 
-/// The scan, on the map's worker: singular points (rank 2), the states at
+/// The scan, on the map's worker: singular points (ranks 2 and 3), the states at
 /// every grid point (one thread, so the network worker keeps a core), then
 /// the walls of marginal stability traced between them.
 fn scan_map(
@@ -216,8 +222,6 @@ fn scan_map(
         values.insert(name.clone(), p);
         branch_polynomial(&equation.as_ref()?.evaluate(&values).ok()?)
     };
-    // Walls are traced at rank 2 only; the singular locus at ranks 2 and 3.
-    let rank_two = curve_at(grid.point(0)).is_ok_and(|c| c.rank == 2);
     if poly_at(grid.point(0)).is_some() {
         let (singular, _smooth) = classify(singular_points(grid, &poly_at, token), &curve_at);
         progress(Update::Singular(singular));
@@ -229,7 +233,7 @@ fn scan_map(
         points.push(p.clone());
         progress(Update::Point(r.index, p))
     });
-    if outcome.stopped || !rank_two {
+    if outcome.stopped {
         return Ok(Arc::new(Vec::new()));
     }
     let map = summarize(grid, &points, &curve_at, Some(&poly_at), &settings, token);
