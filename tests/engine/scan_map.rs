@@ -640,3 +640,47 @@ fn pure_su3_map_traces_the_wall_of_its_two_lightest_hypers_from_their_charges() 
     }
     assert_eq!((bound_side, other_side), (6, 6));
 }
+
+/// The chamber signature compares spectra whose charges are written in
+/// different bases: a change of basis (charges c -> c T, pairing
+/// M -> T^-1 M T^-T, so that pairings of states are unchanged) and listing
+/// a state's antiparticle instead (c -> -c) leave it as it is; a different
+/// pairing between the states (the same counts and indices) changes it.
+/// A fact of linear algebra: <cT, dT>_(T^-1 M T^-T) = c M d^T.
+#[test]
+fn chamber_signature_ignores_the_basis_and_sees_the_pairings() {
+    let m = vec![vec![0, 1], vec![-1, 0]];
+    let point = |charges: Vec<Vec<i64>>, m: &[Vec<i64>], omegas: Vec<Option<i64>>| {
+        let refs: Vec<&Vec<i64>> = charges.iter().collect();
+        PointStates {
+            param: c(0.0, 0.0),
+            states: charges.iter().map(|_| (c(1.0, 0.0), Kind::Hyper)).collect(),
+            omegas,
+            pairings: wallflower::scan::walls::pairings_of(&refs, m),
+            charges: charges.iter().cloned().map(Some).collect(),
+            usable: true,
+        }
+    };
+    let ones = vec![Some(1); 3];
+    // The pentagon's three states g1, g2, g1 + g2.
+    let a = point(vec![vec![1, 0], vec![0, 1], vec![1, 1]], &m, ones.clone());
+    // In the basis e1' = e1 + e2, e2' = e2 (T = [[1, 0], [-1, 1]] maps old
+    // coordinates to new): g1 = e1' - e2', g2 = e2', g1 + g2 = e1'. The
+    // pairing <e1', e2'> = <e1, e2> = 1 is unchanged in this case; and one
+    // state is listed as its antiparticle.
+    let b = point(vec![vec![1, -1], vec![0, -1], vec![1, 0]], &m, ones.clone());
+    assert_eq!(a.signature(), b.signature());
+    // Three states with the same counts and indices but pairings 2, 2, 0
+    // (an SU(2)-like triple) are another spectrum.
+    let su2 = vec![vec![0, 2], vec![-2, 0]];
+    let d = point(vec![vec![1, 0], vec![0, 1], vec![1, 1]], &su2, ones);
+    assert_ne!(a.signature(), d.signature());
+    assert_eq!(a.signature().counts, d.signature().counts);
+    // An unknown index is a difference too.
+    let e = point(
+        vec![vec![1, 0], vec![0, 1], vec![1, 1]],
+        &m,
+        vec![Some(1), Some(1), None],
+    );
+    assert_ne!(a.signature(), e.signature());
+}
