@@ -160,7 +160,7 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
                     "{n} webs of one charge close at phase {:.6} (|Z| = {:.6}): listed as one state with index unknown (its streets do not give one index)",
                     m.phase, m.abs
                 ),
-            ));
+            ).about(m.abs, m.phase));
         }
         m.streets = data;
     }

@@ -310,10 +310,30 @@ pub fn find(
         crate::charges::assign_with(&lattice, curve, &mut spectrum);
         twist::settle(&mut spectrum);
         twist::warn_aligned(&mut spectrum);
+        drop_decided(&mut spectrum);
     }
     split_massless(curve, &mut spectrum);
     limit::to_singular_limit(curve, &mut spectrum);
     spectrum
+}
+
+/// Drops the warnings that a state's index is unknown once a later stage
+/// (the merge of webs of one charge, the sign of the class) has decided
+/// it: the list and the warnings must not contradict each other.
+fn drop_decided(spectrum: &mut Spectrum) {
+    let decided: Vec<(f64, f64)> = spectrum
+        .states
+        .iter()
+        .filter(|s| s.omega.is_some())
+        .map(|s| (s.abs, s.phase))
+        .collect();
+    let same = |a: (f64, f64), b: (f64, f64)| {
+        (a.0 - b.0).abs() <= 1e-9 * (1.0 + a.0) && (a.1 - b.1).abs() <= 1e-9
+    };
+    spectrum.warnings.retain(|w| {
+        let about_decided = w.about.is_some_and(|a| decided.iter().any(|&d| same(a, d)));
+        !(w.kind.is_index_unknown() && about_decided)
+    });
 }
 
 /// The central charge of a cycle that vanishes at a resolved singular

@@ -11,6 +11,11 @@ use std::fmt;
 pub struct SpectrumWarning {
     pub kind: SpectrumWarningKind,
     pub message: String,
+    /// `(|Z|, phase)` of the state the warning is about, if one: a later
+    /// stage that decides the state's index drops the warning that said
+    /// it was unknown.
+    #[serde(skip)]
+    pub about: Option<(f64, f64)>,
 }
 
 impl SpectrumWarning {
@@ -18,7 +23,14 @@ impl SpectrumWarning {
         Self {
             kind,
             message: message.into(),
+            about: None,
         }
+    }
+
+    /// The warning is about the state of `|Z| = abs` at `phase`.
+    pub fn about(mut self, abs: f64, phase: f64) -> Self {
+        self.about = Some((abs, phase));
+        self
     }
 }
 

@@ -796,7 +796,8 @@ impl<'a> WebFinder<'a> {
                                 state.phase,
                                 why.join("; ")
                             ),
-                        ),
+                        )
+                        .about(state.abs, state.phase),
                     ));
                 }
                 self.states.push(state);
