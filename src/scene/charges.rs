@@ -131,16 +131,16 @@ fn marker(kind: Kind, center: [f32; 2], r: f32, color: Rgba, filled: bool, bg: R
     }
 }
 
-/// The label of a state: kind letter and index ("H  Ω=1").
+/// The label of a state: kind letter and index ("H  Ω=1"); a state that
+/// is neither kind shows its index alone ("Ω=2", or "Ω=?" when unknown).
 pub fn state_label(st: &BpsState) -> String {
-    let letter = match st.kind {
-        Kind::Hyper => "H",
-        Kind::Vector => "V",
-        Kind::Other => "?",
-    };
-    match st.omega {
-        Some(o) => format!("{letter} \u{3a9}={o}"),
-        None => format!("{letter} \u{3a9}=?"),
+    let index = st
+        .omega
+        .map_or("\u{3a9}=?".to_string(), |o| format!("\u{3a9}={o}"));
+    match st.kind {
+        Kind::Hyper => format!("H {index}"),
+        Kind::Vector => format!("V {index}"),
+        Kind::Other => index,
     }
 }
 
@@ -341,10 +341,22 @@ fn legend(states: &[&BpsState], opts: &ChargeOptions, s: f32) -> Vec<Shape> {
     let pad = 0.7 * text_size;
     let r = 5.0 * s;
     let mut rows: Vec<(Kind, bool, String)> = Vec::new();
+    let others: Vec<Option<i64>> = states
+        .iter()
+        .filter(|st| st.kind == Kind::Other)
+        .map(|st| st.omega)
+        .collect();
+    let other_name = if others.iter().all(Option::is_none) {
+        "index unknown"
+    } else if others.iter().all(Option::is_some) {
+        "other index (as labelled)"
+    } else {
+        "other or unknown index"
+    };
     for (kind, name) in [
         (Kind::Hyper, "hypermultiplet (\u{3a9} = 1)"),
         (Kind::Vector, "vector multiplet (\u{3a9} = \u{2212}2)"),
-        (Kind::Other, "index unknown"),
+        (Kind::Other, other_name),
     ] {
         if states.iter().any(|st| st.kind == kind) {
             rows.push((kind, true, name.to_string()));
