@@ -138,7 +138,10 @@ fn summarised(
     // Webs of one state (one charge at one phase) say the same thing: once.
     let mut unique: Vec<SpectrumWarning> = Vec::with_capacity(notes.len());
     for w in notes {
-        if !unique.contains(&w) {
+        if !unique
+            .iter()
+            .any(|u| u.kind == w.kind && u.message == w.message)
+        {
             unique.push(w);
         }
     }
