@@ -285,14 +285,21 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
             } else {
                 [left, right, above, below]
             };
-            let free = sides
-                .into_iter()
-                .map(|[x0, y0]| [x0, y0, x0 + w, y0 + h])
-                .find(|rect| {
-                    !placed.iter().any(|o| {
-                        rect[0] < o[2] && o[0] < rect[2] && rect[1] < o[3] && o[1] < rect[3]
-                    })
-                });
+            let rects = sides.map(|[x0, y0]| [x0, y0, x0 + w, y0 + h]);
+            let clear = |rect: &[f32; 4]| {
+                !placed
+                    .iter()
+                    .any(|o| rect[0] < o[2] && o[0] < rect[2] && rect[1] < o[3] && o[1] < rect[3])
+            };
+            let inside = |rect: &[f32; 4]| {
+                rect[0] >= 0.0 && rect[1] >= 0.0 && rect[2] <= t.width && rect[3] <= t.height
+            };
+            // A side inside the figure first: a label at the edge is not cut.
+            let free = rects
+                .iter()
+                .find(|r| clear(r) && inside(r))
+                .or_else(|| rects.iter().find(|r| clear(r)))
+                .copied();
             let Some(rect) = free else {
                 continue;
             };
