@@ -125,6 +125,31 @@ pub fn chamber_labels(spectra: &[&Signature]) -> Vec<String> {
     labels
 }
 
+/// Most chamber spectra the legend lists (the palette's distinct fills).
+const LEGEND_SPECTRA: usize = 8;
+
+/// Each spectrum's fill: by the area it covers, largest first, so the
+/// spectra the legend lists have distinct fills.
+fn fill_slots(summary: &MapSummary) -> Vec<usize> {
+    let n = summary
+        .chambers
+        .iter()
+        .map(|c| c.class + 1)
+        .max()
+        .unwrap_or(0);
+    let mut area = vec![0_usize; n];
+    for c in &summary.chambers {
+        area[c.class] += c.points;
+    }
+    let mut order: Vec<usize> = (0..n).collect();
+    order.sort_by_key(|&k| (std::cmp::Reverse(area[k]), k));
+    let mut slot = vec![0; n];
+    for (rank, &k) in order.iter().enumerate() {
+        slot[k] = rank;
+    }
+    slot
+}
+
 /// Builds the figure of a map.
 pub fn build_param_map(grid: &Grid, summary: &MapSummary, opts: &MapOptions) -> Scene {
     let colors = theme_colors(opts.theme);
@@ -141,6 +166,7 @@ pub fn build_param_map(grid: &Grid, summary: &MapSummary, opts: &MapOptions) -> 
     // Chambers: each grid point owns the cell around it; runs of equal
     // class along a row become one rectangle.
     let mut cells = Vec::new();
+    let slots = fill_slots(summary);
     if valid && summary.chamber_of.len() == grid.len() {
         let [dx, dy] = grid.spacing();
         let (hx, hy) = (0.5 * dx, 0.5 * dy);
@@ -164,7 +190,7 @@ pub fn build_param_map(grid: &Grid, summary: &MapSummary, opts: &MapOptions) -> 
                     cells.push(Shape::Rect {
                         min: [pa[0].min(pb[0]), pa[1].min(pb[1])],
                         max: [pa[0].max(pb[0]), pa[1].max(pb[1])],
-                        fill: chamber_color(class, opts.theme),
+                        fill: chamber_color(slots[class], opts.theme),
                         stroke: None,
                     });
                 }
@@ -199,8 +225,9 @@ pub fn build_param_map(grid: &Grid, summary: &MapSummary, opts: &MapOptions) -> 
         })
         .collect();
     push(names::WALLS, walls);
-    // Each wall is labelled with its pair's charges at its highest point.
+    // Each wall is labelled with its pair's charges.
     let mut labels = Vec::new();
+    let mut placed: Vec<[f32; 4]> = Vec::new();
     for w in summary.walls.iter().filter(|_| valid) {
         let (Some([a, b]), Some(top)) = (
             &w.charges,
@@ -218,11 +245,43 @@ pub fn build_param_map(grid: &Grid, summary: &MapSummary, opts: &MapOptions) -> 
                 .collect();
             format!("({})", parts.join(", "))
         };
-        let [x, y] = t.to_screen(top);
+        let text = format!("{} \u{2225} {}", show(a), show(b));
+        let size = 12.0 * s;
+        let w_px = text_width_em(&text) * size;
+        // At the wall's highest point, else its lowest; kept inside the
+        // figure, and left out where it would cover an earlier label.
+        let bottom = w
+            .points
+            .iter()
+            .copied()
+            .min_by(|p, q| p.im.total_cmp(&q.im))
+            .unwrap_or(top);
+        let spot = [(top, -8.0 * s), (bottom, 8.0 * s + size)]
+            .into_iter()
+            .map(|(p, dy)| {
+                let [x, y] = t.to_screen(p);
+                let x = x.clamp(
+                    0.5 * w_px + 2.0 * s,
+                    (t.width - 0.5 * w_px - 2.0 * s).max(0.0),
+                );
+                let y = (y + dy).clamp(size + 2.0 * s, (t.height - 2.0 * s).max(size));
+                (
+                    x,
+                    y,
+                    [x - 0.5 * w_px, y - size, x + 0.5 * w_px, y + 0.2 * size],
+                )
+            })
+            .find(|(_, _, r)| {
+                !placed
+                    .iter()
+                    .any(|o: &[f32; 4]| r[0] < o[2] && o[0] < r[2] && r[1] < o[3] && o[1] < r[3])
+            });
+        let Some((x, y, rect)) = spot else { continue };
+        placed.push(rect);
         labels.push(Shape::Text {
-            pos: [x, y - 8.0 * s],
-            text: format!("{} \u{2225} {}", show(a), show(b)),
-            size: 12.0 * s,
+            pos: [x, y],
+            text,
+            size,
             color: colors.foreground,
             anchor: Anchor::Middle,
         });
@@ -297,14 +356,34 @@ fn legend(summary: &MapSummary, opts: &MapOptions, s: f32) -> Vec<Shape> {
     let labels = chamber_labels(&classes.iter().map(|(_, s)| *s).collect::<Vec<_>>());
     enum Row {
         Chamber(usize, String),
+        More(usize),
         Wall,
         Singular,
     }
-    let mut rows: Vec<Row> = classes
+    // The spectra covering most of the map; the rest are counted.
+    let area = |class: usize| -> usize {
+        summary
+            .chambers
+            .iter()
+            .filter(|c| c.class == class)
+            .map(|c| c.points)
+            .sum()
+    };
+    let mut shown: Vec<(usize, String)> = classes
         .iter()
         .zip(labels)
-        .map(|((k, _), label)| Row::Chamber(*k, label))
+        .map(|((k, _), label)| (*k, label))
         .collect();
+    shown.sort_by_key(|(k, _)| (std::cmp::Reverse(area(*k)), *k));
+    let hidden = shown.len().saturating_sub(LEGEND_SPECTRA);
+    shown.truncate(LEGEND_SPECTRA);
+    let mut rows: Vec<Row> = shown
+        .into_iter()
+        .map(|(k, label)| Row::Chamber(k, label))
+        .collect();
+    if hidden > 0 {
+        rows.push(Row::More(hidden));
+    }
     if !summary.walls.is_empty() {
         rows.push(Row::Wall);
     }
@@ -316,6 +395,7 @@ fn legend(summary: &MapSummary, opts: &MapOptions, s: f32) -> Vec<Shape> {
     }
     let text = |r: &Row| match r {
         Row::Chamber(_, t) => t.clone(),
+        Row::More(n) => format!("{n} more spectra, in smaller regions (colours repeat)"),
         Row::Wall => "wall of marginal stability".into(),
         Row::Singular => "singular point".into(),
     };
@@ -341,9 +421,10 @@ fn legend(summary: &MapSummary, opts: &MapOptions, s: f32) -> Vec<Shape> {
             Row::Chamber(class, _) => shapes.push(Shape::Rect {
                 min: [x0, y - 0.5 * swatch],
                 max: [x0 + swatch, y + 0.5 * swatch],
-                fill: chamber_color(*class, opts.theme),
+                fill: chamber_color(fill_slots(summary)[*class], opts.theme),
                 stroke: Some((0.8 * s, colors.legend_stroke)),
             }),
+            Row::More(_) => {}
             Row::Wall => shapes.push(Shape::Polyline {
                 points: vec![[x0, y], [x0 + swatch, y]],
                 width: 2.2 * s,
