@@ -72,6 +72,9 @@ impl Carried {
             if c.len() != lattice.rank() {
                 continue;
             }
+            // Loose on purpose: this only confirms the basis (another
+            // basis misses by order |Z|), while a web's Z may miss its
+            // charge's period by more than Z_CHECK (warned by the finder).
             let tol = 1e3 * Z_CHECK * (1.0 + s.0.norm());
             if (lattice.central_charge(c) - s.0).norm() <= tol {
                 z.push(s.0);
