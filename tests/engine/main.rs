@@ -38,3 +38,4 @@ mod spectrum_rank3;
 mod spectrum_su2;
 mod spectrum_symmetry;
 mod symmetry_laws;
+mod wild;
