@@ -2,13 +2,19 @@
 //!
 //! A street's series `Q(x)` is computed in the engine's gauge, where the
 //! closed class x of a state may carry the opposite sign from the twisted
-//! torus of the KS formula. Both signs are quadratic refinements of the
-//! same pairing mod 2, so their ratio is a character of the lattice mod 2:
-//! `x -> chi(gamma) x` with `chi` linear. A state with an odd index fixes
-//! `chi(gamma)` by itself (only one sign gives whole indices, see
-//! [`crate::solitons::read`]); those values fix `chi` on their span mod 2,
-//! and that decides the states whose two readings are both whole. Values
-//! that contradict linearity are a failed check and settle nothing.
+//! torus of the KS formula. A state with an odd index fixes the sign of
+//! its class by itself (only one sign gives whole indices, see
+//! [`crate::solitons::read`]). The signs so fixed are linear in the charge
+//! mod 2 wherever this was looked at (three pure SU(3) points, five or six
+//! odd states each; a quadratic refinement of the pairing does not fit
+//! them), so they define a character `chi` on their span.
+//!
+//! Where both readings are whole because the truncation reaches only
+//! x^1, `chi` chooses for an odd index (+-1, +-3). For an even one (+-2)
+//! it is *not* used: on a wall of pairing 2 its choice gives
+//! Omega(g1 + g2) = +2 where the KS identity requires -2
+//! (tests/engine/wild.rs). Such a state keeps its index unknown, and the
+//! warning gives both readings.
 
 use super::warning::{SpectrumWarning, SpectrumWarningKind};
 use super::{Kind, Spectrum};
@@ -111,26 +117,38 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
         set_index(&mut spectrum.states[idx], &omegas);
     }
     for (idx, mask, keep, flip) in open {
-        let state = &mut spectrum.states[idx];
-        let decided = mask.filter(|_| consistent).and_then(|m| chi.value(m));
-        match decided {
-            Some(flipped) => set_index(state, if flipped { &flip } else { &keep }),
-            None => spectrum.warnings.push(SpectrumWarning::new(
-                SpectrumWarningKind::IndexUnknownTwist,
-                format!(
-                    "the web with |Z| = {:.6} at phase {:.6} has index unknown: its streets give Omega = {} or {}, and {}",
-                    state.abs,
-                    state.phase,
-                    keep.first().copied().unwrap_or(0),
-                    flip.first().copied().unwrap_or(0),
-                    if consistent {
-                        "no state of odd index fixes the sign of its class"
-                    } else {
-                        "the signs fixed by the states of odd index are not linear in the charge (a failed check)"
-                    }
-                ),
-            )),
+        let suggested = mask.filter(|_| consistent).and_then(|m| chi.value(m));
+        let (a, b) = (
+            keep.first().copied().unwrap_or(0),
+            flip.first().copied().unwrap_or(0),
+        );
+        // An odd index read to x^1 only (+-1, +-3, ...): chi decides, as
+        // it fits every odd state where it was checked.
+        if let (Some(flipped), true) = (suggested, a % 2 != 0) {
+            set_index(
+                &mut spectrum.states[idx],
+                if flipped { &flip } else { &keep },
+            );
+            continue;
         }
+        let state = &spectrum.states[idx];
+        let why = match suggested {
+            Some(flipped) => format!(
+                "the sign the states of odd index give its class would say {}, but that rule fails the KS identity on a wall of pairing 2, so it is not used",
+                if flipped { b } else { a }
+            ),
+            None if consistent => "no state of odd index fixes the sign of its class".into(),
+            None => "the signs fixed by the states of odd index are not linear in the charge (a failed check)".into(),
+        };
+        let warning = SpectrumWarning::new(
+            SpectrumWarningKind::IndexUnknownTwist,
+            format!(
+                "the web with |Z| = {:.6} at phase {:.6} has index unknown: its streets give Omega = {a} or {b}, and {why}",
+                state.abs, state.phase,
+            ),
+        )
+        .about(state.abs, state.phase);
+        spectrum.warnings.push(warning);
     }
 }
 
