@@ -154,10 +154,9 @@ fn webs_of_one_state_are_warned_about_once() {
 
 /// The list and the warnings agree: no state whose index the engine gives
 /// is also said to have its index unknown. Pure SU(3) at u = 2.45 + 0.1i,
-/// v = 0.4 - 0.1i (reach 20): the state of |Z| = 15.957 is made of two webs
-/// whose streets, read together and with the sign of their class fixed by
-/// the other states, give an index; each web alone had warned that its
-/// index was unknown.
+/// v = 0.4 - 0.1i (reach 20): several states are read to x^1 only and
+/// decided after their webs' own notes were written (where the sign of
+/// their class is fixed by the other states); those notes must go.
 #[test]
 fn no_state_with_an_index_is_also_warned_unknown() {
     let su3 = "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0";
