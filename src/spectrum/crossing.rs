@@ -466,6 +466,21 @@ fn misalignment(za: Complex64, zb: Complex64) -> f64 {
 }
 
 /// Classifies a located change and runs the KS check at a wall.
+/// Whether a change is the reach's doing: some charges differ, and every
+/// one that does lies at the reach. The same charges on both sides (only a
+/// kind or an index read differently) are not: that was labelled "reach"
+/// when both lists were empty.
+fn at_reach(
+    only_before: &[&Vec<i64>],
+    only_after: &[&Vec<i64>],
+    near_before: &dyn Fn(&Vec<i64>) -> bool,
+    near_after: &dyn Fn(&Vec<i64>) -> bool,
+) -> bool {
+    !(only_before.is_empty() && only_after.is_empty())
+        && only_before.iter().all(|c| near_before(c))
+        && only_after.iter().all(|c| near_after(c))
+}
+
 fn explain(
     change: &mut Crossing,
     lat_a: &Option<crate::charges::LatticeSummary>,
@@ -500,9 +515,12 @@ fn explain(
     let only_before: Vec<&Vec<i64>> = before.iter().filter(|c| !after.contains(c)).collect();
     let only_after: Vec<&Vec<i64>> = after.iter().filter(|c| !before.contains(c)).collect();
     let near_reach = |c: &Vec<i64>, basis: &[Complex64]| z_of(basis, c).norm() > 0.98 * reach;
-    if only_before.iter().all(|c| near_reach(c, &la.basis))
-        && only_after.iter().all(|c| near_reach(c, &lb.basis))
-    {
+    if at_reach(
+        &only_before,
+        &only_after,
+        &|c| near_reach(c, &la.basis),
+        &|c| near_reach(c, &lb.basis),
+    ) {
         change.cause = Cause::Reach;
         return;
     }
@@ -743,4 +761,20 @@ fn singular_at(
         let neg = b.0.iter().find(|&&x| x != 0).is_some_and(|&x| x < 0);
         b.0.into_iter().map(|x| if neg { -x } else { x }).collect()
     }))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_change_of_index_alone_is_not_the_reach() {
+        let (a, b) = (vec![1_i64, 0], vec![0_i64, 1]);
+        let near = |_: &Vec<i64>| true;
+        let far = |_: &Vec<i64>| false;
+        assert!(!at_reach(&[], &[], &near, &near));
+        assert!(at_reach(&[&a], &[], &near, &far));
+        assert!(at_reach(&[], &[&b], &far, &near));
+        assert!(!at_reach(&[&a], &[&b], &near, &far));
+    }
 }
