@@ -98,17 +98,12 @@ impl From<&PointResult> for PointStates {
 /// `<a, b>` for every two of `charges` under the basis pairing `m` (None
 /// when a charge does not fit the basis or a value overflows).
 pub fn pairings_of(charges: &[&Vec<i64>], m: &[Vec<i64>]) -> Option<Vec<Vec<i64>>> {
+    let m = m.to_vec();
     let pair = |a: &[i64], b: &[i64]| -> Option<i64> {
-        if a.len() != m.len() || b.len() != m.len() {
+        if a.len() != m.len() || b.len() != m.len() || m.iter().any(|r| r.len() != m.len()) {
             return None;
         }
-        let mut v = 0_i64;
-        for (i, x) in a.iter().enumerate() {
-            for (j, y) in b.iter().enumerate() {
-                v = v.checked_add(x.checked_mul(*y)?.checked_mul(*m[i].get(j)?)?)?;
-            }
-        }
-        Some(v)
+        crate::charges::intmat::form(&m, a, b).ok()
     };
     charges
         .iter()

@@ -156,34 +156,63 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
 /// a wall of marginal stability (or on a symmetric slice, such as a real
 /// curve whose states all align at phase 0). Their series mix two classes
 /// and the indices there belong to neither side; this is said rather than
-/// hidden.
+/// hidden. Charges that pair to zero never bind, so they make no wall
+/// (e.g. states that differ by a flavour class of zero mass, which share
+/// their Z): such a pair is named only where an index at its phase is
+/// left unknown, and then as what it is.
 pub(super) fn warn_aligned(spectrum: &mut Spectrum) {
     let states = &spectrum.states;
+    let pairing = spectrum.lattice.as_ref().map(|l| &l.pairing);
+    // Unknown pairing (or an overflow): assume they bind, and warn.
+    let binds = |a: &[i64], b: &[i64]| {
+        pairing.is_none_or(|m| !matches!(crate::charges::intmat::form(m, a, b), Ok(0)))
+    };
     let independent = |a: &[i64], b: &[i64]| {
         // Not proportional: some 2x2 minor is non-zero.
         (0..a.len()).any(|i| (0..a.len()).any(|j| a[i] * b[j] != a[j] * b[i]))
     };
-    let mut found: Option<(usize, usize)> = None;
-    'outer: for i in 0..states.len() {
+    // The first aligned pair that binds (a wall); failing that, the first
+    // pair that does not bind but leaves an index at its phase unknown.
+    let mut wall: Option<(usize, usize)> = None;
+    let mut local: Option<(usize, usize)> = None;
+    for i in 0..states.len() {
         for j in i + 1..states.len() {
             let (Some(a), Some(b)) = (&states[i].charge, &states[j].charge) else {
                 continue;
             };
             let gap = (states[i].phase - states[j].phase).abs();
-            if gap.min(std::f64::consts::PI - gap) < ALIGNED && independent(a, b) {
-                found = Some((i, j));
-                break 'outer;
+            if gap.min(std::f64::consts::PI - gap) >= ALIGNED || !independent(a, b) {
+                continue;
+            }
+            if binds(a, b) {
+                wall = wall.or(Some((i, j)));
+            } else if states[i].omega.is_none() || states[j].omega.is_none() {
+                local = local.or(Some((i, j)));
             }
         }
     }
-    if let Some((i, j)) = found {
+    let message = |(i, j): (usize, usize), what: &str| {
         let (a, b) = (&spectrum.states[i], &spectrum.states[j]);
+        format!(
+            "states of independent charges align at phase {:.9} (|Z| = {:.6} and {:.6}): {what}; move off it for their indices",
+            a.phase, a.abs, b.abs
+        )
+    };
+    let text = match (wall, local) {
+        (Some(p), _) => Some(message(
+            p,
+            "these parameters lie on a wall of marginal stability, where the states at that phase belong to neither side",
+        )),
+        (None, Some(p)) => Some(message(
+            p,
+            "their charges pair to zero, so this is no wall, but their streets' series mix at that phase and the indices there are not read",
+        )),
+        (None, None) => None,
+    };
+    if let Some(text) = text {
         spectrum.warnings.push(SpectrumWarning::new(
             SpectrumWarningKind::AlignedCharges,
-            format!(
-                "states of independent charges align at phase {:.9} (|Z| = {:.6} and {:.6}): these parameters lie on a wall of marginal stability, where the states at that phase belong to neither side; move off it for their indices",
-                a.phase, a.abs, b.abs
-            ),
+            text,
         ));
     }
 }
