@@ -235,13 +235,7 @@ pub fn assign_with(
         mismatched.retain(|(i, _)| *i < spectrum.states.len());
     }
     let gauge = lat.gauge_rank();
-    let gauge_parts: Vec<Vec<i64>> = spectrum
-        .states
-        .iter()
-        .filter_map(|s| s.charge.as_ref())
-        .map(|c| c[..gauge].to_vec())
-        .collect();
-    let (span_rank, span_index) = intmat::span(&gauge_parts, gauge);
+    let (span_rank, span_index) = span_of(&spectrum.states, gauge);
     for (idx, why) in &uncharged {
         spectrum.warnings.push(SpectrumWarning::new(
             SpectrumWarningKind::NoCharge,
@@ -267,18 +261,40 @@ pub fn assign_with(
         worst_z_error: worst,
         uncharged: uncharged.len(),
     };
-    if !summary.spans_gauge() && !spectrum.cancelled {
-        let detail = if span_rank < gauge {
-            format!("rank {span_rank} of {gauge}")
-        } else {
-            format!("a sublattice of index {span_index}")
-        };
-        spectrum.warnings.push(SpectrumWarning::new(
-            SpectrumWarningKind::ChargesDoNotSpan,
-            format!(
-                "the charges of the states found span {detail} of the gauge lattice: states are missing (raise the reach or the scan resolution)"
-            ),
-        ));
+    if !spectrum.cancelled {
+        spectrum
+            .warnings
+            .extend(span_warning(&spectrum.states, gauge));
     }
     spectrum.lattice = Some(summary);
+}
+
+/// Rank and index of the span of the gauge parts of the states' charges.
+fn span_of(states: &[BpsState], gauge: usize) -> (usize, u64) {
+    let gauge_parts: Vec<Vec<i64>> = states
+        .iter()
+        .filter_map(|s| s.charge.as_ref())
+        .map(|c| c[..gauge.min(c.len())].to_vec())
+        .collect();
+    intmat::span(&gauge_parts, gauge)
+}
+
+/// The self-check that the charges of `states` span the gauge lattice (of
+/// rank `gauge`): the warning when they do not.
+pub fn span_warning(states: &[BpsState], gauge: usize) -> Option<SpectrumWarning> {
+    let (span_rank, span_index) = span_of(states, gauge);
+    if span_rank == gauge && span_index == 1 {
+        return None;
+    }
+    let detail = if span_rank < gauge {
+        format!("rank {span_rank} of {gauge}")
+    } else {
+        format!("a sublattice of index {span_index}")
+    };
+    Some(SpectrumWarning::new(
+        SpectrumWarningKind::ChargesDoNotSpan,
+        format!(
+            "the charges of the states found span {detail} of the gauge lattice: states are missing (raise the reach or the scan resolution)"
+        ),
+    ))
 }

@@ -76,8 +76,30 @@ pub struct ScanArgs {
     /// Worker threads (default: every core).
     #[arg(long, value_name = "N")]
     pub threads: Option<usize>,
+    /// `carry`: search every second row and column (to a reach 10% wider)
+    /// and carry the states into cells whose corners agree, searching the
+    /// rest; `search`: search every point.
+    #[arg(long, value_enum, default_value_t = Fill::Carry)]
+    pub fill: Fill,
     #[command(flatten)]
     pub map: MapArgs,
+}
+
+/// How the points between searched ones are computed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize, clap::ValueEnum)]
+#[serde(rename_all = "lowercase")]
+pub enum Fill {
+    /// Every point searched.
+    #[default]
+    Search,
+    /// Uniform cells carried from their corners (`scan::fill`).
+    Carry,
+}
+
+impl Fill {
+    fn is_search(&self) -> bool {
+        *self == Self::Search
+    }
 }
 
 /// What the finished map is turned into.
@@ -128,6 +150,9 @@ struct ScanMeta {
     param: String,
     grid: Grid,
     settings: SpectrumSettings,
+    /// Absent in files of scans that searched every point.
+    #[serde(default, skip_serializing_if = "Fill::is_search")]
+    fill: Fill,
 }
 
 const META_FORMAT: &str = "wallflower scan 1";
@@ -150,6 +175,9 @@ struct PointLine {
     /// `<a, b>` of the lattice basis the charges are written in.
     #[serde(skip_serializing_if = "Option::is_none")]
     pairing: Option<Vec<Vec<i64>>>,
+    /// The grid point the states were carried from (not searched here).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    carried_from: Option<usize>,
 }
 
 fn point_line(r: &PointResult, reach: f64) -> String {
@@ -159,6 +187,7 @@ fn point_line(r: &PointResult, reach: f64) -> String {
         states: r.states.iter().map(|s| state_json(s, reach)).collect(),
         warnings: warnings_json(&r.warnings),
         pairing: r.pairing.clone(),
+        carried_from: r.carried_from,
     };
     let mut text = serde_json::to_string(&line).unwrap_or_default();
     text.push('\n');
@@ -286,6 +315,7 @@ pub fn run(args: &ScanArgs) -> anyhow::Result<ExitCode> {
             param: param.clone(),
             grid,
             settings,
+            fill: args.fill,
         },
         scenario: loaded.scenario.clone(),
     };
@@ -366,7 +396,11 @@ fn compute(
         bar.inc(1);
         sink(r)
     };
-    let outcome = scan::run(
+    let run: scan::Runner = match prepared.meta.fill {
+        Fill::Search => scan::run,
+        Fill::Carry => scan::fill::run_carried,
+    };
+    let outcome = run(
         &prepared.meta.grid,
         indices,
         &curve_at,

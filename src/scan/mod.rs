@@ -12,6 +12,7 @@
 //! grid order, the output of a parallel run equals a serial run's.
 
 pub mod carry;
+pub mod fill;
 pub mod grid;
 pub mod singular;
 pub mod summary;
@@ -48,6 +49,9 @@ pub struct PointResult {
     pub pairing: Option<Vec<Vec<i64>>>,
     /// The finder was cancelled: the point must not be written.
     pub cancelled: bool,
+    /// Not searched: the states were carried from this grid point, a
+    /// corner of a cell whose corners agree (see [`fill`]).
+    pub carried_from: Option<usize>,
 }
 
 /// The spectrum at grid point `index`.
@@ -75,6 +79,7 @@ pub fn compute_point(
                 warnings,
                 pairing: found.lattice.map(|l| l.pairing),
                 cancelled: found.cancelled,
+                carried_from: None,
             }
         }
         Err(e) => PointResult {
@@ -87,6 +92,7 @@ pub fn compute_point(
             )],
             pairing: None,
             cancelled: cancel.is_cancelled(),
+            carried_from: None,
         },
     }
 }
@@ -102,6 +108,18 @@ pub struct RunOutcome {
     /// Stopped early: by the cancel token or because the sink asked.
     pub stopped: bool,
 }
+
+/// A way to compute the points of a map: [`run`] (every point searched) or
+/// [`fill::run_carried`].
+pub type Runner = fn(
+    &Grid,
+    &[usize],
+    &CurveAt<'_>,
+    &SpectrumSettings,
+    usize,
+    &CancelToken,
+    &mut dyn FnMut(PointResult) -> bool,
+) -> RunOutcome;
 
 /// Computes the grid points `indices` (in increasing order) on `threads`
 /// threads and hands each result to `sink` on the calling thread in the
@@ -124,6 +142,22 @@ pub fn run(
     cancel: &CancelToken,
     sink: &mut dyn FnMut(PointResult) -> bool,
 ) -> RunOutcome {
+    let compute =
+        |index: usize, token: &CancelToken| compute_point(grid, index, curve_at, settings, token);
+    run_with(indices, threads, cancel, sink, &compute, |r| r.cancelled)
+}
+
+/// [`run`] with any way of computing a point and any result (the same
+/// threads, ordering and cancellation); `cancelled` tells a result cut
+/// short, which is never delivered.
+pub fn run_with<T: Send>(
+    indices: &[usize],
+    threads: usize,
+    cancel: &CancelToken,
+    sink: &mut dyn FnMut(T) -> bool,
+    compute: &(dyn Fn(usize, &CancelToken) -> T + Sync),
+    cancelled: fn(&T) -> bool,
+) -> RunOutcome {
     let threads = threads.clamp(1, 256).min(indices.len().max(1));
     let next = AtomicUsize::new(0);
     let stop = AtomicBool::new(false);
@@ -132,7 +166,7 @@ pub fn run(
     let tokens: Vec<CancelToken> = (0..threads).map(|_| CancelToken::new()).collect();
     let cancel_all = || tokens.iter().for_each(CancelToken::cancel);
     std::thread::scope(|scope| {
-        let (tx, rx) = mpsc::channel::<(usize, PointResult)>();
+        let (tx, rx) = mpsc::channel::<(usize, T)>();
         let mut spawned = 0;
         for (t, token) in tokens.iter().enumerate() {
             let tx = tx.clone();
@@ -145,7 +179,7 @@ pub fn run(
                 let Some(&index) = indices.get(pos) else {
                     return;
                 };
-                let result = compute_point(grid, index, curve_at, settings, token);
+                let result = compute(index, token);
                 if tx.send((pos, result)).is_err() {
                     return;
                 }
@@ -159,8 +193,8 @@ pub fn run(
         if spawned == 0 {
             // No thread could be started: work on this one.
             for &index in indices {
-                let result = compute_point(grid, index, curve_at, settings, cancel);
-                if result.cancelled || !sink(result) {
+                let result = compute(index, cancel);
+                if cancelled(&result) || !sink(result) {
                     break;
                 }
                 delivered += 1;
@@ -169,7 +203,7 @@ pub fn run(
             return;
         }
         // Results arrive in any order; hand them over in order.
-        let mut waiting: BTreeMap<usize, PointResult> = BTreeMap::new();
+        let mut waiting: BTreeMap<usize, T> = BTreeMap::new();
         let mut head = 0;
         loop {
             let (pos, result) = match rx.recv_timeout(WATCH) {
@@ -190,7 +224,7 @@ pub fn run(
             }
             waiting.insert(pos, result);
             while let Some(result) = waiting.remove(&head) {
-                if result.cancelled || !sink(result) {
+                if cancelled(&result) || !sink(result) {
                     stopped = true;
                     stop.store(true, Ordering::Relaxed);
                     cancel_all();

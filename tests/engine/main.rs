@@ -26,6 +26,7 @@ mod robust_files;
 mod robust_fuzz_bodies;
 mod robust_sweep;
 mod samples;
+mod scan_fill;
 mod scan_map;
 mod scenario_files;
 mod singular_spectrum;
