@@ -1,6 +1,6 @@
 //! Scan benchmarks (issue 13): a small pure-SU(2) chamber map to reach 40
 //! on one thread and on two (the speed-up target is 1.8x on the 2-core
-//! machine), and the singular points of the map found by Newton's method.
+//! machine), every point searched and with uniform cells carried, and the singular points of the map found by Newton's method.
 //! The full 64x64 figures come from `scripts/scan-bench` (wall clock and
 //! peak memory of the binary).
 
@@ -44,11 +44,13 @@ fn scan_bench(c: &mut Criterion) {
     group
         .sample_size(10)
         .measurement_time(Duration::from_secs(20));
-    for threads in [1, 2] {
-        group.bench_function(format!("su2_8x8_reach40_{threads}_threads"), |b| {
+    let runners: [(&str, scan::Runner); 2] =
+        [("search", scan::run), ("carry", scan::fill::run_carried)];
+    for ((mode, run), threads) in runners.into_iter().flat_map(|r| [1, 2].map(|t| (r, t))) {
+        group.bench_function(format!("su2_8x8_reach40_{mode}_{threads}_threads"), |b| {
             b.iter(|| {
                 let mut n = 0;
-                scan::run(
+                run(
                     &grid,
                     &indices,
                     &curve_at,

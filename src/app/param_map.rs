@@ -228,11 +228,13 @@ fn scan_map(
     }
     let indices: Vec<usize> = (0..grid.len()).collect();
     let mut points = Vec::with_capacity(grid.len());
-    let outcome = scan::run(grid, &indices, &curve_at, &settings, 1, token, &mut |r| {
-        let p = PointStates::from(&r);
-        points.push(p.clone());
-        progress(Update::Point(r.index, p))
-    });
+    // Cells whose corners agree are carried (see scan::fill): half the work.
+    let outcome =
+        scan::fill::run_carried(grid, &indices, &curve_at, &settings, 1, token, &mut |r| {
+            let p = PointStates::from(&r);
+            points.push(p.clone());
+            progress(Update::Point(r.index, p))
+        });
     if outcome.stopped {
         return Ok(Arc::new(Vec::new()));
     }

@@ -26,7 +26,9 @@
 //! kind is the case this misses; `--fill search` searches every point.
 //!
 //! Whether a point is carried depends on the grid alone, so threads and
-//! shards give the same lines as one serial run.
+//! shards give the same lines as one serial run. At rank 3 and up the
+//! spectra carry warnings about states at their own point (unknown
+//! indices, shared phases) that no cell shares, so every point is searched.
 
 use super::walls::{PointStates, Signature};
 use super::{compute_point, CurveAt, Grid, PointResult, RunOutcome};
@@ -85,6 +87,16 @@ pub fn run_carried(
     cancel: &CancelToken,
     sink: &mut dyn FnMut(PointResult) -> bool,
 ) -> RunOutcome {
+    // At rank 3 and up most spectra carry warnings about states at their
+    // own point (indices, phases), which no cell shares: search them all.
+    // The first grid points decide, whatever the share, so every share
+    // decides alike.
+    let rank = (0..grid.len().min(16))
+        .find_map(|k| curve_at(grid.point(k)).ok())
+        .map_or(2, |c| c.rank);
+    if rank >= 3 {
+        return super::run(grid, indices, curve_at, settings, threads, cancel, sink);
+    }
     let wide = SpectrumSettings {
         reach: settings.reach * (1.0 + REACH_MARGIN),
         ..settings.clone()
