@@ -117,3 +117,45 @@ fn weak_coupling_w_boson_and_dyon_tower() {
     }
     assert_eq!(spec.states.len(), tower.len() + 1);
 }
+
+/// Just outside the wall of marginal stability (0.12-0.13 beyond the
+/// traced wall in Im u), where the W's ring domain is thin: the W is found,
+/// with Z the loop integral of 2 sqrt(q) dz around |z| = 1 (which encloses
+/// z = 0 and the near zero, not the far one), and so is a dyon of charge
+/// hyper + W, whose existence on this side needs the W (Seiberg-Witten
+/// 1994; the KS identity of the wall, docs/mathematics.md section 8). Both
+/// points lost the W with the ring finder's first three trial distances.
+#[test]
+fn thin_ring_domains_next_to_the_wall_keep_the_w() {
+    for u in [
+        c(-0.4285714285714288, -0.9047619047619051),
+        c(0.8095238095238093, -0.6190476190476191),
+    ] {
+        let curve = crate::support::curve_with("y^2 = (z^2 + 2 u z + 1)/z^3", &[("u", u)]);
+        let spec = spectrum(&curve, 40.0);
+        let q = |z: Complex64| ((1.0 + 2.0 * u * z + z * z) / (z * z * z)).sqrt() * 2.0;
+        let z_w = loop_integral(&q, c(0.0, 0.0), 1.0);
+        let w: Vec<_> = spec
+            .states
+            .iter()
+            .filter(|s| s.kind == Kind::Vector)
+            .collect();
+        assert_eq!(w.len(), 1, "u = {u}: {:#?}", spec.states);
+        assert_eq!(w[0].omega, Some(-2));
+        assert!(
+            same_up_to_sign(w[0].z, z_w, 1e-8),
+            "W {} vs loop {z_w}",
+            w[0].z
+        );
+        let bound = spec.states.iter().any(|d| {
+            d.kind == Kind::Hyper
+                && spec.states.iter().any(|h| {
+                    h.kind == Kind::Hyper
+                        && [1.0, -1.0]
+                            .iter()
+                            .any(|&sign| same_up_to_sign(d.z, h.z + w[0].z * sign, 1e-8))
+                })
+        });
+        assert!(bound, "u = {u}: no dyon of charge hyper + W");
+    }
+}
