@@ -157,7 +157,13 @@ pub fn closed_trajectory(
             continue;
         }
         if let Some(line) = closes_after_one_period(&ctx, p, roots, WallType::new(0, 1), scale) {
-            return Some(line);
+            // A loop around the pair is at least as wide as the pair: a
+            // trajectory of a tiny period (two zeros about to collide)
+            // moves so little that it "returns" from anywhere.
+            let width = line.iter().map(|z| (z - p).norm()).fold(0.0, f64::max);
+            if width >= 0.99 * (pair.foci[1] - pair.foci[0]).norm() {
+                return Some(line);
+            }
         }
     }
     None
