@@ -380,7 +380,9 @@ struct Web {
     problems: Vec<SpectrumWarningKind>,
 }
 
-struct WebFinder<'a> {
+/// What every thread of a search reads: the curve and the finder's fixed
+/// data (each thread builds its own; they are cheap).
+struct Ctx<'a> {
     curve: &'a Curve,
     settings: &'a SpectrumSettings,
     cancel: &'a CancelToken,
@@ -389,6 +391,24 @@ struct WebFinder<'a> {
     radii: Vec<f64>,
     /// Per branch point: see [`ramification`].
     ramification: Vec<u32>,
+}
+
+impl<'a> Ctx<'a> {
+    fn new(curve: &'a Curve, settings: &'a SpectrumSettings, cancel: &'a CancelToken) -> Self {
+        Self {
+            curve,
+            settings,
+            cancel,
+            quad: PairQuadrature::new(curve),
+            bounds: finder_bounds(curve, settings),
+            radii: capture_radii(curve),
+            ramification: ramification(curve),
+        }
+    }
+}
+
+struct WebFinder<'a> {
+    ctx: Ctx<'a>,
     states: Vec<BpsState>,
     /// Candidates already confirmed or rejected, with their branch points:
     /// webs of equal charge through other branch points are other states
@@ -442,16 +462,288 @@ fn nearest_segment(points: &[Complex64], z: Complex64) -> usize {
         .unwrap_or(0)
 }
 
+/// The finder reads its fixed data through `Deref`.
+impl<'a> std::ops::Deref for WebFinder<'a> {
+    type Target = Ctx<'a>;
+    fn deref(&self) -> &Ctx<'a> {
+        &self.ctx
+    }
+}
+
+impl<'a> Ctx<'a> {
+    fn partial_network(&self, theta: f64, settings: &Settings, bps: &[usize]) -> Network {
+        let ctx = GrowContext {
+            curve: self.curve,
+            theta,
+            settings,
+            bounds: self.bounds,
+            cancel: self.cancel,
+        };
+        let mut seeds = primary_seeds(self.curve, theta);
+        seeds.extend(special_seeds(self.curve, theta).0);
+        let mut walls: Vec<Wall> = seeds
+            .into_iter()
+            .filter(|seed| {
+                matches!(seed.origin, Origin::BranchPoint { index, .. } if bps.contains(&index))
+            })
+            .map(|seed| grow_wall(&ctx, seed))
+            .collect();
+        let mut joints = Vec::new();
+        let mut stats = network::Stats::default();
+        let limit = if self.cancel.is_cancelled() {
+            GrowthLimit::Cancelled
+        } else {
+            growth::grow_descendants(&ctx, &mut walls, &mut joints, &mut stats)
+        };
+        Network {
+            theta,
+            reach: settings.reach,
+            bounds: self.bounds,
+            branch_points: self.curve.branch_points.clone(),
+            punctures: self.curve.punctures.clone(),
+            walls,
+            joints,
+            warnings: Vec::new(),
+            limit,
+            stats,
+            flatness: network::jump::Flatness::default(),
+        }
+    }
+
+    /// Every pass of a wall of `net` through the capture disc of a simple
+    /// branch point where the wall's own pair meets.
+    fn passes(&self, net: &Network) -> Vec<Pass> {
+        let mut out = Vec::new();
+        for (w_idx, wall) in net.walls.iter().enumerate() {
+            let own = match wall.origin {
+                Origin::BranchPoint { index, .. } => Some(index),
+                Origin::Puncture { .. } | Origin::Joint { .. } => None,
+            };
+            for (to, bp) in self.curve.branch_points.iter().enumerate() {
+                if self.ramification[to] == 0 || own == Some(to) {
+                    continue;
+                }
+                let r = self.radii[to];
+                // Runs of consecutive points inside the disc.
+                let mut run: Vec<(usize, f64)> = Vec::new();
+                for k in 1..=wall.points.len() {
+                    let inside = wall.points.get(k).and_then(|p| {
+                        let d = (p.z - bp.z).norm();
+                        (d < r).then_some(d)
+                    });
+                    match inside {
+                        Some(d) => run.push((k, d)),
+                        None if !run.is_empty() => {
+                            if let Some(p) = self.make_pass(net.theta, w_idx, wall, to, &run) {
+                                out.push(p);
+                            }
+                            run.clear();
+                        }
+                        None => {}
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    fn make_pass(
+        &self,
+        theta: f64,
+        w_idx: usize,
+        wall: &Wall,
+        to: usize,
+        run: &[(usize, f64)],
+    ) -> Option<Pass> {
+        let &(closest, distance) = run.iter().min_by(|a, b| a.1.total_cmp(&b.1))?;
+        let r = self.radii[to];
+        // Start the tail where the pair is well separated: the point of the
+        // run up to the closest one nearest to a quarter of the radius.
+        let &(k, _) = run
+            .iter()
+            .filter(|(k, _)| *k <= closest)
+            .min_by(|a, b| (a.1 - 0.25 * r).abs().total_cmp(&(b.1 - 0.25 * r).abs()))?;
+        let z_k = wall.points[k].z;
+        let hint = direction_hint(wall, k, theta)?;
+        let pair = match pair_by_hint(&self.curve.roots_unordered(z_k), hint) {
+            Some(pair) => pair,
+            None => {
+                let pair = self.labelled_pair(wall, k, z_k)?;
+                if (pair.diff() / hint).re <= 0.0 {
+                    return None;
+                }
+                pair
+            }
+        };
+        let tail = self.tail(z_k, pair, to)?;
+        let w = Complex64::from_polar(wall.points[k].mass, theta) + tail;
+        w.is_finite().then_some(Pass {
+            wall: w_idx,
+            to,
+            closest,
+            distance,
+            k,
+            w,
+        })
+    }
+
+    /// `int (y_i - y_j) dz` from `z0` straight into branch point `to`, when
+    /// the pair meets there.
+    fn tail(&self, z0: Complex64, pair: Pair, to: usize) -> Option<Complex64> {
+        let b = self.curve.branch_points.get(to)?.z;
+        self.quad
+            .to_special_point(z0, pair, b, self.ramification[to])
+    }
+
+    /// The wall's two sheets at `z`, whose labels are those of the wall's
+    /// segment starting at point `idx`.
+    fn labelled_pair(&self, wall: &Wall, idx: usize, z: Complex64) -> Option<Pair> {
+        let labels = self.curve.sheets_at(z).ok()?;
+        let kind = wall.kind_at(idx);
+        Some(Pair {
+            a: labels[kind.i as usize],
+            b: labels[kind.j as usize],
+        })
+    }
+
+    /// The tree of walls behind a pass, its independent charge and why its
+    /// index may be unknown.
+    fn web_of(&self, net: &Network, pass: &Pass) -> Option<Web> {
+        let mut edges: Vec<(usize, EdgeEnd)> = vec![(
+            pass.wall,
+            EdgeEnd::Branch {
+                k: pass.k,
+                closest: pass.closest,
+                to: pass.to,
+            },
+        )];
+        let mut endpoints = vec![pass.to];
+        let mut i = 0;
+        while i < edges.len() {
+            if edges.len() > net.walls.len() + 1 {
+                return None;
+            }
+            let w = edges[i].0;
+            i += 1;
+            match net.walls[w].origin {
+                Origin::BranchPoint { index, .. } => endpoints.push(index),
+                Origin::Puncture { .. } => return None,
+                Origin::Joint { index } => {
+                    let joint = net.joints.get(index)?;
+                    for &parent in &joint.parents {
+                        edges.push((parent, EdgeEnd::Joint(joint.z)));
+                    }
+                }
+            }
+        }
+        let mut problems = Vec::new();
+        let mut walls_used: Vec<usize> = edges.iter().map(|e| e.0).collect();
+        walls_used.sort_unstable();
+        walls_used.dedup();
+        if walls_used.len() < edges.len() {
+            problems.push(SpectrumWarningKind::IndexUnknownWallUsedTwice);
+        }
+        endpoints.sort_unstable();
+        let n_ends = endpoints.len();
+        endpoints.dedup();
+        if endpoints.len() < n_ends {
+            problems.push(SpectrumWarningKind::IndexUnknownBranchPointTwice);
+        }
+        if endpoints.iter().any(|&e| self.ramification[e] > 2) {
+            problems.push(SpectrumWarningKind::IndexUnknownSpecialPoint);
+        }
+        let mut z = Complex64::new(0.0, 0.0);
+        let mut polylines = Vec::new();
+        let mut lift = Vec::new();
+        for &(w, end) in &edges {
+            let wall = &net.walls[w];
+            let e = self.edge(wall, end)?;
+            if e.counts.iter().any(|mu| mu.abs() != 1) {
+                problems.push(SpectrumWarningKind::IndexUnknownSeveralSolitons);
+            }
+            z += e.z;
+            polylines.push(e.line);
+            lift.push(e.lift);
+        }
+        Some(Web {
+            z,
+            z_wall: pass.w,
+            endpoints,
+            polylines,
+            lift,
+            problems,
+        })
+    }
+
+    /// One wall of a web as far as the web uses it (see [`WebEdge`]).
+    fn edge(&self, wall: &Wall, end: EdgeEnd) -> Option<WebEdge> {
+        let pts: Vec<Complex64> = wall.points.iter().map(|p| p.z).collect();
+        let origin = match wall.origin {
+            Origin::BranchPoint { index, .. } => Some(index),
+            Origin::Puncture { .. } => return None,
+            Origin::Joint { .. } => None,
+        };
+        let primary = match origin {
+            Some(index) => Some(self.curve.branch_points.get(index)?.z),
+            None => None,
+        };
+        let first = usize::from(primary.is_some());
+        let (last, end_z, draw_last) = match end {
+            EdgeEnd::Branch { k, closest, .. } => (k, None, closest),
+            EdgeEnd::Joint(z) => {
+                let s = nearest_segment(&pts, z);
+                (s, Some(z), s)
+            }
+        };
+        let mut path: Vec<Complex64> = if last >= first {
+            pts[first..=last].to_vec()
+        } else {
+            Vec::new()
+        };
+        path.extend(end_z);
+        let start = *path.first()?;
+        let kind = wall.kind_at(first.min(last));
+        let lift = LiftedEdge {
+            points: path.clone(),
+            sheets: [usize::from(kind.i), usize::from(kind.j)],
+            from: primary,
+            to: match end {
+                EdgeEnd::Branch { to, .. } => Some(self.curve.branch_points[to].z),
+                EdgeEnd::Joint(_) => None,
+            },
+        };
+        let mut pair = self.labelled_pair(wall, first.min(last), start)?;
+        let mut total = Complex64::new(0.0, 0.0);
+        if let Some(index) = origin {
+            total -= self.tail(start, pair, index)?;
+        }
+        let (along, pair_end) = self.quad.polyline(&path, pair)?;
+        total += along;
+        pair = pair_end;
+        if let EdgeEnd::Branch { to, .. } = end {
+            total += self.tail(*path.last()?, pair, to)?;
+        }
+        let mut line: Vec<Complex64> = pts[..=draw_last.min(pts.len() - 1)].to_vec();
+        match end {
+            EdgeEnd::Branch { to, .. } => line.push(self.curve.branch_points[to].z),
+            EdgeEnd::Joint(z) => line.push(z),
+        }
+        let counts = (0..=last.min(pts.len() - 1))
+            .map(|i| wall.multiplicity_at(i))
+            .collect();
+        Some(WebEdge {
+            z: total,
+            line,
+            counts,
+            lift,
+        })
+    }
+}
+
 impl<'a> WebFinder<'a> {
     fn new(curve: &'a Curve, settings: &'a SpectrumSettings, cancel: &'a CancelToken) -> Self {
         Self {
-            curve,
-            settings,
-            cancel,
-            quad: PairQuadrature::new(curve),
-            bounds: finder_bounds(curve, settings),
-            radii: capture_radii(curve),
-            ramification: ramification(curve),
+            ctx: Ctx::new(curve, settings, cancel),
             states: Vec::new(),
             tried: Vec::new(),
             queue: Vec::new(),
@@ -503,45 +795,6 @@ impl<'a> WebFinder<'a> {
             GrowthLimit::None => {}
         }
         net
-    }
-
-    fn partial_network(&self, theta: f64, settings: &Settings, bps: &[usize]) -> Network {
-        let ctx = GrowContext {
-            curve: self.curve,
-            theta,
-            settings,
-            bounds: self.bounds,
-            cancel: self.cancel,
-        };
-        let mut seeds = primary_seeds(self.curve, theta);
-        seeds.extend(special_seeds(self.curve, theta).0);
-        let mut walls: Vec<Wall> = seeds
-            .into_iter()
-            .filter(|seed| {
-                matches!(seed.origin, Origin::BranchPoint { index, .. } if bps.contains(&index))
-            })
-            .map(|seed| grow_wall(&ctx, seed))
-            .collect();
-        let mut joints = Vec::new();
-        let mut stats = network::Stats::default();
-        let limit = if self.cancel.is_cancelled() {
-            GrowthLimit::Cancelled
-        } else {
-            growth::grow_descendants(&ctx, &mut walls, &mut joints, &mut stats)
-        };
-        Network {
-            theta,
-            reach: settings.reach,
-            bounds: self.bounds,
-            branch_points: self.curve.branch_points.clone(),
-            punctures: self.curve.punctures.clone(),
-            walls,
-            joints,
-            warnings: Vec::new(),
-            limit,
-            stats,
-            flatness: network::jump::Flatness::default(),
-        }
     }
 
     fn run(&mut self, progress: &mut dyn FnMut(f64)) {
@@ -808,102 +1061,6 @@ impl<'a> WebFinder<'a> {
         }
     }
 
-    /// Every pass of a wall of `net` through the capture disc of a simple
-    /// branch point where the wall's own pair meets.
-    fn passes(&self, net: &Network) -> Vec<Pass> {
-        let mut out = Vec::new();
-        for (w_idx, wall) in net.walls.iter().enumerate() {
-            let own = match wall.origin {
-                Origin::BranchPoint { index, .. } => Some(index),
-                Origin::Puncture { .. } | Origin::Joint { .. } => None,
-            };
-            for (to, bp) in self.curve.branch_points.iter().enumerate() {
-                if self.ramification[to] == 0 || own == Some(to) {
-                    continue;
-                }
-                let r = self.radii[to];
-                // Runs of consecutive points inside the disc.
-                let mut run: Vec<(usize, f64)> = Vec::new();
-                for k in 1..=wall.points.len() {
-                    let inside = wall.points.get(k).and_then(|p| {
-                        let d = (p.z - bp.z).norm();
-                        (d < r).then_some(d)
-                    });
-                    match inside {
-                        Some(d) => run.push((k, d)),
-                        None if !run.is_empty() => {
-                            if let Some(p) = self.make_pass(net.theta, w_idx, wall, to, &run) {
-                                out.push(p);
-                            }
-                            run.clear();
-                        }
-                        None => {}
-                    }
-                }
-            }
-        }
-        out
-    }
-
-    fn make_pass(
-        &self,
-        theta: f64,
-        w_idx: usize,
-        wall: &Wall,
-        to: usize,
-        run: &[(usize, f64)],
-    ) -> Option<Pass> {
-        let &(closest, distance) = run.iter().min_by(|a, b| a.1.total_cmp(&b.1))?;
-        let r = self.radii[to];
-        // Start the tail where the pair is well separated: the point of the
-        // run up to the closest one nearest to a quarter of the radius.
-        let &(k, _) = run
-            .iter()
-            .filter(|(k, _)| *k <= closest)
-            .min_by(|a, b| (a.1 - 0.25 * r).abs().total_cmp(&(b.1 - 0.25 * r).abs()))?;
-        let z_k = wall.points[k].z;
-        let hint = direction_hint(wall, k, theta)?;
-        let pair = match pair_by_hint(&self.curve.roots_unordered(z_k), hint) {
-            Some(pair) => pair,
-            None => {
-                let pair = self.labelled_pair(wall, k, z_k)?;
-                if (pair.diff() / hint).re <= 0.0 {
-                    return None;
-                }
-                pair
-            }
-        };
-        let tail = self.tail(z_k, pair, to)?;
-        let w = Complex64::from_polar(wall.points[k].mass, theta) + tail;
-        w.is_finite().then_some(Pass {
-            wall: w_idx,
-            to,
-            closest,
-            distance,
-            k,
-            w,
-        })
-    }
-
-    /// `int (y_i - y_j) dz` from `z0` straight into branch point `to`, when
-    /// the pair meets there.
-    fn tail(&self, z0: Complex64, pair: Pair, to: usize) -> Option<Complex64> {
-        let b = self.curve.branch_points.get(to)?.z;
-        self.quad
-            .to_special_point(z0, pair, b, self.ramification[to])
-    }
-
-    /// The wall's two sheets at `z`, whose labels are those of the wall's
-    /// segment starting at point `idx`.
-    fn labelled_pair(&self, wall: &Wall, idx: usize, z: Complex64) -> Option<Pair> {
-        let labels = self.curve.sheets_at(z).ok()?;
-        let kind = wall.kind_at(idx);
-        Some(Pair {
-            a: labels[kind.i as usize],
-            b: labels[kind.j as usize],
-        })
-    }
-
     /// Re-grows the walls of the candidate's branch points at its phase
     /// until the phase settles; then the states of the webs that close in
     /// the whole network there.
@@ -1112,139 +1269,6 @@ impl<'a> WebFinder<'a> {
             .collect()
     }
 
-    /// The tree of walls behind a pass, its independent charge and why its
-    /// index may be unknown.
-    fn web_of(&self, net: &Network, pass: &Pass) -> Option<Web> {
-        let mut edges: Vec<(usize, EdgeEnd)> = vec![(
-            pass.wall,
-            EdgeEnd::Branch {
-                k: pass.k,
-                closest: pass.closest,
-                to: pass.to,
-            },
-        )];
-        let mut endpoints = vec![pass.to];
-        let mut i = 0;
-        while i < edges.len() {
-            if edges.len() > net.walls.len() + 1 {
-                return None;
-            }
-            let w = edges[i].0;
-            i += 1;
-            match net.walls[w].origin {
-                Origin::BranchPoint { index, .. } => endpoints.push(index),
-                Origin::Puncture { .. } => return None,
-                Origin::Joint { index } => {
-                    let joint = net.joints.get(index)?;
-                    for &parent in &joint.parents {
-                        edges.push((parent, EdgeEnd::Joint(joint.z)));
-                    }
-                }
-            }
-        }
-        let mut problems = Vec::new();
-        let mut walls_used: Vec<usize> = edges.iter().map(|e| e.0).collect();
-        walls_used.sort_unstable();
-        walls_used.dedup();
-        if walls_used.len() < edges.len() {
-            problems.push(SpectrumWarningKind::IndexUnknownWallUsedTwice);
-        }
-        endpoints.sort_unstable();
-        let n_ends = endpoints.len();
-        endpoints.dedup();
-        if endpoints.len() < n_ends {
-            problems.push(SpectrumWarningKind::IndexUnknownBranchPointTwice);
-        }
-        if endpoints.iter().any(|&e| self.ramification[e] > 2) {
-            problems.push(SpectrumWarningKind::IndexUnknownSpecialPoint);
-        }
-        let mut z = Complex64::new(0.0, 0.0);
-        let mut polylines = Vec::new();
-        let mut lift = Vec::new();
-        for &(w, end) in &edges {
-            let wall = &net.walls[w];
-            let e = self.edge(wall, end)?;
-            if e.counts.iter().any(|mu| mu.abs() != 1) {
-                problems.push(SpectrumWarningKind::IndexUnknownSeveralSolitons);
-            }
-            z += e.z;
-            polylines.push(e.line);
-            lift.push(e.lift);
-        }
-        Some(Web {
-            z,
-            z_wall: pass.w,
-            endpoints,
-            polylines,
-            lift,
-            problems,
-        })
-    }
-
-    /// One wall of a web as far as the web uses it (see [`WebEdge`]).
-    fn edge(&self, wall: &Wall, end: EdgeEnd) -> Option<WebEdge> {
-        let pts: Vec<Complex64> = wall.points.iter().map(|p| p.z).collect();
-        let origin = match wall.origin {
-            Origin::BranchPoint { index, .. } => Some(index),
-            Origin::Puncture { .. } => return None,
-            Origin::Joint { .. } => None,
-        };
-        let primary = match origin {
-            Some(index) => Some(self.curve.branch_points.get(index)?.z),
-            None => None,
-        };
-        let first = usize::from(primary.is_some());
-        let (last, end_z, draw_last) = match end {
-            EdgeEnd::Branch { k, closest, .. } => (k, None, closest),
-            EdgeEnd::Joint(z) => {
-                let s = nearest_segment(&pts, z);
-                (s, Some(z), s)
-            }
-        };
-        let mut path: Vec<Complex64> = if last >= first {
-            pts[first..=last].to_vec()
-        } else {
-            Vec::new()
-        };
-        path.extend(end_z);
-        let start = *path.first()?;
-        let kind = wall.kind_at(first.min(last));
-        let lift = LiftedEdge {
-            points: path.clone(),
-            sheets: [usize::from(kind.i), usize::from(kind.j)],
-            from: primary,
-            to: match end {
-                EdgeEnd::Branch { to, .. } => Some(self.curve.branch_points[to].z),
-                EdgeEnd::Joint(_) => None,
-            },
-        };
-        let mut pair = self.labelled_pair(wall, first.min(last), start)?;
-        let mut total = Complex64::new(0.0, 0.0);
-        if let Some(index) = origin {
-            total -= self.tail(start, pair, index)?;
-        }
-        let (along, pair_end) = self.quad.polyline(&path, pair)?;
-        total += along;
-        pair = pair_end;
-        if let EdgeEnd::Branch { to, .. } = end {
-            total += self.tail(*path.last()?, pair, to)?;
-        }
-        let mut line: Vec<Complex64> = pts[..=draw_last.min(pts.len() - 1)].to_vec();
-        match end {
-            EdgeEnd::Branch { to, .. } => line.push(self.curve.branch_points[to].z),
-            EdgeEnd::Joint(z) => line.push(z),
-        }
-        let counts = (0..=last.min(pts.len() - 1))
-            .map(|i| wall.multiplicity_at(i))
-            .collect();
-        Some(WebEdge {
-            z: total,
-            line,
-            counts,
-            lift,
-        })
-    }
-
     fn into_spectrum(mut self, mut warnings: Vec<SpectrumWarning>) -> Spectrum {
         let open: Vec<SpectrumWarning> = std::mem::take(&mut self.web_notes)
             .into_iter()
@@ -1259,7 +1283,7 @@ impl<'a> WebFinder<'a> {
             SpectrumWarningKind::IndexUnknownNotListed,
         ));
         warnings.extend(summarised(
-            self.error_notes,
+            std::mem::take(&mut self.error_notes),
             "have charges that disagree by more than 1e-6 relative",
             SpectrumWarningKind::ZErrorNotListed,
         ));
