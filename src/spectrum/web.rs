@@ -70,6 +70,7 @@
 //! (warned).
 
 use super::annulus;
+use super::ordered;
 use super::pair::{Pair, PairQuadrature};
 use super::saddle::{capture_radii, direction_hint};
 use super::warning::{SpectrumWarning, SpectrumWarningKind};
@@ -407,6 +408,14 @@ impl<'a> Ctx<'a> {
     }
 }
 
+/// What the search takes from one network of the phase scan.
+struct ScanLook {
+    walls: usize,
+    limit: GrowthLimit,
+    /// Candidate charges with the branch points of their trees.
+    candidates: Vec<(Complex64, Option<Vec<usize>>)>,
+}
+
 struct WebFinder<'a> {
     ctx: Ctx<'a>,
     states: Vec<BpsState>,
@@ -471,6 +480,47 @@ impl<'a> std::ops::Deref for WebFinder<'a> {
 }
 
 impl<'a> Ctx<'a> {
+    /// The network (joints included) at `theta`, reaching just past the
+    /// reach: all of it, or only the walls from the branch points `only`
+    /// and their descendants (every wall of a web descends from the web's
+    /// own branch points, and its joints are crossings among those walls,
+    /// so a web closes in that part exactly as in the whole network).
+    fn grow(&self, theta: f64, tolerance: f64, only: Option<&[usize]>) -> Network {
+        let settings = Settings {
+            reach: self.settings.reach * (1.0 + 1e-6),
+            tolerance,
+            step_budget: self.settings.step_budget,
+            bounds: Some(self.bounds),
+            max_turn_rad: 0.2,
+            max_generations: MAX_GENERATIONS,
+            ..Settings::default()
+        };
+        // Grown here rather than by `network::compute`: the finder needs
+        // no flatness diagnostics, which cost as much as a tenth of a network.
+        let all: Vec<usize> = (0..self.curve.branch_points.len()).collect();
+        self.partial_network(theta, &settings, only.unwrap_or(&all))
+    }
+
+    /// The scan's network at its `m`-th phase, read for candidates: the
+    /// charge and tree of every pass below the reach, in pass order.
+    fn scan_look(&self, m: usize) -> ScanLook {
+        let n = self.settings.theta_samples;
+        let theta = PI * (m as f64 + 0.5) / n as f64;
+        let net = self.grow(theta, self.settings.scan_tolerance, None);
+        let reach = self.settings.reach;
+        let candidates = self
+            .passes(&net)
+            .into_iter()
+            .filter(|pass| pass.w.norm() < reach * (1.0 + 1e-6))
+            .map(|pass| (pass.w, tree_endpoints(&net, &pass)))
+            .collect();
+        ScanLook {
+            walls: net.walls.len(),
+            limit: net.limit,
+            candidates,
+        }
+    }
+
     fn partial_network(&self, theta: f64, settings: &Settings, bps: &[usize]) -> Network {
         let ctx = GrowContext {
             curve: self.curve,
@@ -768,58 +818,79 @@ impl<'a> WebFinder<'a> {
         self.cancelled || self.budget_hit || self.networks_hit
     }
 
-    /// The network (joints included) at `theta`, reaching just past the
-    /// reach: all of it, or only the walls from the branch points `only`
-    /// and their descendants (every wall of a web descends from the web's
-    /// own branch points, and its joints are crossings among those walls,
-    /// so a web closes in that part exactly as in the whole network).
+    /// The network of [`Ctx::grow`], counted against the budgets.
     fn network_at(&mut self, theta: f64, tolerance: f64, only: Option<&[usize]>) -> Network {
-        let settings = Settings {
-            reach: self.settings.reach * (1.0 + 1e-6),
-            tolerance,
-            step_budget: self.settings.step_budget,
-            bounds: Some(self.bounds),
-            max_turn_rad: 0.2,
-            max_generations: MAX_GENERATIONS,
-            ..Settings::default()
-        };
-        // Grown here rather than by `network::compute`: the finder needs
-        // no flatness diagnostics, which cost as much as a tenth of a network.
-        let all: Vec<usize> = (0..self.curve.branch_points.len()).collect();
-        let net = self.partial_network(theta, &settings, only.unwrap_or(&all));
-        self.stats.walls_grown += net.walls.len();
+        let net = self.ctx.grow(theta, tolerance, only);
+        self.count(net.walls.len(), net.limit);
+        net
+    }
+
+    /// Counts a network grown (here or on another thread) in the stats.
+    fn count(&mut self, walls: usize, limit: GrowthLimit) {
+        self.stats.walls_grown += walls;
         self.stats.networks_grown += 1;
-        match net.limit {
+        match limit {
             GrowthLimit::Cancelled => self.cancelled = true,
             GrowthLimit::MaxWalls | GrowthLimit::MaxGenerations => self.truncated = true,
             GrowthLimit::None => {}
         }
-        net
     }
 
+    /// The networks of `jobs` (phase, tolerance, branch points), grown on
+    /// up to `threads` threads and counted in order, as one thread would.
+    fn networks_at(&mut self, jobs: &[(f64, f64, Option<&[usize]>)]) -> Vec<Network> {
+        let ctx = &self.ctx;
+        let mut nets = Vec::with_capacity(jobs.len());
+        ordered::each_in_order(
+            self.settings.threads,
+            jobs.len(),
+            self.cancel,
+            || (),
+            |(), k| {
+                let (theta, tolerance, only) = jobs[k];
+                ctx.grow(theta, tolerance, only)
+            },
+            |_, net| {
+                nets.push(net);
+                true
+            },
+        );
+        for net in &nets {
+            self.count(net.walls.len(), net.limit);
+        }
+        nets
+    }
+
+    /// The phase scan. Its networks do not depend on what the search has
+    /// found, so other threads grow them ahead (each with its own
+    /// [`Ctx`]) while this one confirms candidates; they are taken in
+    /// phase order, so the search is the one-thread search step by step.
     fn run(&mut self, progress: &mut dyn FnMut(f64)) {
-        let reach = self.settings.reach;
         let n = self.settings.theta_samples;
-        for m in 0..n {
-            if self.stop() {
-                break;
-            }
-            let theta = PI * (m as f64 + 0.5) / n as f64;
-            let net = self.network_at(theta, self.settings.scan_tolerance, None);
-            if self.stop() {
-                break;
-            }
-            for pass in self.passes(&net) {
-                if pass.w.norm() < reach * (1.0 + 1e-6) {
-                    let ends = tree_endpoints(&net, &pass);
-                    if !self.known(pass.w, ends.as_deref()) {
-                        self.queue.push((pass.w, ends));
+        let (curve, settings, cancel) = (self.curve, self.settings, self.cancel);
+        if !self.stop() {
+            ordered::each_in_order(
+                settings.threads,
+                n,
+                cancel,
+                || Ctx::new(curve, settings, cancel),
+                |ctx, m| ctx.scan_look(m),
+                |m, look| {
+                    self.count(look.walls, look.limit);
+                    if self.stop() {
+                        return false;
                     }
-                }
-            }
-            self.stats.theta_samples += 1;
-            self.drain_queue();
-            progress((m + 1) as f64 / n as f64);
+                    for (w, ends) in look.candidates {
+                        if !self.known(w, ends.as_deref()) {
+                            self.queue.push((w, ends));
+                        }
+                    }
+                    self.stats.theta_samples += 1;
+                    self.drain_queue();
+                    progress((m + 1) as f64 / n as f64);
+                    !self.stop()
+                },
+            );
         }
         self.drain_queue();
         progress(1.0);
@@ -1109,14 +1180,33 @@ impl<'a> WebFinder<'a> {
                 if best.distance > HIT_FRACTION * self.radii[best.to] {
                     return Vec::new();
                 }
-                if only.is_none() {
-                    return self.states_at(&net, &passes, web);
+                // The whole networks just below and above the phase carry
+                // the soliton data of the streets; where `net` is partial,
+                // the whole one at the phase shows which other webs close
+                // there (they matter for the index). Grown at once.
+                let tol = self.settings.tolerance;
+                let at = phase_mod_pi(theta) + 0.0;
+                let mut jobs = vec![
+                    (at - RESOLUTION_EPS, tol, None),
+                    (at + RESOLUTION_EPS, tol, None),
+                ];
+                if only.is_some() {
+                    jobs.insert(0, (theta, tol, None));
                 }
-                // Other webs closing at the same phase matter for the index:
-                // look at the whole network.
-                let full = self.network_at(theta, self.settings.tolerance, None);
-                let all = self.passes(&full);
-                return self.states_at(&full, &all, web);
+                let mut nets = self.networks_at(&jobs);
+                let above = nets.pop();
+                let below = nets.pop();
+                let (Some(below), Some(above)) = (below, above) else {
+                    return Vec::new();
+                };
+                let sides = [&below, &above];
+                return match nets.pop() {
+                    Some(full) => {
+                        let all = self.passes(&full);
+                        self.states_at(&full, &all, web, sides)
+                    }
+                    None => self.states_at(&net, &passes, web, sides),
+                };
             }
             theta = theta_new;
             z_cand = web.z;
@@ -1132,6 +1222,7 @@ impl<'a> WebFinder<'a> {
         net: &Network,
         passes: &[Pass],
         confirmed: Web,
+        sides: [&Network; 2],
     ) -> Vec<(BpsState, Vec<SpectrumWarningKind>)> {
         // `+ 0.0` turns a phase of -0.0 into 0.0.
         let theta = phase_mod_pi(net.theta) + 0.0;
@@ -1185,7 +1276,7 @@ impl<'a> WebFinder<'a> {
             }
         }
         let rot = Complex64::from_polar(1.0, theta);
-        let indices = self.street_indices(theta, &webs);
+        let indices = self.street_indices(sides, &webs);
         webs.into_iter()
             .zip(indices)
             .map(|(mut web, index)| {
@@ -1250,17 +1341,15 @@ impl<'a> WebFinder<'a> {
             .collect()
     }
 
-    /// Each web's index from the soliton data on its streets, read off the
-    /// full networks on both sides of the critical phase ([`solitons`]).
-    fn street_indices(&mut self, theta: f64, webs: &[Web]) -> Vec<StreetData> {
-        let tol = self.settings.tolerance;
-        let below = self.network_at(theta - RESOLUTION_EPS, tol, None);
-        let above = self.network_at(theta + RESOLUTION_EPS, tol, None);
+    /// Each web's index from the soliton data on its streets, read off
+    /// `sides`, the whole networks on both sides of the critical phase
+    /// ([`solitons`]).
+    fn street_indices(&self, sides: [&Network; 2], webs: &[Web]) -> Vec<StreetData> {
         webs.iter()
             .map(|web| {
                 solitons::street_data(
                     self.curve,
-                    [&below, &above],
+                    sides,
                     &web.polylines,
                     web.z.norm(),
                     self.settings.reach,
