@@ -354,7 +354,24 @@ enum EdgeEnd {
     Joint(Complex64),
 }
 
+/// The edges of webs already computed on one network, by wall and end:
+/// webs found at one phase share walls (a web and its own pass, trees with
+/// common parents), and an edge's quadrature is most of a web's cost.
+#[derive(Default)]
+struct EdgeMemo(std::collections::HashMap<(usize, [u64; 4]), Option<WebEdge>>);
+
+impl EdgeEnd {
+    /// The end as a key, exact to the bit.
+    fn key(self) -> [u64; 4] {
+        match self {
+            EdgeEnd::Branch { k, closest, to } => [0, k as u64, closest as u64, to as u64],
+            EdgeEnd::Joint(z) => [1, z.re.to_bits(), z.im.to_bits(), 0],
+        }
+    }
+}
+
 /// One wall of a web, as far as the web uses it.
+#[derive(Clone)]
 struct WebEdge {
     /// `int (y_i - y_j) dz` from its start to where the web uses it.
     z: Complex64,
@@ -569,16 +586,44 @@ impl<'a> Ctx<'a> {
                 Origin::BranchPoint { index, .. } => Some(index),
                 Origin::Puncture { .. } | Origin::Joint { .. } => None,
             };
+            // The box of the points looked at (all but the first).
+            let (box_lo, box_hi) = wall.points.iter().skip(1).fold(
+                (
+                    Complex64::new(f64::INFINITY, f64::INFINITY),
+                    Complex64::new(f64::NEG_INFINITY, f64::NEG_INFINITY),
+                ),
+                |(lo, hi), p| {
+                    (
+                        Complex64::new(lo.re.min(p.z.re), lo.im.min(p.z.im)),
+                        Complex64::new(hi.re.max(p.z.re), hi.im.max(p.z.im)),
+                    )
+                },
+            );
             for (to, bp) in self.curve.branch_points.iter().enumerate() {
                 if self.ramification[to] == 0 || own == Some(to) {
                     continue;
                 }
                 let r = self.radii[to];
-                // Runs of consecutive points inside the disc.
+                // A wall whose box stays a radius away from b cannot pass.
+                if box_lo.re - bp.z.re >= r
+                    || bp.z.re - box_hi.re >= r
+                    || box_lo.im - bp.z.im >= r
+                    || bp.z.im - box_hi.im >= r
+                {
+                    continue;
+                }
+                // Runs of consecutive points inside the disc. A point a
+                // radius away in one coordinate is outside: |dz| >= |dx|
+                // holds for the computed norm too, so this skips only the
+                // points the norm would put outside.
                 let mut run: Vec<(usize, f64)> = Vec::new();
                 for k in 1..=wall.points.len() {
                     let inside = wall.points.get(k).and_then(|p| {
-                        let d = (p.z - bp.z).norm();
+                        let dz = p.z - bp.z;
+                        if dz.re.abs() >= r || dz.im.abs() >= r {
+                            return None;
+                        }
+                        let d = dz.norm();
                         (d < r).then_some(d)
                     });
                     match inside {
@@ -658,7 +703,7 @@ impl<'a> Ctx<'a> {
 
     /// The tree of walls behind a pass, its independent charge and why its
     /// index may be unknown.
-    fn web_of(&self, net: &Network, pass: &Pass) -> Option<Web> {
+    fn web_of(&self, net: &Network, pass: &Pass, memo: &mut EdgeMemo) -> Option<Web> {
         let mut edges: Vec<(usize, EdgeEnd)> = vec![(
             pass.wall,
             EdgeEnd::Branch {
@@ -706,8 +751,14 @@ impl<'a> Ctx<'a> {
         let mut polylines = Vec::new();
         let mut lift = Vec::new();
         for &(w, end) in &edges {
-            let wall = &net.walls[w];
-            let e = self.edge(wall, end)?;
+            let e = match memo.0.get(&(w, end.key())) {
+                Some(known) => known.clone(),
+                None => {
+                    let e = self.edge(&net.walls[w], end);
+                    memo.0.insert((w, end.key()), e.clone());
+                    e
+                }
+            }?;
             if e.counts.iter().any(|mu| mu.abs() != 1) {
                 problems.push(SpectrumWarningKind::IndexUnknownSeveralSolitons);
             }
@@ -1172,7 +1223,8 @@ impl<'a> WebFinder<'a> {
             else {
                 return Vec::new();
             };
-            let Some(web) = self.web_of(&net, best) else {
+            let mut memo = EdgeMemo::default();
+            let Some(web) = self.web_of(&net, best, &mut memo) else {
                 return Vec::new();
             };
             let theta_new = phase_mod_pi(web.z.arg());
@@ -1203,9 +1255,9 @@ impl<'a> WebFinder<'a> {
                 return match nets.pop() {
                     Some(full) => {
                         let all = self.passes(&full);
-                        self.states_at(&full, &all, web, sides)
+                        self.states_at(&full, &all, web, sides, EdgeMemo::default())
                     }
-                    None => self.states_at(&net, &passes, web, sides),
+                    None => self.states_at(&net, &passes, web, sides, memo),
                 };
             }
             theta = theta_new;
@@ -1223,6 +1275,7 @@ impl<'a> WebFinder<'a> {
         passes: &[Pass],
         confirmed: Web,
         sides: [&Network; 2],
+        mut memo: EdgeMemo,
     ) -> Vec<(BpsState, Vec<SpectrumWarningKind>)> {
         // `+ 0.0` turns a phase of -0.0 into 0.0.
         let theta = phase_mod_pi(net.theta) + 0.0;
@@ -1236,7 +1289,7 @@ impl<'a> WebFinder<'a> {
             if p.distance > HIT_FRACTION * self.radii[p.to] {
                 continue;
             }
-            let Some(web) = self.web_of(net, p) else {
+            let Some(web) = self.web_of(net, p, &mut memo) else {
                 continue;
             };
             if phase_gap(phase_mod_pi(web.z.arg()), theta) > same_phase {

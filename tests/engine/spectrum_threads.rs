@@ -65,7 +65,10 @@ fn threaded_pure_su3_spectrum_is_the_one_thread_spectrum() {
     };
     let (one, others) = on_threads(&curve, &settings);
     assert!(one.states.len() >= 3, "{:?}", one.states.len());
-    assert!(!one.warnings.is_empty(), "the curve has webs of unknown index");
+    assert!(
+        !one.warnings.is_empty(),
+        "the curve has webs of unknown index"
+    );
     let one = json(&one);
     for (k, other) in others.iter().enumerate() {
         assert!(*other == one, "{} threads differ", k + 2);
@@ -104,8 +107,11 @@ fn threads_setting_is_validated_and_defaults_to_one() {
         assert!(errors.iter().any(|e| e.to_string().contains("threads")));
     }
     // Settings written before the field existed still load, on one thread.
-    let old: SpectrumSettings = serde_json::from_str(r#"{"reach": 5.0, "theta_samples": 32}"#)
-        .expect("old settings load");
+    let old: SpectrumSettings =
+        serde_json::from_str(r#"{"reach": 5.0, "theta_samples": 32}"#).expect("old settings load");
     assert_eq!((old.threads, old.theta_samples), (1, 32));
-    assert!(SpectrumSettings::default().on_every_core().validate().is_ok());
+    assert!(SpectrumSettings::default()
+        .on_every_core()
+        .validate()
+        .is_ok());
 }
