@@ -1,6 +1,6 @@
 //! Items `0..n` computed on helper threads and consumed in order on the
-//! calling thread, which computes any item no helper has claimed yet
-//! itself. The consumer sees exactly the items, in exactly the order, of a
+//! calling thread, which computes item 0 and any item no helper has
+//! claimed yet itself. The consumer sees exactly the items, in exactly the order, of a
 //! one-thread loop; only the wall-clock time depends on the thread count.
 
 use crate::cancel::CancelToken;
@@ -92,7 +92,8 @@ impl<T> Drop for Closer<'_, T> {
 
 /// Computes `work(ctx, m)` for `m` in `0..n` on up to `threads` threads,
 /// each with its own context from `make`, and hands the items to `consume`
-/// in order on this thread until it returns false. Helpers stop claiming
+/// in order on this thread until it returns false. Item 0 is always
+/// computed here (the caller's own next step, helpers work ahead). Helpers stop claiming
 /// when the consumer stops or `cancel` fires; items computed ahead and not
 /// consumed are dropped. A helper that cannot be started or panics leaves
 /// its items to this thread.
@@ -106,7 +107,7 @@ pub(super) fn each_in_order<C, T: Send>(
 ) {
     let shared = Shared {
         state: Mutex::new(State {
-            next: 0,
+            next: 1,
             closed: false,
             slots: (0..n).map(|_| Slot::Pending).collect(),
         }),
@@ -135,7 +136,11 @@ pub(super) fn each_in_order<C, T: Send>(
         }
         let mut own: Option<C> = None;
         for m in 0..n {
-            let item = shared.take(m, || work(own.get_or_insert_with(make), m));
+            let item = if m == 0 {
+                work(own.get_or_insert_with(make), 0)
+            } else {
+                shared.take(m, || work(own.get_or_insert_with(make), m))
+            };
             if !consume(m, item) {
                 break;
             }

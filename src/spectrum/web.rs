@@ -425,6 +425,20 @@ impl<'a> Ctx<'a> {
     }
 }
 
+/// The outcome of one refinement of a candidate's phase.
+enum Step {
+    Rejected,
+    /// Not settled: the next phase and charge to try.
+    Next(f64, Complex64),
+    /// Settled: the network, its passes and the web that closes.
+    Settled {
+        net: Network,
+        passes: Vec<Pass>,
+        web: Web,
+        memo: EdgeMemo,
+    },
+}
+
 /// What the search takes from one network of the phase scan.
 struct ScanLook {
     walls: usize,
@@ -939,7 +953,9 @@ impl<'a> WebFinder<'a> {
                     self.stats.theta_samples += 1;
                     self.drain_queue();
                     progress((m + 1) as f64 / n as f64);
-                    !self.stop()
+                    // Polled where the one-loop scan polls: before each
+                    // next phase only (cancel_at_poll tokens stay exact).
+                    m + 1 < n && !self.stop()
                 },
             );
         }
@@ -1207,63 +1223,134 @@ impl<'a> WebFinder<'a> {
                 return Vec::new();
             }
         }
-        for _ in 0..MAX_REFINE {
+        for iteration in 0..MAX_REFINE {
             if self.stop() {
                 return Vec::new();
             }
-            let net = self.network_at(theta, self.settings.tolerance, only);
-            if self.stop() {
-                return Vec::new();
+            // The networks the states need if this iteration settles the
+            // phase: the whole ones just below and above it (the soliton
+            // data of the streets) and, where the search's own network is
+            // partial, the whole one at it (other webs closing there matter
+            // for the index).
+            let tol = self.settings.tolerance;
+            let at = phase_mod_pi(theta) + 0.0;
+            let mut sides = vec![
+                (at - RESOLUTION_EPS, tol, None),
+                (at + RESOLUTION_EPS, tol, None),
+            ];
+            if only.is_some() {
+                sides.insert(0, (theta, tol, None));
             }
-            let passes = self.passes(&net);
-            let Some(best) = passes
-                .iter()
-                .filter(|p| same_up_to_sign(p.w, z_cand, WEB_MATCH))
-                .min_by(|a, b| a.distance.total_cmp(&b.distance))
-            else {
-                return Vec::new();
-            };
-            let mut memo = EdgeMemo::default();
-            let Some(web) = self.web_of(&net, best, &mut memo) else {
-                return Vec::new();
-            };
-            let theta_new = phase_mod_pi(web.z.arg());
-            if phase_gap(theta_new, theta) <= self.settings.phase_tolerance {
-                if best.distance > HIT_FRACTION * self.radii[best.to] {
-                    return Vec::new();
-                }
-                // The whole networks just below and above the phase carry
-                // the soliton data of the streets; where `net` is partial,
-                // the whole one at the phase shows which other webs close
-                // there (they matter for the index). Grown at once.
-                let tol = self.settings.tolerance;
-                let at = phase_mod_pi(theta) + 0.0;
-                let mut jobs = vec![
-                    (at - RESOLUTION_EPS, tol, None),
-                    (at + RESOLUTION_EPS, tol, None),
-                ];
-                if only.is_some() {
-                    jobs.insert(0, (theta, tol, None));
-                }
-                let mut nets = self.networks_at(&jobs);
-                let above = nets.pop();
-                let below = nets.pop();
-                let (Some(below), Some(above)) = (below, above) else {
-                    return Vec::new();
-                };
-                let sides = [&below, &above];
-                return match nets.pop() {
-                    Some(full) => {
-                        let all = self.passes(&full);
-                        self.states_at(&full, &all, web, sides, EdgeMemo::default())
+            // On several threads they are grown ahead while this thread
+            // looks at the iteration's own network, and dropped (stopped
+            // by their own token, never counted) if it does not settle.
+            let ahead = self.settings.threads > 1 && iteration > 0;
+            let mut jobs = vec![(theta, tol, only)];
+            if ahead {
+                jobs.extend(sides.iter().copied());
+            }
+            let spare = CancelToken::new();
+            let (curve, settings, cancel) = (self.curve, self.settings, self.cancel);
+            // The iteration's own network (item 0, grown on this thread)
+            // answers to the search's token.
+            let own = Ctx::new(curve, settings, cancel);
+            let mut step = Step::Rejected;
+            let mut grown: Vec<Network> = Vec::new();
+            ordered::each_in_order(
+                settings.threads,
+                jobs.len(),
+                cancel,
+                || Ctx::new(curve, settings, &spare),
+                |ctx, k| {
+                    let (theta, tolerance, only) = jobs[k];
+                    let ctx = if k == 0 { &own } else { ctx };
+                    ctx.grow(theta, tolerance, only)
+                },
+                |k, net| {
+                    if k > 0 {
+                        grown.push(net);
+                        return true;
                     }
-                    None => self.states_at(&net, &passes, web, sides, memo),
-                };
+                    step = self.refine_step(net, theta, z_cand);
+                    let go_on = ahead && matches!(step, Step::Settled { .. });
+                    if !go_on {
+                        spare.cancel();
+                    }
+                    go_on
+                },
+            );
+            match step {
+                Step::Rejected => return Vec::new(),
+                Step::Next(theta_new, z_new) => {
+                    theta = theta_new;
+                    z_cand = z_new;
+                }
+                Step::Settled {
+                    net,
+                    passes,
+                    web,
+                    memo,
+                } => {
+                    let mut nets = if ahead {
+                        for n in &grown {
+                            self.count(n.walls.len(), n.limit);
+                        }
+                        grown
+                    } else {
+                        self.networks_at(&sides)
+                    };
+                    let above = nets.pop();
+                    let below = nets.pop();
+                    let (Some(below), Some(above)) = (below, above) else {
+                        return Vec::new();
+                    };
+                    let sides = [&below, &above];
+                    return match nets.pop() {
+                        Some(full) => {
+                            let all = self.passes(&full);
+                            self.states_at(&full, &all, web, sides, EdgeMemo::default())
+                        }
+                        None => self.states_at(&net, &passes, web, sides, memo),
+                    };
+                }
             }
-            theta = theta_new;
-            z_cand = web.z;
         }
         Vec::new()
+    }
+
+    /// One iteration of [`Self::confirm`] on its network at `theta`
+    /// (counted here): the pass of the candidate's charge nearest its
+    /// branch point, and the phase of its web.
+    fn refine_step(&mut self, net: Network, theta: f64, z_cand: Complex64) -> Step {
+        self.count(net.walls.len(), net.limit);
+        if self.stop() {
+            return Step::Rejected;
+        }
+        let passes = self.passes(&net);
+        let Some(best) = passes
+            .iter()
+            .filter(|p| same_up_to_sign(p.w, z_cand, WEB_MATCH))
+            .min_by(|a, b| a.distance.total_cmp(&b.distance))
+        else {
+            return Step::Rejected;
+        };
+        let mut memo = EdgeMemo::default();
+        let Some(web) = self.web_of(&net, best, &mut memo) else {
+            return Step::Rejected;
+        };
+        let theta_new = phase_mod_pi(web.z.arg());
+        if phase_gap(theta_new, theta) > self.settings.phase_tolerance {
+            return Step::Next(theta_new, web.z);
+        }
+        if best.distance > HIT_FRACTION * self.radii[best.to] {
+            return Step::Rejected;
+        }
+        Step::Settled {
+            net,
+            passes,
+            web,
+            memo,
+        }
     }
 
     /// The states of all webs that close in `net` (at a critical phase),
