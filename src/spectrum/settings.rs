@@ -42,9 +42,11 @@ pub struct SpectrumSettings {
     pub bounds_factor: f64,
     /// Rank >= 3: threads one search may use (the phase scan's networks
     /// and the networks on both sides of a critical phase are grown on
-    /// them; the states are the same, byte for byte, for any count). Range
-    /// [1, 256]. Default 1: `scan` already runs one point per core; the
-    /// `spectrum` command and the window ask for every core.
+    /// them; the spectrum is the same, byte for byte, for any count, but a
+    /// [`crate::CancelToken::cancel_at_poll`] token trips at a
+    /// reproducible point only on one thread). Range [1, 256]. Default 1:
+    /// `scan` already runs one point per core; the `spectrum` command and
+    /// the window ask for every core.
     pub threads: usize,
 }
 

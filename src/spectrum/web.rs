@@ -47,6 +47,16 @@
 //! token is polled by every network. A search stopped by either says so
 //! and keeps what it confirmed.
 //!
+//! **Threads.** With `threads > 1` the scan's networks, which do not depend
+//! on what the search has found, are grown ahead on helper threads and
+//! taken in phase order ([`super::ordered`]); while a refinement's own
+//! network is looked at, the networks it needs if it settles (both sides
+//! of the phase, the whole network at it) are grown beside it under a
+//! token of their own, and stopped and never counted when it does not
+//! settle. Every network the search counts is the one the one-thread
+//! search grows, counted at the same step, so the spectrum (stats
+//! included) is the same for any thread count.
+//!
 //! The scan covers theta in [0, pi): the network at theta + pi is the same
 //! set of curves with every type ij read as ji (both sides of the wall
 //! equation change sign, and a crossing of ji and kj composes to ki where
@@ -431,12 +441,14 @@ enum Step {
     /// Not settled: the next phase and charge to try.
     Next(f64, Complex64),
     /// Settled: the network, its passes and the web that closes.
-    Settled {
-        net: Network,
-        passes: Vec<Pass>,
-        web: Web,
-        memo: EdgeMemo,
-    },
+    Settled(Box<Settled>),
+}
+
+struct Settled {
+    net: Network,
+    passes: Vec<Pass>,
+    web: Web,
+    memo: EdgeMemo,
 }
 
 /// What the search takes from one network of the phase scan.
@@ -1272,7 +1284,7 @@ impl<'a> WebFinder<'a> {
                         return true;
                     }
                     step = self.refine_step(net, theta, z_cand);
-                    let go_on = ahead && matches!(step, Step::Settled { .. });
+                    let go_on = ahead && matches!(step, Step::Settled(_));
                     if !go_on {
                         spare.cancel();
                     }
@@ -1285,12 +1297,13 @@ impl<'a> WebFinder<'a> {
                     theta = theta_new;
                     z_cand = z_new;
                 }
-                Step::Settled {
-                    net,
-                    passes,
-                    web,
-                    memo,
-                } => {
+                Step::Settled(settled) => {
+                    let Settled {
+                        net,
+                        passes,
+                        web,
+                        memo,
+                    } = *settled;
                     let mut nets = if ahead {
                         for n in &grown {
                             self.count(n.walls.len(), n.limit);
@@ -1345,12 +1358,12 @@ impl<'a> WebFinder<'a> {
         if best.distance > HIT_FRACTION * self.radii[best.to] {
             return Step::Rejected;
         }
-        Step::Settled {
+        Step::Settled(Box::new(Settled {
             net,
             passes,
             web,
             memo,
-        }
+        }))
     }
 
     /// The states of all webs that close in `net` (at a critical phase),
