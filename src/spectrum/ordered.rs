@@ -9,7 +9,7 @@ use std::sync::{Condvar, Mutex, MutexGuard, PoisonError};
 
 /// Stack of a helper thread: the usual main-thread size, so that a helper
 /// runs out no sooner than the one-thread search would.
-const HELPER_STACK: usize = 8 << 20;
+pub(super) const HELPER_STACK: usize = 8 << 20;
 
 enum Slot<T> {
     /// Not claimed, or claimed and not finished.

@@ -451,6 +451,18 @@ struct Settled {
     memo: EdgeMemo,
 }
 
+/// A candidate's first look: its network at the scan's tolerance, read
+/// for passes.
+struct QuickLook {
+    walls: usize,
+    limit: GrowthLimit,
+    passes: Vec<Pass>,
+}
+
+/// Quick looks grown ahead for candidates further down the queue, by
+/// phase (to the bit) and branch points.
+type Looks = Vec<((u64, Option<Vec<usize>>), QuickLook)>;
+
 /// What the search takes from one network of the phase scan.
 struct ScanLook {
     walls: usize,
@@ -461,6 +473,8 @@ struct ScanLook {
 
 struct WebFinder<'a> {
     ctx: Ctx<'a>,
+    /// Quick looks grown ahead on other threads, not yet taken.
+    looks: Looks,
     states: Vec<BpsState>,
     /// Candidates already confirmed or rejected, with their branch points:
     /// webs of equal charge through other branch points are other states
@@ -542,6 +556,16 @@ impl<'a> Ctx<'a> {
         // no flatness diagnostics, which cost as much as a tenth of a network.
         let all: Vec<usize> = (0..self.curve.branch_points.len()).collect();
         self.partial_network(theta, &settings, only.unwrap_or(&all))
+    }
+
+    /// A candidate's quick look at `theta` (see [`WebFinder::confirm`]).
+    fn quick_look(&self, theta: f64, only: Option<&[usize]>) -> QuickLook {
+        let net = self.grow(theta, self.settings.scan_tolerance, only);
+        QuickLook {
+            walls: net.walls.len(),
+            limit: net.limit,
+            passes: self.passes(&net),
+        }
     }
 
     /// The scan's network at its `m`-th phase, read for candidates: the
@@ -871,6 +895,7 @@ impl<'a> WebFinder<'a> {
     fn new(curve: &'a Curve, settings: &'a SpectrumSettings, cancel: &'a CancelToken) -> Self {
         Self {
             ctx: Ctx::new(curve, settings, cancel),
+            looks: Vec::new(),
             states: Vec::new(),
             tried: Vec::new(),
             queue: Vec::new(),
@@ -1164,7 +1189,9 @@ impl<'a> WebFinder<'a> {
             }
             self.stats.candidates_tried += 1;
             self.tried.push((z, ends.clone()));
-            for (state, problems) in self.confirm(z, ends.as_deref()) {
+            let ahead = self.next_candidates();
+            let found = self.confirm_looking_ahead(z, ends.as_deref(), ahead);
+            for (state, problems) in found {
                 let dup = self.states.iter().any(|s| {
                     same_up_to_sign(s.z, state.z, CANDIDATE_MATCH) && s.endpoints == state.endpoints
                 });
@@ -1211,6 +1238,74 @@ impl<'a> WebFinder<'a> {
         }
     }
 
+    /// The phases and branch points of the candidates the queue would
+    /// confirm next if nothing were found now (up to one per spare
+    /// thread), whose quick looks are not grown yet.
+    fn next_candidates(&self) -> Vec<(f64, Option<Vec<usize>>)> {
+        let spare = self.settings.threads.saturating_sub(1);
+        let mut out: Vec<(f64, Option<Vec<usize>>)> = Vec::new();
+        for (z, ends) in self.queue.iter().rev() {
+            if out.len() >= spare {
+                break;
+            }
+            if self.known(*z, ends.as_deref()) || z.norm() >= self.settings.reach || z.norm() == 0.0
+            {
+                continue;
+            }
+            let theta = phase_mod_pi(z.arg());
+            let seen = |t: f64, e: &Option<Vec<usize>>| t.to_bits() == theta.to_bits() && e == ends;
+            if out.iter().any(|(t, e)| seen(*t, e))
+                || self
+                    .looks
+                    .iter()
+                    .any(|(k, _)| seen(f64::from_bits(k.0), &k.1))
+            {
+                continue;
+            }
+            out.push((theta, ends.clone()));
+        }
+        out
+    }
+
+    /// [`Self::confirm`], while other threads grow the quick looks of the
+    /// candidates `ahead` (kept for when they come up; a look that is
+    /// never asked for is dropped uncounted).
+    fn confirm_looking_ahead(
+        &mut self,
+        candidate: Complex64,
+        only: Option<&[usize]>,
+        ahead: Vec<(f64, Option<Vec<usize>>)>,
+    ) -> Vec<(BpsState, Vec<SpectrumWarningKind>)> {
+        if ahead.is_empty() {
+            return self.confirm(candidate, only);
+        }
+        let (curve, settings, cancel) = (self.curve, self.settings, self.cancel);
+        let grown = std::sync::Mutex::new(Vec::new());
+        let found = std::thread::scope(|s| {
+            for (theta, ends) in &ahead {
+                let grown = &grown;
+                let helper = move || {
+                    let look =
+                        Ctx::new(curve, settings, cancel).quick_look(*theta, ends.as_deref());
+                    if let Ok(mut g) = grown.lock() {
+                        g.push(((theta.to_bits(), ends.clone()), look));
+                    }
+                };
+                // Not started: the look is grown when its candidate comes up.
+                let _ = std::thread::Builder::new()
+                    .stack_size(ordered::HELPER_STACK)
+                    .spawn_scoped(s, helper);
+            }
+            self.confirm(candidate, only)
+        });
+        self.looks.extend(
+            grown
+                .into_inner()
+                .unwrap_or_else(std::sync::PoisonError::into_inner),
+        );
+        found
+    }
+
     /// Re-grows the walls of the candidate's branch points at its phase
     /// until the phase settles; then the states of the webs that close in
     /// the whole network there.
@@ -1226,8 +1321,13 @@ impl<'a> WebFinder<'a> {
         let mut z_cand = candidate;
         let mut theta = phase_mod_pi(z_cand.arg());
         {
-            let net = self.network_at(theta, self.settings.scan_tolerance, only);
-            let close = self.passes(&net).iter().any(|p| {
+            let key = (theta.to_bits(), only.map(<[usize]>::to_vec));
+            let look = match self.looks.iter().position(|(k, _)| *k == key) {
+                Some(at) => self.looks.swap_remove(at).1,
+                None => self.ctx.quick_look(theta, only),
+            };
+            self.count(look.walls, look.limit);
+            let close = look.passes.iter().any(|p| {
                 same_up_to_sign(p.w, z_cand, WEB_MATCH)
                     && p.distance <= QUICK_FRACTION * self.radii[p.to]
             });
