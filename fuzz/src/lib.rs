@@ -425,6 +425,7 @@ pub fn spectrum_settings_from(b: &mut Bytes) -> SpectrumSettings {
         max_candidates: 1 + usize::from(b.u8()) % 40,
         bounds_factor: b.log_uniform(1.0, 1000.0),
         max_networks: 1 + usize::from(b.u8()) % 20,
+        threads: 1,
     }
 }
 

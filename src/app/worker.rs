@@ -222,7 +222,11 @@ pub fn compute_spectrum(
     _: ProgressFn<'_, ()>,
 ) -> Result<Arc<Spectrum>, String> {
     let curve = scenario.build_curve().map_err(|e| e.to_string())?;
-    let settings = scenario.spectrum_settings().map_err(|e| e.to_string())?;
+    // One spectrum job runs at a time: it may use every core.
+    let settings = scenario
+        .spectrum_settings()
+        .map_err(|e| e.to_string())?
+        .on_every_core();
     let spectrum = crate::spectrum::find(&curve, &settings, cancel, &mut |_| {});
     Ok(Arc::new(spectrum))
 }

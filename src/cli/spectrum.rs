@@ -196,10 +196,11 @@ struct SpectrumJson {
     pairings: Vec<Vec<Option<i64>>>,
 }
 
-/// The finder's settings of the loaded scenario (its reach after --reach).
+/// The finder's settings of the loaded scenario (its reach after --reach),
+/// on every core: a command computes one spectrum at a time.
 pub fn settings_for(loaded: &Loaded) -> anyhow::Result<SpectrumSettings> {
     match loaded.scenario.spectrum_settings() {
-        Ok(s) => Ok(s),
+        Ok(s) => Ok(s.on_every_core()),
         Err(e) => bad_input!("{e}"),
     }
 }

@@ -33,6 +33,7 @@
 pub mod annulus;
 pub mod crossing;
 mod limit;
+mod ordered;
 pub mod pair;
 pub mod period;
 pub mod ring;

@@ -40,6 +40,14 @@ pub struct SpectrumSettings {
     /// (so saddles that swing wide are still followed). Range [1, 1000].
     /// Default 4.
     pub bounds_factor: f64,
+    /// Rank >= 3: threads one search may use (the phase scan's networks
+    /// and the networks on both sides of a critical phase are grown on
+    /// them; the spectrum is the same, byte for byte, for any count, but a
+    /// [`crate::CancelToken::cancel_at_poll`] token trips at a
+    /// reproducible point only on one thread). Range [1, 256]. Default 1:
+    /// `scan` already runs one point per core; the `spectrum` command and
+    /// the window ask for every core.
+    pub threads: usize,
 }
 
 impl Default for SpectrumSettings {
@@ -54,11 +62,22 @@ impl Default for SpectrumSettings {
             max_candidates: 2000,
             max_networks: 1500,
             bounds_factor: 4.0,
+            threads: 1,
         }
     }
 }
 
 impl SpectrumSettings {
+    /// These settings with `threads` set to every core of the machine (1
+    /// where that is unknown), at most 256.
+    pub fn on_every_core(self) -> Self {
+        let cores = std::thread::available_parallelism().map_or(1, |n| n.get());
+        Self {
+            threads: cores.clamp(1, 256),
+            ..self
+        }
+    }
+
     /// Checks every field against its documented range; each error names
     /// the field, its value and the range.
     pub fn validate(&self) -> Result<(), Vec<SettingError>> {
@@ -102,6 +121,7 @@ impl SpectrumSettings {
             self.bounds_factor,
             Allowed::closed(1.0, 1000.0),
         );
+        check("threads", self.threads as f64, Allowed::closed(1.0, 256.0));
         if errors.is_empty() {
             Ok(())
         } else {

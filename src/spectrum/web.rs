@@ -47,6 +47,16 @@
 //! token is polled by every network. A search stopped by either says so
 //! and keeps what it confirmed.
 //!
+//! **Threads.** With `threads > 1` the scan's networks, which do not depend
+//! on what the search has found, are grown ahead on helper threads and
+//! taken in phase order ([`super::ordered`]); while a refinement's own
+//! network is looked at, the networks it needs if it settles (both sides
+//! of the phase, the whole network at it) are grown beside it under a
+//! token of their own, and stopped and never counted when it does not
+//! settle. Every network the search counts is the one the one-thread
+//! search grows, counted at the same step, so the spectrum (stats
+//! included) is the same for any thread count.
+//!
 //! The scan covers theta in [0, pi): the network at theta + pi is the same
 //! set of curves with every type ij read as ji (both sides of the wall
 //! equation change sign, and a crossing of ji and kj composes to ki where
@@ -70,6 +80,7 @@
 //! (warned).
 
 use super::annulus;
+use super::ordered;
 use super::pair::{Pair, PairQuadrature};
 use super::saddle::{capture_radii, direction_hint};
 use super::warning::{SpectrumWarning, SpectrumWarningKind};
@@ -353,7 +364,24 @@ enum EdgeEnd {
     Joint(Complex64),
 }
 
+/// The edges of webs already computed on one network, by wall and end:
+/// webs found at one phase share walls (a web and its own pass, trees with
+/// common parents), and an edge's quadrature is most of a web's cost.
+#[derive(Default)]
+struct EdgeMemo(std::collections::HashMap<(usize, [u64; 4]), Option<WebEdge>>);
+
+impl EdgeEnd {
+    /// The end as a key, exact to the bit.
+    fn key(self) -> [u64; 4] {
+        match self {
+            EdgeEnd::Branch { k, closest, to } => [0, k as u64, closest as u64, to as u64],
+            EdgeEnd::Joint(z) => [1, z.re.to_bits(), z.im.to_bits(), 0],
+        }
+    }
+}
+
 /// One wall of a web, as far as the web uses it.
+#[derive(Clone)]
 struct WebEdge {
     /// `int (y_i - y_j) dz` from its start to where the web uses it.
     z: Complex64,
@@ -380,7 +408,9 @@ struct Web {
     problems: Vec<SpectrumWarningKind>,
 }
 
-struct WebFinder<'a> {
+/// What every thread of a search reads: the curve and the finder's fixed
+/// data (each thread builds its own; they are cheap).
+struct Ctx<'a> {
     curve: &'a Curve,
     settings: &'a SpectrumSettings,
     cancel: &'a CancelToken,
@@ -389,6 +419,62 @@ struct WebFinder<'a> {
     radii: Vec<f64>,
     /// Per branch point: see [`ramification`].
     ramification: Vec<u32>,
+}
+
+impl<'a> Ctx<'a> {
+    fn new(curve: &'a Curve, settings: &'a SpectrumSettings, cancel: &'a CancelToken) -> Self {
+        Self {
+            curve,
+            settings,
+            cancel,
+            quad: PairQuadrature::new(curve),
+            bounds: finder_bounds(curve, settings),
+            radii: capture_radii(curve),
+            ramification: ramification(curve),
+        }
+    }
+}
+
+/// The outcome of one refinement of a candidate's phase.
+enum Step {
+    Rejected,
+    /// Not settled: the next phase and charge to try.
+    Next(f64, Complex64),
+    /// Settled: the network, its passes and the web that closes.
+    Settled(Box<Settled>),
+}
+
+struct Settled {
+    net: Network,
+    passes: Vec<Pass>,
+    web: Web,
+    memo: EdgeMemo,
+}
+
+/// A candidate's first look: its network at the scan's tolerance, read
+/// for passes.
+struct QuickLook {
+    walls: usize,
+    limit: GrowthLimit,
+    passes: Vec<Pass>,
+}
+
+/// Quick looks grown ahead for candidates further down the queue, by
+/// phase (to the bit) and branch points.
+type Looks = Vec<((u64, Option<Vec<usize>>), QuickLook)>;
+
+/// What the search takes from one network of the phase scan.
+struct ScanLook {
+    walls: usize,
+    limit: GrowthLimit,
+    /// Candidate charges with the branch points of their trees.
+    candidates: Vec<(Complex64, Option<Vec<usize>>)>,
+}
+
+struct WebFinder<'a> {
+    ctx: Ctx<'a>,
+    /// Quick looks grown ahead on other threads, not yet taken.
+    looks: Looks,
     states: Vec<BpsState>,
     /// Candidates already confirmed or rejected, with their branch points:
     /// webs of equal charge through other branch points are other states
@@ -442,46 +528,21 @@ fn nearest_segment(points: &[Complex64], z: Complex64) -> usize {
         .unwrap_or(0)
 }
 
-impl<'a> WebFinder<'a> {
-    fn new(curve: &'a Curve, settings: &'a SpectrumSettings, cancel: &'a CancelToken) -> Self {
-        Self {
-            curve,
-            settings,
-            cancel,
-            quad: PairQuadrature::new(curve),
-            bounds: finder_bounds(curve, settings),
-            radii: capture_radii(curve),
-            ramification: ramification(curve),
-            states: Vec::new(),
-            tried: Vec::new(),
-            queue: Vec::new(),
-            stats: SpectrumStats::default(),
-            cancelled: false,
-            budget_hit: false,
-            networks_hit: false,
-            truncated: false,
-            unknown_notes: Vec::new(),
-            web_notes: Vec::new(),
-            error_notes: Vec::new(),
-        }
+/// The finder reads its fixed data through `Deref`.
+impl<'a> std::ops::Deref for WebFinder<'a> {
+    type Target = Ctx<'a>;
+    fn deref(&self) -> &Ctx<'a> {
+        &self.ctx
     }
+}
 
-    fn stop(&mut self) -> bool {
-        if self.cancel.is_cancelled() {
-            self.cancelled = true;
-        }
-        if self.stats.networks_grown >= self.settings.max_networks {
-            self.networks_hit = true;
-        }
-        self.cancelled || self.budget_hit || self.networks_hit
-    }
-
+impl<'a> Ctx<'a> {
     /// The network (joints included) at `theta`, reaching just past the
     /// reach: all of it, or only the walls from the branch points `only`
     /// and their descendants (every wall of a web descends from the web's
     /// own branch points, and its joints are crossings among those walls,
     /// so a web closes in that part exactly as in the whole network).
-    fn network_at(&mut self, theta: f64, tolerance: f64, only: Option<&[usize]>) -> Network {
+    fn grow(&self, theta: f64, tolerance: f64, only: Option<&[usize]>) -> Network {
         let settings = Settings {
             reach: self.settings.reach * (1.0 + 1e-6),
             tolerance,
@@ -494,15 +555,37 @@ impl<'a> WebFinder<'a> {
         // Grown here rather than by `network::compute`: the finder needs
         // no flatness diagnostics, which cost as much as a tenth of a network.
         let all: Vec<usize> = (0..self.curve.branch_points.len()).collect();
-        let net = self.partial_network(theta, &settings, only.unwrap_or(&all));
-        self.stats.walls_grown += net.walls.len();
-        self.stats.networks_grown += 1;
-        match net.limit {
-            GrowthLimit::Cancelled => self.cancelled = true,
-            GrowthLimit::MaxWalls | GrowthLimit::MaxGenerations => self.truncated = true,
-            GrowthLimit::None => {}
+        self.partial_network(theta, &settings, only.unwrap_or(&all))
+    }
+
+    /// A candidate's quick look at `theta` (see [`WebFinder::confirm`]).
+    fn quick_look(&self, theta: f64, only: Option<&[usize]>) -> QuickLook {
+        let net = self.grow(theta, self.settings.scan_tolerance, only);
+        QuickLook {
+            walls: net.walls.len(),
+            limit: net.limit,
+            passes: self.passes(&net),
         }
-        net
+    }
+
+    /// The scan's network at its `m`-th phase, read for candidates: the
+    /// charge and tree of every pass below the reach, in pass order.
+    fn scan_look(&self, m: usize) -> ScanLook {
+        let n = self.settings.theta_samples;
+        let theta = PI * (m as f64 + 0.5) / n as f64;
+        let net = self.grow(theta, self.settings.scan_tolerance, None);
+        let reach = self.settings.reach;
+        let candidates = self
+            .passes(&net)
+            .into_iter()
+            .filter(|pass| pass.w.norm() < reach * (1.0 + 1e-6))
+            .map(|pass| (pass.w, tree_endpoints(&net, &pass)))
+            .collect();
+        ScanLook {
+            walls: net.walls.len(),
+            limit: net.limit,
+            candidates,
+        }
     }
 
     fn partial_network(&self, theta: f64, settings: &Settings, bps: &[usize]) -> Network {
@@ -544,29 +627,374 @@ impl<'a> WebFinder<'a> {
         }
     }
 
-    fn run(&mut self, progress: &mut dyn FnMut(f64)) {
-        let reach = self.settings.reach;
-        let n = self.settings.theta_samples;
-        for m in 0..n {
-            if self.stop() {
-                break;
-            }
-            let theta = PI * (m as f64 + 0.5) / n as f64;
-            let net = self.network_at(theta, self.settings.scan_tolerance, None);
-            if self.stop() {
-                break;
-            }
-            for pass in self.passes(&net) {
-                if pass.w.norm() < reach * (1.0 + 1e-6) {
-                    let ends = tree_endpoints(&net, &pass);
-                    if !self.known(pass.w, ends.as_deref()) {
-                        self.queue.push((pass.w, ends));
+    /// Every pass of a wall of `net` through the capture disc of a simple
+    /// branch point where the wall's own pair meets.
+    fn passes(&self, net: &Network) -> Vec<Pass> {
+        let mut out = Vec::new();
+        for (w_idx, wall) in net.walls.iter().enumerate() {
+            let own = match wall.origin {
+                Origin::BranchPoint { index, .. } => Some(index),
+                Origin::Puncture { .. } | Origin::Joint { .. } => None,
+            };
+            // The box of the points looked at (all but the first).
+            let (box_lo, box_hi) = wall.points.iter().skip(1).fold(
+                (
+                    Complex64::new(f64::INFINITY, f64::INFINITY),
+                    Complex64::new(f64::NEG_INFINITY, f64::NEG_INFINITY),
+                ),
+                |(lo, hi), p| {
+                    (
+                        Complex64::new(lo.re.min(p.z.re), lo.im.min(p.z.im)),
+                        Complex64::new(hi.re.max(p.z.re), hi.im.max(p.z.im)),
+                    )
+                },
+            );
+            for (to, bp) in self.curve.branch_points.iter().enumerate() {
+                if self.ramification[to] == 0 || own == Some(to) {
+                    continue;
+                }
+                let r = self.radii[to];
+                // A wall whose box stays a radius away from b cannot pass.
+                if box_lo.re - bp.z.re >= r
+                    || bp.z.re - box_hi.re >= r
+                    || box_lo.im - bp.z.im >= r
+                    || bp.z.im - box_hi.im >= r
+                {
+                    continue;
+                }
+                // Runs of consecutive points inside the disc. A point a
+                // radius away in one coordinate is outside: |dz| >= |dx|
+                // holds for the computed norm too, so this skips only the
+                // points the norm would put outside.
+                let mut run: Vec<(usize, f64)> = Vec::new();
+                for k in 1..=wall.points.len() {
+                    let inside = wall.points.get(k).and_then(|p| {
+                        let dz = p.z - bp.z;
+                        if dz.re.abs() >= r || dz.im.abs() >= r {
+                            return None;
+                        }
+                        let d = dz.norm();
+                        (d < r).then_some(d)
+                    });
+                    match inside {
+                        Some(d) => run.push((k, d)),
+                        None if !run.is_empty() => {
+                            if let Some(p) = self.make_pass(net.theta, w_idx, wall, to, &run) {
+                                out.push(p);
+                            }
+                            run.clear();
+                        }
+                        None => {}
                     }
                 }
             }
-            self.stats.theta_samples += 1;
-            self.drain_queue();
-            progress((m + 1) as f64 / n as f64);
+        }
+        out
+    }
+
+    fn make_pass(
+        &self,
+        theta: f64,
+        w_idx: usize,
+        wall: &Wall,
+        to: usize,
+        run: &[(usize, f64)],
+    ) -> Option<Pass> {
+        let &(closest, distance) = run.iter().min_by(|a, b| a.1.total_cmp(&b.1))?;
+        let r = self.radii[to];
+        // Start the tail where the pair is well separated: the point of the
+        // run up to the closest one nearest to a quarter of the radius.
+        let &(k, _) = run
+            .iter()
+            .filter(|(k, _)| *k <= closest)
+            .min_by(|a, b| (a.1 - 0.25 * r).abs().total_cmp(&(b.1 - 0.25 * r).abs()))?;
+        let z_k = wall.points[k].z;
+        let hint = direction_hint(wall, k, theta)?;
+        let pair = match pair_by_hint(&self.curve.roots_unordered(z_k), hint) {
+            Some(pair) => pair,
+            None => {
+                let pair = self.labelled_pair(wall, k, z_k)?;
+                if (pair.diff() / hint).re <= 0.0 {
+                    return None;
+                }
+                pair
+            }
+        };
+        let tail = self.tail(z_k, pair, to)?;
+        let w = Complex64::from_polar(wall.points[k].mass, theta) + tail;
+        w.is_finite().then_some(Pass {
+            wall: w_idx,
+            to,
+            closest,
+            distance,
+            k,
+            w,
+        })
+    }
+
+    /// `int (y_i - y_j) dz` from `z0` straight into branch point `to`, when
+    /// the pair meets there.
+    fn tail(&self, z0: Complex64, pair: Pair, to: usize) -> Option<Complex64> {
+        let b = self.curve.branch_points.get(to)?.z;
+        self.quad
+            .to_special_point(z0, pair, b, self.ramification[to])
+    }
+
+    /// The wall's two sheets at `z`, whose labels are those of the wall's
+    /// segment starting at point `idx`.
+    fn labelled_pair(&self, wall: &Wall, idx: usize, z: Complex64) -> Option<Pair> {
+        let labels = self.curve.sheets_at(z).ok()?;
+        let kind = wall.kind_at(idx);
+        Some(Pair {
+            a: labels[kind.i as usize],
+            b: labels[kind.j as usize],
+        })
+    }
+
+    /// The tree of walls behind a pass, its independent charge and why its
+    /// index may be unknown.
+    fn web_of(&self, net: &Network, pass: &Pass, memo: &mut EdgeMemo) -> Option<Web> {
+        let mut edges: Vec<(usize, EdgeEnd)> = vec![(
+            pass.wall,
+            EdgeEnd::Branch {
+                k: pass.k,
+                closest: pass.closest,
+                to: pass.to,
+            },
+        )];
+        let mut endpoints = vec![pass.to];
+        let mut i = 0;
+        while i < edges.len() {
+            if edges.len() > net.walls.len() + 1 {
+                return None;
+            }
+            let w = edges[i].0;
+            i += 1;
+            match net.walls[w].origin {
+                Origin::BranchPoint { index, .. } => endpoints.push(index),
+                Origin::Puncture { .. } => return None,
+                Origin::Joint { index } => {
+                    let joint = net.joints.get(index)?;
+                    for &parent in &joint.parents {
+                        edges.push((parent, EdgeEnd::Joint(joint.z)));
+                    }
+                }
+            }
+        }
+        let mut problems = Vec::new();
+        let mut walls_used: Vec<usize> = edges.iter().map(|e| e.0).collect();
+        walls_used.sort_unstable();
+        walls_used.dedup();
+        if walls_used.len() < edges.len() {
+            problems.push(SpectrumWarningKind::IndexUnknownWallUsedTwice);
+        }
+        endpoints.sort_unstable();
+        let n_ends = endpoints.len();
+        endpoints.dedup();
+        if endpoints.len() < n_ends {
+            problems.push(SpectrumWarningKind::IndexUnknownBranchPointTwice);
+        }
+        if endpoints.iter().any(|&e| self.ramification[e] > 2) {
+            problems.push(SpectrumWarningKind::IndexUnknownSpecialPoint);
+        }
+        let mut z = Complex64::new(0.0, 0.0);
+        let mut polylines = Vec::new();
+        let mut lift = Vec::new();
+        for &(w, end) in &edges {
+            let e = match memo.0.get(&(w, end.key())) {
+                Some(known) => known.clone(),
+                None => {
+                    let e = self.edge(&net.walls[w], end);
+                    memo.0.insert((w, end.key()), e.clone());
+                    e
+                }
+            }?;
+            if e.counts.iter().any(|mu| mu.abs() != 1) {
+                problems.push(SpectrumWarningKind::IndexUnknownSeveralSolitons);
+            }
+            z += e.z;
+            polylines.push(e.line);
+            lift.push(e.lift);
+        }
+        Some(Web {
+            z,
+            z_wall: pass.w,
+            endpoints,
+            polylines,
+            lift,
+            problems,
+        })
+    }
+
+    /// One wall of a web as far as the web uses it (see [`WebEdge`]).
+    fn edge(&self, wall: &Wall, end: EdgeEnd) -> Option<WebEdge> {
+        let pts: Vec<Complex64> = wall.points.iter().map(|p| p.z).collect();
+        let origin = match wall.origin {
+            Origin::BranchPoint { index, .. } => Some(index),
+            Origin::Puncture { .. } => return None,
+            Origin::Joint { .. } => None,
+        };
+        let primary = match origin {
+            Some(index) => Some(self.curve.branch_points.get(index)?.z),
+            None => None,
+        };
+        let first = usize::from(primary.is_some());
+        let (last, end_z, draw_last) = match end {
+            EdgeEnd::Branch { k, closest, .. } => (k, None, closest),
+            EdgeEnd::Joint(z) => {
+                let s = nearest_segment(&pts, z);
+                (s, Some(z), s)
+            }
+        };
+        let mut path: Vec<Complex64> = if last >= first {
+            pts[first..=last].to_vec()
+        } else {
+            Vec::new()
+        };
+        path.extend(end_z);
+        let start = *path.first()?;
+        let kind = wall.kind_at(first.min(last));
+        let lift = LiftedEdge {
+            points: path.clone(),
+            sheets: [usize::from(kind.i), usize::from(kind.j)],
+            from: primary,
+            to: match end {
+                EdgeEnd::Branch { to, .. } => Some(self.curve.branch_points[to].z),
+                EdgeEnd::Joint(_) => None,
+            },
+        };
+        let mut pair = self.labelled_pair(wall, first.min(last), start)?;
+        let mut total = Complex64::new(0.0, 0.0);
+        if let Some(index) = origin {
+            total -= self.tail(start, pair, index)?;
+        }
+        let (along, pair_end) = self.quad.polyline(&path, pair)?;
+        total += along;
+        pair = pair_end;
+        if let EdgeEnd::Branch { to, .. } = end {
+            total += self.tail(*path.last()?, pair, to)?;
+        }
+        let mut line: Vec<Complex64> = pts[..=draw_last.min(pts.len() - 1)].to_vec();
+        match end {
+            EdgeEnd::Branch { to, .. } => line.push(self.curve.branch_points[to].z),
+            EdgeEnd::Joint(z) => line.push(z),
+        }
+        let counts = (0..=last.min(pts.len() - 1))
+            .map(|i| wall.multiplicity_at(i))
+            .collect();
+        Some(WebEdge {
+            z: total,
+            line,
+            counts,
+            lift,
+        })
+    }
+}
+
+impl<'a> WebFinder<'a> {
+    fn new(curve: &'a Curve, settings: &'a SpectrumSettings, cancel: &'a CancelToken) -> Self {
+        Self {
+            ctx: Ctx::new(curve, settings, cancel),
+            looks: Vec::new(),
+            states: Vec::new(),
+            tried: Vec::new(),
+            queue: Vec::new(),
+            stats: SpectrumStats::default(),
+            cancelled: false,
+            budget_hit: false,
+            networks_hit: false,
+            truncated: false,
+            unknown_notes: Vec::new(),
+            web_notes: Vec::new(),
+            error_notes: Vec::new(),
+        }
+    }
+
+    fn stop(&mut self) -> bool {
+        if self.cancel.is_cancelled() {
+            self.cancelled = true;
+        }
+        if self.stats.networks_grown >= self.settings.max_networks {
+            self.networks_hit = true;
+        }
+        self.cancelled || self.budget_hit || self.networks_hit
+    }
+
+    /// The network of [`Ctx::grow`], counted against the budgets.
+    fn network_at(&mut self, theta: f64, tolerance: f64, only: Option<&[usize]>) -> Network {
+        let net = self.ctx.grow(theta, tolerance, only);
+        self.count(net.walls.len(), net.limit);
+        net
+    }
+
+    /// Counts a network grown (here or on another thread) in the stats.
+    fn count(&mut self, walls: usize, limit: GrowthLimit) {
+        self.stats.walls_grown += walls;
+        self.stats.networks_grown += 1;
+        match limit {
+            GrowthLimit::Cancelled => self.cancelled = true,
+            GrowthLimit::MaxWalls | GrowthLimit::MaxGenerations => self.truncated = true,
+            GrowthLimit::None => {}
+        }
+    }
+
+    /// The networks of `jobs` (phase, tolerance, branch points), grown on
+    /// up to `threads` threads and counted in order, as one thread would.
+    fn networks_at(&mut self, jobs: &[(f64, f64, Option<&[usize]>)]) -> Vec<Network> {
+        let ctx = &self.ctx;
+        let mut nets = Vec::with_capacity(jobs.len());
+        ordered::each_in_order(
+            self.settings.threads,
+            jobs.len(),
+            self.cancel,
+            || (),
+            |(), k| {
+                let (theta, tolerance, only) = jobs[k];
+                ctx.grow(theta, tolerance, only)
+            },
+            |_, net| {
+                nets.push(net);
+                true
+            },
+        );
+        for net in &nets {
+            self.count(net.walls.len(), net.limit);
+        }
+        nets
+    }
+
+    /// The phase scan. Its networks do not depend on what the search has
+    /// found, so other threads grow them ahead (each with its own
+    /// [`Ctx`]) while this one confirms candidates; they are taken in
+    /// phase order, so the search is the one-thread search step by step.
+    fn run(&mut self, progress: &mut dyn FnMut(f64)) {
+        let n = self.settings.theta_samples;
+        let (curve, settings, cancel) = (self.curve, self.settings, self.cancel);
+        if !self.stop() {
+            ordered::each_in_order(
+                settings.threads,
+                n,
+                cancel,
+                || Ctx::new(curve, settings, cancel),
+                |ctx, m| ctx.scan_look(m),
+                |m, look| {
+                    self.count(look.walls, look.limit);
+                    if self.stop() {
+                        return false;
+                    }
+                    for (w, ends) in look.candidates {
+                        if !self.known(w, ends.as_deref()) {
+                            self.queue.push((w, ends));
+                        }
+                    }
+                    self.stats.theta_samples += 1;
+                    self.drain_queue();
+                    progress((m + 1) as f64 / n as f64);
+                    // Polled where the one-loop scan polls: before each
+                    // next phase only (cancel_at_poll tokens stay exact).
+                    m + 1 < n && !self.stop()
+                },
+            );
         }
         self.drain_queue();
         progress(1.0);
@@ -761,7 +1189,9 @@ impl<'a> WebFinder<'a> {
             }
             self.stats.candidates_tried += 1;
             self.tried.push((z, ends.clone()));
-            for (state, problems) in self.confirm(z, ends.as_deref()) {
+            let ahead = self.next_candidates();
+            let found = self.confirm_looking_ahead(z, ends.as_deref(), ahead);
+            for (state, problems) in found {
                 let dup = self.states.iter().any(|s| {
                     same_up_to_sign(s.z, state.z, CANDIDATE_MATCH) && s.endpoints == state.endpoints
                 });
@@ -808,100 +1238,72 @@ impl<'a> WebFinder<'a> {
         }
     }
 
-    /// Every pass of a wall of `net` through the capture disc of a simple
-    /// branch point where the wall's own pair meets.
-    fn passes(&self, net: &Network) -> Vec<Pass> {
-        let mut out = Vec::new();
-        for (w_idx, wall) in net.walls.iter().enumerate() {
-            let own = match wall.origin {
-                Origin::BranchPoint { index, .. } => Some(index),
-                Origin::Puncture { .. } | Origin::Joint { .. } => None,
-            };
-            for (to, bp) in self.curve.branch_points.iter().enumerate() {
-                if self.ramification[to] == 0 || own == Some(to) {
-                    continue;
-                }
-                let r = self.radii[to];
-                // Runs of consecutive points inside the disc.
-                let mut run: Vec<(usize, f64)> = Vec::new();
-                for k in 1..=wall.points.len() {
-                    let inside = wall.points.get(k).and_then(|p| {
-                        let d = (p.z - bp.z).norm();
-                        (d < r).then_some(d)
-                    });
-                    match inside {
-                        Some(d) => run.push((k, d)),
-                        None if !run.is_empty() => {
-                            if let Some(p) = self.make_pass(net.theta, w_idx, wall, to, &run) {
-                                out.push(p);
-                            }
-                            run.clear();
-                        }
-                        None => {}
-                    }
-                }
+    /// The phases and branch points of the candidates the queue would
+    /// confirm next if nothing were found now (up to one per spare
+    /// thread), whose quick looks are not grown yet.
+    fn next_candidates(&self) -> Vec<(f64, Option<Vec<usize>>)> {
+        let spare = self.settings.threads.saturating_sub(1);
+        let mut out: Vec<(f64, Option<Vec<usize>>)> = Vec::new();
+        for (z, ends) in self.queue.iter().rev() {
+            if out.len() >= spare {
+                break;
             }
+            if self.known(*z, ends.as_deref()) || z.norm() >= self.settings.reach || z.norm() == 0.0
+            {
+                continue;
+            }
+            let theta = phase_mod_pi(z.arg());
+            let seen = |t: f64, e: &Option<Vec<usize>>| t.to_bits() == theta.to_bits() && e == ends;
+            if out.iter().any(|(t, e)| seen(*t, e))
+                || self
+                    .looks
+                    .iter()
+                    .any(|(k, _)| seen(f64::from_bits(k.0), &k.1))
+            {
+                continue;
+            }
+            out.push((theta, ends.clone()));
         }
         out
     }
 
-    fn make_pass(
-        &self,
-        theta: f64,
-        w_idx: usize,
-        wall: &Wall,
-        to: usize,
-        run: &[(usize, f64)],
-    ) -> Option<Pass> {
-        let &(closest, distance) = run.iter().min_by(|a, b| a.1.total_cmp(&b.1))?;
-        let r = self.radii[to];
-        // Start the tail where the pair is well separated: the point of the
-        // run up to the closest one nearest to a quarter of the radius.
-        let &(k, _) = run
-            .iter()
-            .filter(|(k, _)| *k <= closest)
-            .min_by(|a, b| (a.1 - 0.25 * r).abs().total_cmp(&(b.1 - 0.25 * r).abs()))?;
-        let z_k = wall.points[k].z;
-        let hint = direction_hint(wall, k, theta)?;
-        let pair = match pair_by_hint(&self.curve.roots_unordered(z_k), hint) {
-            Some(pair) => pair,
-            None => {
-                let pair = self.labelled_pair(wall, k, z_k)?;
-                if (pair.diff() / hint).re <= 0.0 {
-                    return None;
-                }
-                pair
+    /// [`Self::confirm`], while other threads grow the quick looks of the
+    /// candidates `ahead` (kept for when they come up; a look that is
+    /// never asked for is dropped uncounted).
+    fn confirm_looking_ahead(
+        &mut self,
+        candidate: Complex64,
+        only: Option<&[usize]>,
+        ahead: Vec<(f64, Option<Vec<usize>>)>,
+    ) -> Vec<(BpsState, Vec<SpectrumWarningKind>)> {
+        if ahead.is_empty() {
+            return self.confirm(candidate, only);
+        }
+        let (curve, settings, cancel) = (self.curve, self.settings, self.cancel);
+        let grown = std::sync::Mutex::new(Vec::new());
+        let found = std::thread::scope(|s| {
+            for (theta, ends) in &ahead {
+                let grown = &grown;
+                let helper = move || {
+                    let look =
+                        Ctx::new(curve, settings, cancel).quick_look(*theta, ends.as_deref());
+                    if let Ok(mut g) = grown.lock() {
+                        g.push(((theta.to_bits(), ends.clone()), look));
+                    }
+                };
+                // Not started: the look is grown when its candidate comes up.
+                let _ = std::thread::Builder::new()
+                    .stack_size(ordered::HELPER_STACK)
+                    .spawn_scoped(s, helper);
             }
-        };
-        let tail = self.tail(z_k, pair, to)?;
-        let w = Complex64::from_polar(wall.points[k].mass, theta) + tail;
-        w.is_finite().then_some(Pass {
-            wall: w_idx,
-            to,
-            closest,
-            distance,
-            k,
-            w,
-        })
-    }
-
-    /// `int (y_i - y_j) dz` from `z0` straight into branch point `to`, when
-    /// the pair meets there.
-    fn tail(&self, z0: Complex64, pair: Pair, to: usize) -> Option<Complex64> {
-        let b = self.curve.branch_points.get(to)?.z;
-        self.quad
-            .to_special_point(z0, pair, b, self.ramification[to])
-    }
-
-    /// The wall's two sheets at `z`, whose labels are those of the wall's
-    /// segment starting at point `idx`.
-    fn labelled_pair(&self, wall: &Wall, idx: usize, z: Complex64) -> Option<Pair> {
-        let labels = self.curve.sheets_at(z).ok()?;
-        let kind = wall.kind_at(idx);
-        Some(Pair {
-            a: labels[kind.i as usize],
-            b: labels[kind.j as usize],
-        })
+            self.confirm(candidate, only)
+        });
+        self.looks.extend(
+            grown
+                .into_inner()
+                .unwrap_or_else(std::sync::PoisonError::into_inner),
+        );
+        found
     }
 
     /// Re-grows the walls of the candidate's branch points at its phase
@@ -919,8 +1321,13 @@ impl<'a> WebFinder<'a> {
         let mut z_cand = candidate;
         let mut theta = phase_mod_pi(z_cand.arg());
         {
-            let net = self.network_at(theta, self.settings.scan_tolerance, only);
-            let close = self.passes(&net).iter().any(|p| {
+            let key = (theta.to_bits(), only.map(<[usize]>::to_vec));
+            let look = match self.looks.iter().position(|(k, _)| *k == key) {
+                Some(at) => self.looks.swap_remove(at).1,
+                None => self.ctx.quick_look(theta, only),
+            };
+            self.count(look.walls, look.limit);
+            let close = look.passes.iter().any(|p| {
                 same_up_to_sign(p.w, z_cand, WEB_MATCH)
                     && p.distance <= QUICK_FRACTION * self.radii[p.to]
             });
@@ -928,43 +1335,135 @@ impl<'a> WebFinder<'a> {
                 return Vec::new();
             }
         }
-        for _ in 0..MAX_REFINE {
+        for iteration in 0..MAX_REFINE {
             if self.stop() {
                 return Vec::new();
             }
-            let net = self.network_at(theta, self.settings.tolerance, only);
-            if self.stop() {
-                return Vec::new();
+            // The networks the states need if this iteration settles the
+            // phase: the whole ones just below and above it (the soliton
+            // data of the streets) and, where the search's own network is
+            // partial, the whole one at it (other webs closing there matter
+            // for the index).
+            let tol = self.settings.tolerance;
+            let at = phase_mod_pi(theta) + 0.0;
+            let mut sides = vec![
+                (at - RESOLUTION_EPS, tol, None),
+                (at + RESOLUTION_EPS, tol, None),
+            ];
+            if only.is_some() {
+                sides.insert(0, (theta, tol, None));
             }
-            let passes = self.passes(&net);
-            let Some(best) = passes
-                .iter()
-                .filter(|p| same_up_to_sign(p.w, z_cand, WEB_MATCH))
-                .min_by(|a, b| a.distance.total_cmp(&b.distance))
-            else {
-                return Vec::new();
-            };
-            let Some(web) = self.web_of(&net, best) else {
-                return Vec::new();
-            };
-            let theta_new = phase_mod_pi(web.z.arg());
-            if phase_gap(theta_new, theta) <= self.settings.phase_tolerance {
-                if best.distance > HIT_FRACTION * self.radii[best.to] {
-                    return Vec::new();
-                }
-                if only.is_none() {
-                    return self.states_at(&net, &passes, web);
-                }
-                // Other webs closing at the same phase matter for the index:
-                // look at the whole network.
-                let full = self.network_at(theta, self.settings.tolerance, None);
-                let all = self.passes(&full);
-                return self.states_at(&full, &all, web);
+            // On several threads they are grown ahead while this thread
+            // looks at the iteration's own network, and dropped (stopped
+            // by their own token, never counted) if it does not settle.
+            let ahead = self.settings.threads > 1 && iteration > 0;
+            let mut jobs = vec![(theta, tol, only)];
+            if ahead {
+                jobs.extend(sides.iter().copied());
             }
-            theta = theta_new;
-            z_cand = web.z;
+            let spare = CancelToken::new();
+            let (curve, settings, cancel) = (self.curve, self.settings, self.cancel);
+            // The iteration's own network (item 0, grown on this thread)
+            // answers to the search's token.
+            let own = Ctx::new(curve, settings, cancel);
+            let mut step = Step::Rejected;
+            let mut grown: Vec<Network> = Vec::new();
+            ordered::each_in_order(
+                settings.threads,
+                jobs.len(),
+                cancel,
+                || Ctx::new(curve, settings, &spare),
+                |ctx, k| {
+                    let (theta, tolerance, only) = jobs[k];
+                    let ctx = if k == 0 { &own } else { ctx };
+                    ctx.grow(theta, tolerance, only)
+                },
+                |k, net| {
+                    if k > 0 {
+                        grown.push(net);
+                        return true;
+                    }
+                    step = self.refine_step(net, theta, z_cand);
+                    let go_on = ahead && matches!(step, Step::Settled(_));
+                    if !go_on {
+                        spare.cancel();
+                    }
+                    go_on
+                },
+            );
+            match step {
+                Step::Rejected => return Vec::new(),
+                Step::Next(theta_new, z_new) => {
+                    theta = theta_new;
+                    z_cand = z_new;
+                }
+                Step::Settled(settled) => {
+                    let Settled {
+                        net,
+                        passes,
+                        web,
+                        memo,
+                    } = *settled;
+                    let mut nets = if ahead {
+                        for n in &grown {
+                            self.count(n.walls.len(), n.limit);
+                        }
+                        grown
+                    } else {
+                        self.networks_at(&sides)
+                    };
+                    let above = nets.pop();
+                    let below = nets.pop();
+                    let (Some(below), Some(above)) = (below, above) else {
+                        return Vec::new();
+                    };
+                    let sides = [&below, &above];
+                    return match nets.pop() {
+                        Some(full) => {
+                            let all = self.passes(&full);
+                            self.states_at(&full, &all, web, sides, EdgeMemo::default())
+                        }
+                        None => self.states_at(&net, &passes, web, sides, memo),
+                    };
+                }
+            }
         }
         Vec::new()
+    }
+
+    /// One iteration of [`Self::confirm`] on its network at `theta`
+    /// (counted here): the pass of the candidate's charge nearest its
+    /// branch point, and the phase of its web.
+    fn refine_step(&mut self, net: Network, theta: f64, z_cand: Complex64) -> Step {
+        self.count(net.walls.len(), net.limit);
+        if self.stop() {
+            return Step::Rejected;
+        }
+        let passes = self.passes(&net);
+        let Some(best) = passes
+            .iter()
+            .filter(|p| same_up_to_sign(p.w, z_cand, WEB_MATCH))
+            .min_by(|a, b| a.distance.total_cmp(&b.distance))
+        else {
+            return Step::Rejected;
+        };
+        let mut memo = EdgeMemo::default();
+        let Some(web) = self.web_of(&net, best, &mut memo) else {
+            return Step::Rejected;
+        };
+        let theta_new = phase_mod_pi(web.z.arg());
+        if phase_gap(theta_new, theta) > self.settings.phase_tolerance {
+            return Step::Next(theta_new, web.z);
+        }
+        if best.distance > HIT_FRACTION * self.radii[best.to] {
+            return Step::Rejected;
+        }
+        Step::Settled(Box::new(Settled {
+            net,
+            passes,
+            web,
+            memo,
+        }))
     }
 
     /// The states of all webs that close in `net` (at a critical phase),
@@ -975,6 +1474,8 @@ impl<'a> WebFinder<'a> {
         net: &Network,
         passes: &[Pass],
         confirmed: Web,
+        sides: [&Network; 2],
+        mut memo: EdgeMemo,
     ) -> Vec<(BpsState, Vec<SpectrumWarningKind>)> {
         // `+ 0.0` turns a phase of -0.0 into 0.0.
         let theta = phase_mod_pi(net.theta) + 0.0;
@@ -988,7 +1489,7 @@ impl<'a> WebFinder<'a> {
             if p.distance > HIT_FRACTION * self.radii[p.to] {
                 continue;
             }
-            let Some(web) = self.web_of(net, p) else {
+            let Some(web) = self.web_of(net, p, &mut memo) else {
                 continue;
             };
             if phase_gap(phase_mod_pi(web.z.arg()), theta) > same_phase {
@@ -1028,7 +1529,7 @@ impl<'a> WebFinder<'a> {
             }
         }
         let rot = Complex64::from_polar(1.0, theta);
-        let indices = self.street_indices(theta, &webs);
+        let indices = self.street_indices(sides, &webs);
         webs.into_iter()
             .zip(indices)
             .map(|(mut web, index)| {
@@ -1093,156 +1594,21 @@ impl<'a> WebFinder<'a> {
             .collect()
     }
 
-    /// Each web's index from the soliton data on its streets, read off the
-    /// full networks on both sides of the critical phase ([`solitons`]).
-    fn street_indices(&mut self, theta: f64, webs: &[Web]) -> Vec<StreetData> {
-        let tol = self.settings.tolerance;
-        let below = self.network_at(theta - RESOLUTION_EPS, tol, None);
-        let above = self.network_at(theta + RESOLUTION_EPS, tol, None);
+    /// Each web's index from the soliton data on its streets, read off
+    /// `sides`, the whole networks on both sides of the critical phase
+    /// ([`solitons`]).
+    fn street_indices(&self, sides: [&Network; 2], webs: &[Web]) -> Vec<StreetData> {
         webs.iter()
             .map(|web| {
                 solitons::street_data(
                     self.curve,
-                    [&below, &above],
+                    sides,
                     &web.polylines,
                     web.z.norm(),
                     self.settings.reach,
                 )
             })
             .collect()
-    }
-
-    /// The tree of walls behind a pass, its independent charge and why its
-    /// index may be unknown.
-    fn web_of(&self, net: &Network, pass: &Pass) -> Option<Web> {
-        let mut edges: Vec<(usize, EdgeEnd)> = vec![(
-            pass.wall,
-            EdgeEnd::Branch {
-                k: pass.k,
-                closest: pass.closest,
-                to: pass.to,
-            },
-        )];
-        let mut endpoints = vec![pass.to];
-        let mut i = 0;
-        while i < edges.len() {
-            if edges.len() > net.walls.len() + 1 {
-                return None;
-            }
-            let w = edges[i].0;
-            i += 1;
-            match net.walls[w].origin {
-                Origin::BranchPoint { index, .. } => endpoints.push(index),
-                Origin::Puncture { .. } => return None,
-                Origin::Joint { index } => {
-                    let joint = net.joints.get(index)?;
-                    for &parent in &joint.parents {
-                        edges.push((parent, EdgeEnd::Joint(joint.z)));
-                    }
-                }
-            }
-        }
-        let mut problems = Vec::new();
-        let mut walls_used: Vec<usize> = edges.iter().map(|e| e.0).collect();
-        walls_used.sort_unstable();
-        walls_used.dedup();
-        if walls_used.len() < edges.len() {
-            problems.push(SpectrumWarningKind::IndexUnknownWallUsedTwice);
-        }
-        endpoints.sort_unstable();
-        let n_ends = endpoints.len();
-        endpoints.dedup();
-        if endpoints.len() < n_ends {
-            problems.push(SpectrumWarningKind::IndexUnknownBranchPointTwice);
-        }
-        if endpoints.iter().any(|&e| self.ramification[e] > 2) {
-            problems.push(SpectrumWarningKind::IndexUnknownSpecialPoint);
-        }
-        let mut z = Complex64::new(0.0, 0.0);
-        let mut polylines = Vec::new();
-        let mut lift = Vec::new();
-        for &(w, end) in &edges {
-            let wall = &net.walls[w];
-            let e = self.edge(wall, end)?;
-            if e.counts.iter().any(|mu| mu.abs() != 1) {
-                problems.push(SpectrumWarningKind::IndexUnknownSeveralSolitons);
-            }
-            z += e.z;
-            polylines.push(e.line);
-            lift.push(e.lift);
-        }
-        Some(Web {
-            z,
-            z_wall: pass.w,
-            endpoints,
-            polylines,
-            lift,
-            problems,
-        })
-    }
-
-    /// One wall of a web as far as the web uses it (see [`WebEdge`]).
-    fn edge(&self, wall: &Wall, end: EdgeEnd) -> Option<WebEdge> {
-        let pts: Vec<Complex64> = wall.points.iter().map(|p| p.z).collect();
-        let origin = match wall.origin {
-            Origin::BranchPoint { index, .. } => Some(index),
-            Origin::Puncture { .. } => return None,
-            Origin::Joint { .. } => None,
-        };
-        let primary = match origin {
-            Some(index) => Some(self.curve.branch_points.get(index)?.z),
-            None => None,
-        };
-        let first = usize::from(primary.is_some());
-        let (last, end_z, draw_last) = match end {
-            EdgeEnd::Branch { k, closest, .. } => (k, None, closest),
-            EdgeEnd::Joint(z) => {
-                let s = nearest_segment(&pts, z);
-                (s, Some(z), s)
-            }
-        };
-        let mut path: Vec<Complex64> = if last >= first {
-            pts[first..=last].to_vec()
-        } else {
-            Vec::new()
-        };
-        path.extend(end_z);
-        let start = *path.first()?;
-        let kind = wall.kind_at(first.min(last));
-        let lift = LiftedEdge {
-            points: path.clone(),
-            sheets: [usize::from(kind.i), usize::from(kind.j)],
-            from: primary,
-            to: match end {
-                EdgeEnd::Branch { to, .. } => Some(self.curve.branch_points[to].z),
-                EdgeEnd::Joint(_) => None,
-            },
-        };
-        let mut pair = self.labelled_pair(wall, first.min(last), start)?;
-        let mut total = Complex64::new(0.0, 0.0);
-        if let Some(index) = origin {
-            total -= self.tail(start, pair, index)?;
-        }
-        let (along, pair_end) = self.quad.polyline(&path, pair)?;
-        total += along;
-        pair = pair_end;
-        if let EdgeEnd::Branch { to, .. } = end {
-            total += self.tail(*path.last()?, pair, to)?;
-        }
-        let mut line: Vec<Complex64> = pts[..=draw_last.min(pts.len() - 1)].to_vec();
-        match end {
-            EdgeEnd::Branch { to, .. } => line.push(self.curve.branch_points[to].z),
-            EdgeEnd::Joint(z) => line.push(z),
-        }
-        let counts = (0..=last.min(pts.len() - 1))
-            .map(|i| wall.multiplicity_at(i))
-            .collect();
-        Some(WebEdge {
-            z: total,
-            line,
-            counts,
-            lift,
-        })
     }
 
     fn into_spectrum(mut self, mut warnings: Vec<SpectrumWarning>) -> Spectrum {
@@ -1259,7 +1625,7 @@ impl<'a> WebFinder<'a> {
             SpectrumWarningKind::IndexUnknownNotListed,
         ));
         warnings.extend(summarised(
-            self.error_notes,
+            std::mem::take(&mut self.error_notes),
             "have charges that disagree by more than 1e-6 relative",
             SpectrumWarningKind::ZErrorNotListed,
         ));

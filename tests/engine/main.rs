@@ -38,5 +38,6 @@ mod spectrum_oscillator;
 mod spectrum_rank3;
 mod spectrum_su2;
 mod spectrum_symmetry;
+mod spectrum_threads;
 mod symmetry_laws;
 mod wild;
