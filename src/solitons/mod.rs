@@ -70,15 +70,32 @@ pub struct StreetData {
     pub problem: Option<String>,
 }
 
-/// The sign of the state's class in the engine's gauge against the
-/// twisted torus: `x -> x` or `x -> -x`. The two differ by a character of
-/// the lattice mod 2 (two quadratic refinements of one form differ by a
-/// linear one), which [`settle`] fixes from the states where only one sign
-/// gives whole indices.
+/// How the engine's series of a class reads in the twisted torus. Every
+/// soliton pair of a street closes into a loop that runs along walls of
+/// one foliation (which never cross) and through its branch points
+/// smoothly on the curve, so all pairs carry one sign against the
+/// twisted variables, and the class `k gamma` adds `(-1)^(k q(gamma))`
+/// with `q` a quadratic refinement of the pairing mod 2: the twisted
+/// series is `2 - Q(t x)`, `t = (-1)^(q(gamma))`. `Keep` is `q` odd (the
+/// coefficients become `(-1)^(k+1) c_k`: a saddle's `1 - x` stays), `Flip`
+/// is `q` even (all become `-c_k`: a ring's `1 - x - x^2` is `1 / (1 - x)`
+/// to that order). `q` is fixed over GF(2) by the states where only one
+/// reading is whole ([`crate::spectrum`]'s `twist::settle`).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Twist {
     Keep,
     Flip,
+}
+
+impl Twist {
+    /// The twisted coefficient of `x^k` from the engine's `c`.
+    fn apply(self, k: usize, c: i128) -> i128 {
+        match self {
+            Self::Keep if k % 2 == 0 => -c,
+            Self::Keep => c,
+            Self::Flip => -c,
+        }
+    }
 }
 
 /// What the street data say about the index.
@@ -87,7 +104,8 @@ pub enum Reading {
     /// One twist gives whole indices at every sample, all agreeing:
     /// `Omega(k gamma)` for k = 1, 2, ...
     Unique(Twist, Vec<i64>),
-    /// Both do (an even index); the lattice's character decides.
+    /// Both do (truncated at `x^1`, or an even index); the quadratic
+    /// refinement fixed by the other states decides.
     Either { keep: Vec<i64>, flip: Vec<i64> },
     /// No twist gives one answer.
     Neither(String),
@@ -100,13 +118,7 @@ fn indices_under(data: &StreetData, twist: Twist) -> Result<Vec<i64>, String> {
         let q: Vec<i128> =
             s.q.iter()
                 .enumerate()
-                .map(|(k, &c)| {
-                    if twist == Twist::Flip && k % 2 == 1 {
-                        -c
-                    } else {
-                        c
-                    }
-                })
+                .map(|(k, &c)| if k == 0 { c } else { twist.apply(k, c) })
                 .collect();
         let alpha = series::exponents(&q).map_err(|e| format!("{e:?}"))?;
         // alpha_k = k Omega(k gamma) n_p, n_p = covers / webs.

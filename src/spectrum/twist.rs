@@ -1,20 +1,20 @@
 //! Settling the sign of each class in the soliton series.
 //!
-//! A street's series `Q(x)` is computed in the engine's gauge, where the
-//! closed class x of a state may carry the opposite sign from the twisted
-//! torus of the KS formula. A state with an odd index fixes the sign of
-//! its class by itself (only one sign gives whole indices, see
-//! [`crate::solitons::read`]). The signs so fixed are linear in the charge
-//! mod 2 wherever this was looked at (three pure SU(3) points, five or six
-//! odd states each; a quadratic refinement of the pairing does not fit
-//! them), so they define a character `chi` on their span.
+//! A street's series `Q(x)` is computed in the engine's gauge; in the
+//! twisted torus of the KS formula the class `gamma` reads with `t =
+//! (-1)^(q(gamma))`, `q` a quadratic refinement of the pairing mod 2 (see
+//! [`crate::solitons::Twist`]). A state whose series is whole under one
+//! reading only fixes `q` at its class. Over GF(2), `q(n)` is `sum_i n_i
+//! l_i` plus `sum_(i<j) n_i n_j <e_i, e_j>` with `l` linear, so those
+//! states fix `l` on their span, and `q` then decides every class in it,
+//! of odd index or even.
 //!
-//! Where both readings are whole because the truncation reaches only
-//! x^1, `chi` chooses for an odd index (+-1, +-3). For an even one (+-2)
-//! it is *not* used: on a wall of pairing 2 its choice gives
-//! Omega(g1 + g2) = +2 where the KS identity requires -2
-//! (tests/engine/wild.rs). Such a state keeps its index unknown, and the
-//! warning gives both readings.
+//! Checked: at five pure SU(3) points every uniquely read state fits this
+//! `q` (as it fits a plain character, the rule used before). Where the two
+//! differ it is `q` that agrees with the KS identity: on the wall of
+//! pairing 2 (tests/engine/wild.rs) it gives Omega(g1 + g2) = -2, the
+//! character +2. At rank 2 it gives the W its -2 from the ring's streets
+//! (M and D read `q = 1`, and `q(D - M) = 1 + 1 + <D, M> = 0`).
 
 use super::warning::{SpectrumWarning, SpectrumWarningKind};
 use super::{Kind, Spectrum};
@@ -87,9 +87,29 @@ fn set_index(state: &mut super::BpsState, omegas: &[i64]) {
     };
 }
 
-/// Decides the indices left open between two even values (see the module
+/// `sum_(i<j) n_i n_j m_ij` mod 2: the part of `q` the pairing fixes.
+fn pairing_part(charge: &[i64], m: &[Vec<i64>]) -> bool {
+    let mut odd = false;
+    for (i, a) in charge.iter().enumerate() {
+        for (j, b) in charge.iter().enumerate().skip(i + 1) {
+            let mij = m.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0);
+            odd ^= (a.rem_euclid(2) * b.rem_euclid(2) * mij.rem_euclid(2)) % 2 == 1;
+        }
+    }
+    odd
+}
+
+/// Decides the indices whose series read whole both ways (see the module
 /// docs), and warns about those it cannot decide.
 pub(super) fn settle(spectrum: &mut Spectrum) {
+    let pairing = spectrum.lattice.as_ref().map(|l| l.pairing.clone());
+    // `Flip` is `q` even: the linear part l of q at the class is
+    // `[flip] + 1 + pairing part`.
+    let linear = |charge: &[i64], flipped: bool| {
+        pairing
+            .as_ref()
+            .map(|m| flipped ^ true ^ pairing_part(charge, m))
+    };
     let mut chi = Gf2Character::default();
     let mut consistent = true;
     let mut open = Vec::new();
@@ -99,8 +119,12 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
         let mask = s.charge.as_deref().and_then(parity);
         match (read(data), mask) {
             (Reading::Unique(twist, omegas), m) => {
-                if let Some(m) = m {
-                    consistent &= chi.insert(m, twist == Twist::Flip);
+                let value = s
+                    .charge
+                    .as_deref()
+                    .and_then(|c| linear(c, twist == Twist::Flip));
+                if let (Some(m), Some(v)) = (m, value) {
+                    consistent &= chi.insert(m, v);
                 }
                 // A state of several webs is read only once merged.
                 if s.omega.is_none() {
@@ -108,7 +132,13 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
                 }
             }
             (Reading::Either { keep, flip }, m) if s.omega.is_none() => {
-                open.push((idx, m, keep, flip));
+                // The pairing part of q at the class (None: no lattice).
+                let part = s
+                    .charge
+                    .as_deref()
+                    .zip(pairing.as_ref())
+                    .map(|(c, p)| pairing_part(c, p));
+                open.push((idx, m.zip(part), keep, flip));
             }
             _ => {}
         }
@@ -117,14 +147,15 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
         set_index(&mut spectrum.states[idx], &omegas);
     }
     for (idx, mask, keep, flip) in open {
-        let suggested = mask.filter(|_| consistent).and_then(|m| chi.value(m));
+        // Flip is q even: q = l + pairing part, flipped = 1 + q.
+        let suggested = mask
+            .filter(|_| consistent)
+            .and_then(|(m, part)| chi.value(m).map(|l| !(l ^ part)));
         let (a, b) = (
             keep.first().copied().unwrap_or(0),
             flip.first().copied().unwrap_or(0),
         );
-        // An odd index read to x^1 only (+-1, +-3, ...): chi decides, as
-        // it fits every odd state where it was checked.
-        if let (Some(flipped), true) = (suggested, a % 2 != 0) {
+        if let Some(flipped) = suggested {
             set_index(
                 &mut spectrum.states[idx],
                 if flipped { &flip } else { &keep },
@@ -132,13 +163,10 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
             continue;
         }
         let state = &spectrum.states[idx];
-        let why = match suggested {
-            Some(flipped) => format!(
-                "the sign the states of odd index give its class would say {}, but that rule fails the KS identity on a wall of pairing 2, so it is not used",
-                if flipped { b } else { a }
-            ),
-            None if consistent => "no state of odd index fixes the sign of its class".into(),
-            None => "the signs fixed by the states of odd index are not linear in the charge (a failed check)".into(),
+        let why = if consistent {
+            "no state read one way only fixes the sign of its class".to_string()
+        } else {
+            "the signs fixed by the states read one way only fit no quadratic refinement of the pairing (a failed check)".to_string()
         };
         let warning = SpectrumWarning::new(
             SpectrumWarningKind::IndexUnknownTwist,

@@ -179,3 +179,114 @@ fn no_state_with_an_index_is_also_warned_unknown() {
     }
     assert!(checked >= 6);
 }
+
+/// The two-way streets of a rank-2 ring domain: at the vector's phase, the
+/// walls of each branch point that run around the annulus and come back to
+/// it after the vector's mass (one loop per branch point).
+fn ring_streets(
+    cv: &Curve,
+    s: &wallflower::spectrum::BpsState,
+) -> Vec<Vec<num_complex::Complex64>> {
+    use wallflower::walls::{EndReason, Origin};
+    let settings = Settings {
+        reach: s.abs * 1.5,
+        tolerance: 1e-10,
+        ..Settings::default()
+    };
+    let net = compute(cv, s.phase, &settings, &CancelToken::new());
+    let mut seen = Vec::new();
+    let mut loops = Vec::new();
+    for wall in &net.walls {
+        let (Origin::BranchPoint { index, .. }, EndReason::BranchPoint(end)) =
+            (wall.origin, &wall.end)
+        else {
+            continue;
+        };
+        let mass = wall.points.last().map_or(0.0, |p| p.mass);
+        if *end == index && (mass - s.abs).abs() < 1e-6 * s.abs && !seen.contains(&index) {
+            seen.push(index);
+            loops.push(wall.points.iter().map(|p| p.z).collect());
+        }
+    }
+    loops
+}
+
+/// Rank 2, ring domains (deliverable 3 for vectors): the W's two streets
+/// are the loops around its annulus, each of the W's class, so merged as
+/// two webs of one charge `L(W) = Omega W` reads off both. The reading is
+/// the one the quadratic refinement of the pairing gives the W: the
+/// hypers read `q = 1` (their `1 - x` is whole one way only, or is the
+/// saddle's), and two hypers h1, h2 whose difference is the W give
+/// `q(W) = q(h1) + q(h2) + <h1, h2> = 0` mod 2, the `Flip` reading. It must
+/// give Omega(W) = -2, the ring finder's index, and where the truncation
+/// reaches `x^2` Omega(2W) = 0 (pure SU(2) has no state of charge 2W;
+/// Seiberg-Witten 1994, Bilal-Ferrari 1996). The other reading gives +2.
+#[test]
+fn rank_two_rings_give_minus_two_from_their_boundary_streets() {
+    use wallflower::solitons::merge;
+    // u = 3: |Z_W| = 30.56, x^1 only; u near the wall: |Z_W| = 18.49, x^2.
+    for (u, orders) in [
+        (c(3.0, 0.0), 1),
+        (c(-0.4285714285714288, -0.9047619047619051), 2),
+    ] {
+        let cv = curve_with("y^2 = (z^2 + 2 u z + 1)/z^3", &[("u", u)]);
+        let reach = 40.0;
+        let sp = spectrum(&cv, reach);
+        let w = sp
+            .states
+            .iter()
+            .find(|s| s.kind == Kind::Vector)
+            .expect("the W");
+        assert_eq!(w.omega, Some(-2));
+        // The parity of q(W) from two hypers that differ by the W.
+        let pairing = &sp.lattice.as_ref().expect("lattice").pairing;
+        let wc = w.charge.as_ref().expect("charge");
+        let hypers: Vec<&Vec<i64>> = sp
+            .states
+            .iter()
+            .filter(|s| s.kind == Kind::Hyper)
+            .filter_map(|s| s.charge.as_ref())
+            .collect();
+        let form = |a: &[i64], b: &[i64]| -> i64 {
+            (0..a.len())
+                .map(|i| {
+                    (0..b.len())
+                        .map(|j| a[i] * pairing[i][j] * b[j])
+                        .sum::<i64>()
+                })
+                .sum()
+        };
+        let (h1, h2) = hypers
+            .iter()
+            .flat_map(|a| hypers.iter().map(move |b| (*a, *b)))
+            .find(|(a, b)| {
+                let d: Vec<i64> = a.iter().zip(b.iter()).map(|(x, y)| x - y).collect();
+                d == *wc || d.iter().zip(wc).all(|(x, y)| *x == -y)
+            })
+            .expect("two hypers that differ by the W");
+        assert_eq!((1 + 1 + form(h1, h2)).rem_euclid(2), 0, "q(W) even");
+        let loops = ring_streets(&cv, w);
+        assert_eq!(loops.len(), 2, "u = {u}: one loop per branch point");
+        let [a, b] = sides(&cv, w.phase, reach);
+        let parts: Vec<_> = loops
+            .iter()
+            .map(|l| street_data(&cv, [&a, &b], std::slice::from_ref(l), w.abs, reach))
+            .collect();
+        for p in &parts {
+            assert!(p.samples.len() >= 4, "u = {u}: {p:?}");
+        }
+        let refs: Vec<_> = parts.iter().collect();
+        let data = merge(&refs, &loops, cv.length_scale());
+        match read(&data) {
+            Reading::Either { keep, flip } => {
+                assert_eq!(flip.len(), orders, "u = {u}");
+                assert_eq!(flip[0], -2, "u = {u}: the W's index");
+                if orders >= 2 {
+                    assert_eq!(flip[1], 0, "u = {u}: no state of charge 2W");
+                }
+                assert_eq!(keep[0], 2, "u = {u}: the other reading");
+            }
+            other => panic!("u = {u}: {other:?}"),
+        }
+    }
+}

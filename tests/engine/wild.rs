@@ -239,9 +239,9 @@ fn three_arrow_wall_binds_g1_plus_g2() {
 /// g1 + g2 and the first dyons 2 g1 + g2, g1 + 2 g2 of the SU(2) tower
 /// (KS 2008, the SU(2) identity). KS predicts Omega(g1 + g2) = -2 (a vector
 /// multiplet; Reineke 2003 from memory, P^1 for m = 2). The web's streets
-/// read +-2, and the sign of its class is not fixed: the engine used to
-/// choose +2, which no factorisation allows; it must give -2 or leave the
-/// index unknown, saying both readings.
+/// read +-2 and the sign of its class decides: a character of the charge
+/// mod 2 chose +2, which no factorisation allows; the quadratic refinement
+/// of the pairing fixed by the states read one way only gives -2.
 #[test]
 fn two_arrow_wall_binds_a_vector() {
     let reach = 25.0;
@@ -268,10 +268,7 @@ fn two_arrow_wall_binds_a_vector() {
         .iter()
         .find(|g| g.0 == [1, 1])
         .expect("g1 + g2 on the bound side");
-    assert!(
-        w.1.is_none() || w.1 == Some(-2),
-        "found {got:?}, KS predicts {want:?}"
-    );
+    assert_eq!(w.1, Some(-2), "found {got:?}, KS predicts {want:?}");
 }
 
 /// The KS identity to order 8 across a rank-3 wall (KS 2008): at
