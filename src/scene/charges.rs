@@ -86,6 +86,27 @@ impl ChargeOptions {
     }
 }
 
+/// The box a text shape covers (its width estimated as the labels' is).
+fn text_rect(shape: &Shape) -> Option<[f32; 4]> {
+    let Shape::Text {
+        pos,
+        text,
+        size,
+        anchor,
+        ..
+    } = shape
+    else {
+        return None;
+    };
+    let w = text_width_em(text) * size;
+    let x0 = match anchor {
+        Anchor::Start => pos[0],
+        Anchor::Middle => pos[0] - 0.5 * w,
+        Anchor::End => pos[0] - w,
+    };
+    Some([x0, pos[1] - size, x0 + w, pos[1] + 0.2 * size])
+}
+
 /// The view: centred on 0, the largest |Z| at 85% of the shorter half side.
 pub fn charge_transform(spectrum: &Spectrum, width: f32, height: f32) -> Transform {
     let extent = spectrum
@@ -181,14 +202,14 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
         foreground: fade(colors.foreground),
         ..colors
     };
-    push(
-        names::GRID,
-        if valid {
-            grid_named(&t, &colors, s, ["Re Z", "Im Z"])
-        } else {
-            Vec::new()
-        },
-    );
+    let grid = if valid {
+        grid_named(&t, &colors, s, ["Re Z", "Im Z"])
+    } else {
+        Vec::new()
+    };
+    // The tick labels and axis names, for the state labels to avoid.
+    let grid_text: Vec<[f32; 4]> = grid.iter().filter_map(text_rect).collect();
+    push(names::GRID, grid);
     let mut phase_line = Vec::new();
     if let (true, Some(theta)) = (valid, opts.phase.filter(|p| p.is_finite())) {
         let [hx, hy] = t.half_extents();
@@ -262,6 +283,7 @@ pub fn build_charges(spectrum: &Spectrum, opts: &ChargeOptions) -> Scene {
         .filter(|_| valid)
         .flat_map(|(_, st)| [t.to_screen(st.z), t.to_screen(-st.z)])
         .map(|[x, y]| [x - r, y - r, x + r, y + r])
+        .chain(grid_text)
         .collect();
     let mut labels = Vec::new();
     if opts.labels && valid {

@@ -287,3 +287,60 @@ fn a_stale_spectrum_is_drawn_faint() {
         assert!(u16::from(*b) * 2 < u16::from(*a), "{fresh:?} -> {stale:?}");
     }
 }
+
+/// The state labels keep clear of the axes' tick labels. Pure SU(3) at
+/// u = 2.45+0.1i, v = 0.4-0.1i has a vector at Z = -15.96+0.05i, at the
+/// left edge next to the tick "0" of Im Z, where its label used to sit on
+/// the tick. Boxes here are a little narrower than any glyph run (0.55 em
+/// a character), so an overlap found is a real one.
+#[test]
+fn state_labels_avoid_the_tick_labels() {
+    let curve = crate::support::curve_with(
+        "y^3 + u*y/z^2 + (1 + v*z + z^2)/z^4 = 0",
+        &[
+            ("u", Complex64::new(2.45, 0.1)),
+            ("v", Complex64::new(0.4, -0.1)),
+        ],
+    );
+    let spectrum = crate::support::spectrum(&curve, 20.0);
+    assert!(spectrum
+        .states
+        .iter()
+        .any(|s| s.z.re < -15.0 && s.z.im.abs() < 0.5));
+    let scene = build_charges(&spectrum, &ChargeOptions::new(800.0, 800.0, Theme::Paper));
+    let boxes = |layer: &str| -> Vec<[f32; 4]> {
+        scene
+            .layer(layer)
+            .unwrap()
+            .shapes
+            .iter()
+            .filter_map(|s| match s {
+                Shape::Text {
+                    pos,
+                    text,
+                    size,
+                    anchor,
+                    ..
+                } => {
+                    let w = 0.55 * size * text.chars().count() as f32;
+                    let x0 = match anchor {
+                        wallflower::scene::Anchor::Start => pos[0],
+                        wallflower::scene::Anchor::Middle => pos[0] - 0.5 * w,
+                        wallflower::scene::Anchor::End => pos[0] - w,
+                    };
+                    Some([x0, pos[1] - 0.8 * size, x0 + w, pos[1]])
+                }
+                _ => None,
+            })
+            .collect()
+    };
+    let labels = boxes(charge_layer_names::LABELS);
+    let ticks = boxes(charge_layer_names::GRID);
+    assert!(labels.len() >= 5 && ticks.len() >= 5);
+    for l in &labels {
+        for t in &ticks {
+            let overlap = l[0] < t[2] && t[0] < l[2] && l[1] < t[3] && t[1] < l[3];
+            assert!(!overlap, "label {l:?} on tick label {t:?}");
+        }
+    }
+}
