@@ -76,6 +76,15 @@ fn bracket(i: usize, n: usize) -> [usize; 2] {
     [lo, (lo + STRIDE).min(n - 1)]
 }
 
+/// The grid indices of the corners of the coarse cell holding `index`
+/// (repeated where the point lies on a coarse line).
+fn cell_corners(grid: &Grid, index: usize) -> impl Iterator<Item = usize> + '_ {
+    let (col, row) = grid.col_row(index);
+    bracket(row, grid.n_im)
+        .into_iter()
+        .flat_map(move |r| bracket(col, grid.n_re).map(move |c| grid.index(c, r)))
+}
+
 /// [`super::run`] with the coarse grid searched and the cells whose corners
 /// agree carried (see the module docs).
 pub fn run_carried(
@@ -115,19 +124,13 @@ pub fn run_carried(
         }
         let band = &indices[start..end];
         // Corners this band needs and does not have.
-        let mut needed: Vec<usize> = Vec::new();
-        for &index in band {
-            let (col, row) = grid.col_row(index);
-            for r in bracket(row, grid.n_im) {
-                for c in bracket(col, grid.n_re) {
-                    let k = grid.index(c, r);
-                    if !corners.contains_key(&k) && !needed.contains(&k) {
-                        needed.push(k);
-                    }
-                }
-            }
-        }
-        needed.sort_unstable();
+        let needed: Vec<usize> = band
+            .iter()
+            .flat_map(|&index| cell_corners(grid, index))
+            .filter(|k| !corners.contains_key(k))
+            .collect::<std::collections::BTreeSet<usize>>()
+            .into_iter()
+            .collect();
         let mut fresh: Vec<Corner> = Vec::new();
         let search_corner = |index: usize, token: &CancelToken| {
             corner_of(compute_point(grid, index, curve_at, &wide, token), curve_at)
@@ -248,12 +251,9 @@ fn carried(
 ) -> Option<PointResult> {
     let (col, row) = grid.col_row(index);
     let mut cell: Vec<(usize, &Corner)> = Vec::new();
-    for r in bracket(row, grid.n_im) {
-        for c in bracket(col, grid.n_re) {
-            let k = grid.index(c, r);
-            if !cell.iter().any(|(j, _)| *j == k) {
-                cell.push((k, corners.get(&k)?));
-            }
+    for k in cell_corners(grid, index) {
+        if !cell.iter().any(|(j, _)| *j == k) {
+            cell.push((k, corners.get(&k)?));
         }
     }
     let shared = |c: &Corner| -> Option<Vec<(SpectrumWarningKind, String)>> {

@@ -103,42 +103,32 @@ fn pairing_part(charge: &[i64], m: &[Vec<i64>]) -> bool {
 /// docs), and warns about those it cannot decide.
 pub(super) fn settle(spectrum: &mut Spectrum) {
     let pairing = spectrum.lattice.as_ref().map(|l| l.pairing.clone());
-    // `Flip` is `q` even: the linear part l of q at the class is
-    // `[flip] + 1 + pairing part`.
-    let linear = |charge: &[i64], flipped: bool| {
-        pairing
-            .as_ref()
-            .map(|m| flipped ^ true ^ pairing_part(charge, m))
+    // Over GF(2) a class is its parity mask and the pairing part of q;
+    // q = l(mask) + part, and `Flip` is q even.
+    let class_of = |s: &super::BpsState| {
+        let c = s.charge.as_deref()?;
+        Some((parity(c)?, pairing_part(c, pairing.as_ref()?)))
     };
-    let mut chi = Gf2Character::default();
+    let mut linear = Gf2Character::default();
     let mut consistent = true;
     let mut open = Vec::new();
     let mut decided = Vec::new();
     for (idx, s) in spectrum.states.iter().enumerate() {
         let Some(data) = &s.streets else { continue };
-        let mask = s.charge.as_deref().and_then(parity);
-        match (read(data), mask) {
-            (Reading::Unique(twist, omegas), m) => {
-                let value = s
-                    .charge
-                    .as_deref()
-                    .and_then(|c| linear(c, twist == Twist::Flip));
-                if let (Some(m), Some(v)) = (m, value) {
-                    consistent &= chi.insert(m, v);
+        let class = class_of(s);
+        match read(data) {
+            Reading::Unique(twist, omegas) => {
+                if let Some((mask, part)) = class {
+                    // l = q + part, q = 1 + [flipped].
+                    consistent &= linear.insert(mask, (twist == Twist::Keep) ^ part);
                 }
                 // A state of several webs is read only once merged.
                 if s.omega.is_none() {
                     decided.push((idx, omegas));
                 }
             }
-            (Reading::Either { keep, flip }, m) if s.omega.is_none() => {
-                // The pairing part of q at the class (None: no lattice).
-                let part = s
-                    .charge
-                    .as_deref()
-                    .zip(pairing.as_ref())
-                    .map(|(c, p)| pairing_part(c, p));
-                open.push((idx, m.zip(part), keep, flip));
+            Reading::Either { keep, flip } if s.omega.is_none() => {
+                open.push((idx, class, keep, flip));
             }
             _ => {}
         }
@@ -146,11 +136,11 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
     for (idx, omegas) in decided {
         set_index(&mut spectrum.states[idx], &omegas);
     }
-    for (idx, mask, keep, flip) in open {
-        // Flip is q even: q = l + pairing part, flipped = 1 + q.
-        let suggested = mask
+    for (idx, class, keep, flip) in open {
+        // Flipped exactly when q = l + part is even.
+        let suggested = class
             .filter(|_| consistent)
-            .and_then(|(m, part)| chi.value(m).map(|l| !(l ^ part)));
+            .and_then(|(mask, part)| linear.value(mask).map(|l| !(l ^ part)));
         let (a, b) = (
             keep.first().copied().unwrap_or(0),
             flip.first().copied().unwrap_or(0),
