@@ -109,6 +109,8 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
     // has none), gathered only once a second web comes.
     let mut parts: Vec<Option<Vec<StreetData>>> = Vec::new();
     let mut counts: Vec<usize> = Vec::new();
+    // Per merged state, each web's polylines.
+    let mut lines: Vec<Vec<Vec<Vec<Complex64>>>> = Vec::new();
     for s in std::mem::take(&mut spectrum.states) {
         let same = s.charge.as_ref().and_then(|c| {
             let key = canonical(c);
@@ -122,6 +124,7 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
                 if counts[k] == 1 {
                     parts[k] = m.streets.take().map(|d| vec![d]);
                 }
+                lines[k].push(s.web.clone());
                 m.web.extend(s.web);
                 m.z_error = m.z_error.max(s.z_error);
                 m.kind = Kind::Other;
@@ -135,18 +138,20 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
             None => {
                 parts.push(None);
                 counts.push(1);
+                lines.push(vec![s.web.clone()]);
                 merged.push(s);
             }
         }
     }
     let scale = curve.length_scale();
-    for ((m, part), n) in merged.iter_mut().zip(parts).zip(counts) {
+    for (((m, part), n), webs) in merged.iter_mut().zip(parts).zip(counts).zip(lines) {
         if n < 2 {
             continue;
         }
         let data = part.map(|p| {
             let refs: Vec<&StreetData> = p.iter().collect();
-            crate::solitons::merge(&refs, &m.web, scale)
+            let webs: Vec<&[Vec<Complex64>]> = webs.iter().map(Vec::as_slice).collect();
+            crate::solitons::merge(&refs, &webs, scale)
         });
         // Read again once the twist is known (spectrum::twist); say now
         // when the streets cannot decide.

@@ -15,6 +15,16 @@
 //! agreement is the method's own check, and a disagreement leaves the
 //! index unknown with the reason.
 //!
+//! Where states of independent charges align (a symmetric curve puts
+//! many at phase 0), `Q` is a series in several classes: the masses of
+//! the phase's states give its units (those no other is a sum of), each
+//! soliton pair's class is read off its mass as a combination of them,
+//! and `Q` factors uniquely as `prod_n (1 - X_n)^(alpha_n)` over all the
+//! classes ([`series::exponents_in`]); each state reads its own ray of
+//! exponents. The signs of the classes then need `q` on every unit and
+//! the units' pairing, so such states are read once charges are known
+//! ([`Reading::Joint`], [`read_with`]).
+//!
 //! Truncation: the networks reach a mass R, so every product of two
 //! solitons of total mass up to R is present and `Q` is exact up to
 //! `x^floor(R / |Z|)`: the index of `gamma` needs only `x^1`, and the
@@ -26,6 +36,7 @@ pub mod streets;
 use crate::curve::Curve;
 use crate::network::Network;
 use num_complex::Complex64;
+use series::{exponents_in, mass, Terms};
 use streets::{series_at, SampleError};
 
 /// Offset of the two resolutions from the critical phase, radians. Small
@@ -45,23 +56,28 @@ const TIGHT: f64 = 1e-3;
 /// Sample points along each polyline of a web, as fractions of its length.
 const SAMPLES: [f64; 3] = [0.3, 0.5, 0.7];
 
-/// One sampled point of a street: its series and how often the state's
-/// chain covers the street there, `covers / webs` times.
+/// One sampled point of a street: its series and how often each web of
+/// the state runs through it.
 #[derive(Clone, Debug, PartialEq)]
 pub struct StreetSample {
     pub x: Complex64,
-    /// `q[k]`: coefficient of `x^k`, x the class of the state.
-    pub q: Vec<i128>,
-    /// Webs of the state through x (overlapping walls counted each time).
-    pub covers: i64,
-    /// Webs the state is the average of (1 for one web; see [`merge`]).
-    pub webs: i64,
+    /// The coefficient of each class of the phase (see [`StreetData`]).
+    pub q: Terms,
+    /// `covers[r]`: how often web r of the state runs through x
+    /// (overlapping walls counted each time); one entry for one web.
+    pub covers: Vec<i64>,
 }
 
 /// The soliton data of a web: a series at each usable sample point.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct StreetData {
     pub samples: Vec<StreetSample>,
+    /// The masses of the phase's units: one at a generic critical phase.
+    pub units: Vec<f64>,
+    /// The state's class over the units.
+    pub class: Vec<u32>,
+    /// The networks' reach: the series are exact up to this mass.
+    pub reach: f64,
     /// `Omega(k gamma)` is complete for `k |Z|` up to this.
     pub complete_to: f64,
     /// Samples tried (some fall next to a cut or a joint and are skipped).
@@ -88,12 +104,43 @@ pub enum Twist {
 }
 
 impl Twist {
-    /// The twisted coefficient of `x^k` from the engine's `c`.
-    fn apply(self, k: usize, c: i128) -> i128 {
-        match self {
-            Self::Keep if k % 2 == 0 => -c,
-            Self::Keep => c,
-            Self::Flip => -c,
+    /// The signs of a phase of one unit.
+    fn signs(self) -> Signs {
+        Signs {
+            q: vec![self == Self::Keep],
+            pairing: vec![vec![false]],
+        }
+    }
+}
+
+/// The quadratic refinement on the classes of a phase: `q` on each unit
+/// and the units' pairing mod 2, so `q(n) = sum_i n_i q_i + sum_(i<j) n_i
+/// n_j <u_i, u_j>` (mod 2). The term of class n reads `c_n` where q(n)
+/// is odd and `-c_n` where it is even (the [`Twist`] rule).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Signs {
+    pub q: Vec<bool>,
+    pub pairing: Vec<Vec<bool>>,
+}
+
+impl Signs {
+    fn q_of(&self, n: &[u32]) -> bool {
+        let mut odd = false;
+        for (i, &a) in n.iter().enumerate() {
+            odd ^= a % 2 == 1 && self.q.get(i).copied().unwrap_or(false);
+            for (j, &b) in n.iter().enumerate().skip(i + 1) {
+                let p = self.pairing.get(i).and_then(|r| r.get(j)).copied();
+                odd ^= a % 2 == 1 && b % 2 == 1 && p.unwrap_or(false);
+            }
+        }
+        odd
+    }
+
+    fn apply(&self, n: &[u32], c: i128) -> i128 {
+        if self.q_of(n) {
+            c
+        } else {
+            -c
         }
     }
 }
@@ -107,41 +154,89 @@ pub enum Reading {
     /// Both do (truncated at `x^1`, or an even index); the quadratic
     /// refinement fixed by the other states decides.
     Either { keep: Vec<i64>, flip: Vec<i64> },
+    /// The phase holds several units: the signs need their pairing, known
+    /// with the charges ([`read_with`]).
+    Joint,
     /// No twist gives one answer.
     Neither(String),
 }
 
-/// `Omega(k gamma)`, k = 1.., from every sample under one twist, or why not.
-fn indices_under(data: &StreetData, twist: Twist) -> Result<Vec<i64>, String> {
-    let mut agreed: Option<Vec<i64>> = None;
-    for s in &data.samples {
-        let q: Vec<i128> =
-            s.q.iter()
-                .enumerate()
-                .map(|(k, &c)| if k == 0 { c } else { twist.apply(k, c) })
-                .collect();
-        let alpha = series::exponents(&q).map_err(|e| format!("{e:?}"))?;
-        // alpha_k = k Omega(k gamma) n_p, n_p = covers / webs.
-        let mut omegas = Vec::with_capacity(alpha.len());
-        for (k, &a) in alpha.iter().enumerate().skip(1) {
-            let per = k as i64 * s.covers;
-            let a = a * s.webs;
-            if a % per != 0 {
-                return Err(format!(
-                    "a street's exponents {:?} are not multiples of its cover {}",
-                    &alpha[1..],
-                    s.covers
-                ));
-            }
-            omegas.push(a / per);
-        }
-        match &agreed {
-            None => agreed = Some(omegas),
-            Some(o) if *o == omegas => {}
-            Some(_) => return Err("its streets give different indices".into()),
-        }
+/// `Omega(k gamma)`, k = 1.., from every sample under the signs of the
+/// phase's classes, or why not.
+pub fn read_with(data: &StreetData, signs: &Signs) -> Result<Vec<i64>, String> {
+    if let Some(p) = &data.problem {
+        return Err(p.clone());
     }
-    agreed.ok_or_else(|| "no point of its streets could be sampled".into())
+    let own = mass(&data.class, &data.units);
+    if own.is_nan() || own <= 0.0 {
+        return Err("the state's class has no mass".into());
+    }
+    let n = ((data.reach * (1.0 + 1e-9)) / own).floor().max(1.0) as u32;
+    if data.samples.is_empty() {
+        return Err("no point of its streets could be sampled".into());
+    }
+    let mut alphas = Vec::with_capacity(data.samples.len());
+    for s in &data.samples {
+        let twisted: Terms =
+            s.q.iter()
+                .map(|(k, &c)| (k.clone(), signs.apply(k, c)))
+                .collect();
+        alphas.push(exponents_in(&twisted, &data.units, data.reach).map_err(|e| format!("{e:?}"))?);
+    }
+    // alpha_(k gamma)(p) = k sum_r w_r covers_r(p), Omega(k gamma) = sum_r w_r.
+    let covers: Vec<&[i64]> = data.samples.iter().map(|s| s.covers.as_slice()).collect();
+    let mut omegas = Vec::with_capacity(n as usize);
+    for k in 1..=n {
+        let ray: Vec<u32> = data.class.iter().map(|&c| c * k).collect();
+        let rhs: Vec<f64> = alphas
+            .iter()
+            .map(|a| a.get(&ray).copied().unwrap_or(0) as f64 / f64::from(k))
+            .collect();
+        let total = chain_weight(&covers, &rhs)?;
+        let whole = total.round();
+        if (total - whole).abs() > 1e-6 {
+            return Err(format!(
+                "its streets give the fractional index {total:.4} to {k} times its class"
+            ));
+        }
+        omegas.push(whole as i64);
+    }
+    Ok(omegas)
+}
+
+/// `sum_r w_r` for the weights with `rhs[p] = sum_r w_r covers[p][r]` at
+/// every sample p: the chain `L` of the class is `sum_r w_r` times the
+/// webs' chains there. Weights need not be unique, but their sum is when
+/// it is fixed at all: two webs' chains of one class differ by a chain
+/// of class 0, so `sum_r v_r = 0` whenever `sum_r v_r chain_r = 0`.
+fn chain_weight(covers: &[&[i64]], rhs: &[f64]) -> Result<f64, String> {
+    use nalgebra::{DMatrix, DVector};
+    let webs = covers.iter().map(|c| c.len()).max().unwrap_or(0);
+    if webs == 0 || covers.iter().any(|c| c.len() != webs) {
+        return Err("its samples do not say which webs run through them".into());
+    }
+    let a = DMatrix::from_fn(covers.len(), webs, |p, r| covers[p][r] as f64);
+    let b = DVector::from_column_slice(rhs);
+    let w = a
+        .clone()
+        .svd(true, true)
+        .solve(&b, 1e-9)
+        .map_err(|e| e.to_string())?;
+    if (&a * &w - &b).amax() > 1e-6 {
+        return Err("its streets give different indices".into());
+    }
+    // The sum is fixed when the all-ones vector is in the row space.
+    let at = a.transpose();
+    let ones = DVector::from_element(webs, 1.0);
+    let y = at
+        .clone()
+        .svd(true, true)
+        .solve(&ones, 1e-9)
+        .map_err(|e| e.to_string())?;
+    if (&at * &y - &ones).amax() > 1e-6 {
+        return Err("a web of the state has no sampled street of its own".into());
+    }
+    Ok(w.sum())
 }
 
 /// Reads the index off the street data (see [`Reading`]).
@@ -149,9 +244,12 @@ pub fn read(data: &StreetData) -> Reading {
     if let Some(p) = &data.problem {
         return Reading::Neither(p.clone());
     }
+    if data.units.len() > 1 {
+        return Reading::Joint;
+    }
     match (
-        indices_under(data, Twist::Keep),
-        indices_under(data, Twist::Flip),
+        read_with(data, &Twist::Keep.signs()),
+        read_with(data, &Twist::Flip.signs()),
     ) {
         (Ok(keep), Ok(flip)) => Reading::Either { keep, flip },
         (Ok(k), Err(_)) => Reading::Unique(Twist::Keep, k),
@@ -170,10 +268,27 @@ pub fn street_data(
     abs: f64,
     reach: f64,
 ) -> StreetData {
+    street_data_in(curve, sides, web, &[abs], &[1], reach)
+}
+
+/// [`street_data`] at a phase of several units (`units`, their masses),
+/// the web's class over them `class`.
+pub fn street_data_in(
+    curve: &Curve,
+    sides: [&Network; 2],
+    web: &[Vec<Complex64>],
+    units: &[f64],
+    class: &[u32],
+    reach: f64,
+) -> StreetData {
     let scale = curve.length_scale();
-    let n = ((reach * (1.0 + 1e-9)) / abs).floor().max(1.0) as usize;
+    let abs = mass(class, units);
+    let n = ((reach * (1.0 + 1e-9)) / abs).floor().max(1.0);
     let mut data = StreetData {
-        complete_to: n as f64 * abs,
+        complete_to: n * abs,
+        units: units.to_vec(),
+        class: class.to_vec(),
+        reach,
         ..StreetData::default()
     };
     for line in web {
@@ -194,12 +309,11 @@ pub fn street_data(
             let band = (BAND * scale).min(0.25 * room);
             for net in sides {
                 data.tried += 1;
-                match series_at(curve, net, x, band, TIGHT * scale, abs, n) {
+                match series_at(curve, net, x, band, TIGHT * scale, units, reach) {
                     Ok(s) => data.samples.push(StreetSample {
                         x,
                         q: s.q,
-                        covers,
-                        webs: 1,
+                        covers: vec![covers],
                     }),
                     Err(SampleError::CutBetween | SampleError::SeveralPairs) => {}
                     Err(e) => {
@@ -214,40 +328,54 @@ pub fn street_data(
 }
 
 /// The street data of one state made of several webs of one charge at one
-/// phase: every web is a chain of the class, `gamma = sum_p n_p(r) [p]`, so
-/// `gamma` is also their average, `sum_p (N_p / m) [p]` with `N_p` the
-/// webs' covers summed and m the number of webs, and `L(gamma) = Omega
-/// gamma` holds with `alpha(p) = Omega N_p / m` when the streets' exponents
-/// are proportional to the summed covers (checked at every sample, as for
-/// one web; where they are not, the readings disagree and the index stays
-/// unknown). `lines` are all the webs' polylines.
-pub fn merge(parts: &[&StreetData], lines: &[Vec<Complex64>], scale: f64) -> StreetData {
-    let webs = parts.len() as i64;
+/// phase (`parts[r]` read on web r, whose polylines are `webs[r]`): each
+/// sample says how often every web runs through it, and the reading finds
+/// the combination of the webs' chains that the exponents make (see
+/// [`read_with`]).
+pub fn merge(parts: &[&StreetData], webs: &[&[Vec<Complex64>]], scale: f64) -> StreetData {
+    let first = parts.first();
     let mut out = StreetData {
+        units: first.map(|p| p.units.clone()).unwrap_or_default(),
+        class: first.map(|p| p.class.clone()).unwrap_or_default(),
+        reach: first.map_or(0.0, |p| p.reach),
         complete_to: parts
             .iter()
             .map(|p| p.complete_to)
             .fold(f64::INFINITY, f64::min),
         ..StreetData::default()
     };
+    let same_units = |u: &[f64]| {
+        u.len() == out.units.len()
+            && u.iter()
+                .zip(&out.units)
+                .all(|(a, b)| (a - b).abs() <= 1e-6 * a.abs().max(1.0))
+    };
+    let mut problem = None;
     for part in parts {
         out.tried += part.tried;
-        if out.problem.is_none() {
-            out.problem.clone_from(&part.problem);
+        if problem.is_none() {
+            problem.clone_from(&part.problem);
+        }
+        if !same_units(&part.units) || part.class != out.class {
+            problem.get_or_insert_with(|| "its webs were read in different classes".to_string());
         }
         for s in &part.samples {
-            let covers = lines
+            let covers = webs
                 .iter()
-                .filter(|l| to_line(l, s.x) <= 1e-9 * scale)
-                .count()
-                .max(1) as i64;
+                .map(|lines| {
+                    lines
+                        .iter()
+                        .filter(|l| to_line(l, s.x) <= 1e-9 * scale)
+                        .count() as i64
+                })
+                .collect();
             out.samples.push(StreetSample {
                 covers,
-                webs,
                 ..s.clone()
             });
         }
     }
+    out.problem = problem;
     out
 }
 
@@ -280,17 +408,68 @@ mod tests {
     use super::*;
 
     fn web_of(x: Complex64, q: Vec<i128>) -> StreetData {
+        let reach = (q.len() - 1) as f64;
         StreetData {
             samples: vec![StreetSample {
                 x,
-                q,
-                covers: 1,
-                webs: 1,
+                q: q.iter()
+                    .enumerate()
+                    .skip(1)
+                    .map(|(k, &c)| (vec![k as u32], c))
+                    .collect(),
+                covers: vec![1],
             }],
-            complete_to: 10.0,
+            units: vec![1.0],
+            class: vec![1],
+            reach,
+            complete_to: reach,
             tried: 1,
             problem: None,
         }
+    }
+
+    /// Two units (masses 6 and 9, reach 20): on a street of the first that
+    /// the state of their sum also covers, `(1 - x)(1 - x y)` in the
+    /// twisted variables. Both states read it off their own rays, each
+    /// under the signs of the classes; other signs give other (here still
+    /// whole) indices, which the refinement fixed elsewhere decides.
+    #[test]
+    fn a_phase_of_two_units_reads_each_state_on_its_own_ray() {
+        // True series 1 - x - x y (x^2 y is beyond the reach); with q odd on
+        // the first unit and even on the second (pairing 0), q(x y) is odd,
+        // so the engine's coefficients are the true ones.
+        let q: Terms = [(vec![1, 0], -1), (vec![1, 1], -1)].into_iter().collect();
+        let data = |class: Vec<u32>| StreetData {
+            samples: vec![StreetSample {
+                x: Complex64::new(0.0, 0.0),
+                q: q.clone(),
+                covers: vec![1],
+            }],
+            units: vec![6.0, 9.0],
+            class,
+            reach: 20.0,
+            complete_to: 20.0,
+            tried: 1,
+            problem: None,
+        };
+        let right = Signs {
+            q: vec![true, false],
+            pairing: vec![vec![false; 2]; 2],
+        };
+        assert_eq!(read(&data(vec![1, 0])), Reading::Joint);
+        assert_eq!(read_with(&data(vec![1, 0]), &right), Ok(vec![1, 0, 0]));
+        assert_eq!(read_with(&data(vec![1, 1]), &right), Ok(vec![1]));
+        let wrong = Signs {
+            q: vec![true, true],
+            ..right.clone()
+        };
+        assert_eq!(read_with(&data(vec![1, 1]), &wrong), Ok(vec![-1]));
+        // An odd pairing of the units flips the sum back.
+        let paired = Signs {
+            q: vec![true, true],
+            pairing: vec![vec![false, true], vec![true, false]],
+        };
+        assert_eq!(read_with(&data(vec![1, 1]), &paired), Ok(vec![1]));
     }
 
     /// One web with `Q = 1 - x` is a hypermultiplet; two webs of one charge
@@ -303,10 +482,12 @@ mod tests {
         let a = web_of(c(0.0), vec![1, -1, 0]);
         assert_eq!(read(&a), Reading::Unique(Twist::Keep, vec![1, 0]));
         let b = web_of(c(5.0), vec![1, -1, 0]);
-        let lines = vec![vec![c(-1.0), c(1.0)], vec![c(4.0), c(6.0)]];
-        let both = merge(&[&a, &b], &lines, 1.0);
+        let lines = [vec![c(-1.0), c(1.0)], vec![c(4.0), c(6.0)]];
+        let apart: Vec<&[Vec<Complex64>]> = lines.chunks(1).collect();
+        let both = merge(&[&a, &b], &apart, 1.0);
         assert_eq!(both.samples.len(), 2);
-        assert!(both.samples.iter().all(|s| s.covers == 1 && s.webs == 2));
+        assert_eq!(both.samples[0].covers, vec![1, 0]);
+        assert_eq!(both.samples[1].covers, vec![0, 1]);
         // An even index: both signs of the class give whole indices.
         assert_eq!(
             read(&both),
@@ -316,15 +497,15 @@ mod tests {
             }
         );
         // Overlapping webs cover the shared street twice: back to 1.
-        let shared = vec![vec![c(-1.0), c(1.0)], vec![c(-1.0), c(1.0)]];
-        let on_one = merge(&[&a, &a], &shared, 1.0);
+        let shared = [vec![c(-1.0), c(1.0)], vec![c(-1.0), c(1.0)]];
+        let on_one = merge(&[&a, &a], &[&shared[..1], &shared[1..]], 1.0);
         assert_eq!(read(&on_one), Reading::Unique(Twist::Keep, vec![1, 0]));
-        // Streets that disagree leave it open.
-        let c2 = web_of(c(5.0), vec![1, 1, 1]);
-        assert!(matches!(
-            read(&merge(&[&a, &c2], &lines, 1.0)),
-            Reading::Neither(_)
-        ));
+        // Two points of one web's streets that disagree leave it open.
+        let mut split = web_of(c(0.0), vec![1, -1, 0]);
+        let mut other = split.samples[0].clone();
+        other.q.insert(vec![1], -2);
+        split.samples.push(other);
+        assert!(matches!(read(&split), Reading::Neither(_)));
         let d = web_of(c(0.0), vec![1, 0, -1]);
         assert!(matches!(read(&d), Reading::Neither(_)));
     }

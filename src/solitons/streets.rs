@@ -16,6 +16,7 @@
 //! counts of [`crate::network::jump`]); the rank-2 saddle fixes that this
 //! reads `Q = 1 - x` for a hypermultiplet.
 
+use super::series::{decompose, mass, Terms};
 use crate::curve::Curve;
 use crate::geometry::to_segment;
 use crate::network::Network;
@@ -44,8 +45,10 @@ pub enum SampleError {
     SeveralPairs,
     /// No walls in one of the two directions: x is not on a street.
     OneWay,
-    /// A closed class is not a whole multiple of the unit.
+    /// A closed class is no combination of the units.
     NotAMultiple,
+    /// A closed class fits two combinations of the units.
+    Ambiguous,
     Overflow,
 }
 
@@ -102,25 +105,28 @@ const CLUSTER: f64 = 50.0;
 /// The series at a sample point.
 #[derive(Clone, Debug, PartialEq)]
 pub struct StreetSeries {
-    /// `q[k]` is the coefficient of `x^k`, `x = X_gamma` for the unit class.
-    pub q: Vec<i128>,
+    /// The coefficient of each closed class (a multi-index over the
+    /// phase's units) of mass up to the reach.
+    pub q: Terms,
     /// The street's pair, in the labels at the point.
     pub pair: [usize; 2],
     /// Walls in the ij and the ji direction.
     pub counts: [usize; 2],
 }
 
-/// `Q(x)` from the passes at `x`, in powers of the class of mass `unit`, up
-/// to `x^n`: walls within `band` are looked at, and those in the cluster
-/// nearest x (at least `tight` wide) are the street's.
+/// `Q(x)` from the passes at `x`, in the closed classes of the phase's
+/// units (the masses of the classes no other class at the phase is a sum
+/// of; one unit at a generic critical phase), up to mass `reach`: walls
+/// within `band` are looked at, and those in the cluster nearest x (at
+/// least `tight` wide) are the street's.
 pub fn series_at(
     curve: &Curve,
     net: &Network,
     x: Complex64,
     band: f64,
     tight: f64,
-    unit: f64,
-    n: usize,
+    units: &[f64],
+    reach: f64,
 ) -> Result<StreetSeries, SampleError> {
     let mut passes = passes_near(net, x, band);
     // The street's own walls hug it (within about (eps |Z|)^(2/3) of it);
@@ -167,26 +173,27 @@ pub fn series_at(
         .map(|(p, _)| p)
         .filter(|p| [usize::from(p.kind.j), usize::from(p.kind.i)] == pair)
         .collect();
-    let mut q = vec![0_i128; n + 1];
-    q[0] = 1;
+    let mut q = Terms::new();
+    let smallest = units.iter().copied().fold(f64::INFINITY, f64::min);
     for a in &forward {
         for b in &backward {
-            let k = (a.mass + b.mass) / unit;
-            let whole = k.round();
-            if (k - whole).abs() > 1e-3 * k.max(1.0) || whole < 1.0 {
-                // Beyond the truncation a stray class does no harm.
-                if k <= n as f64 + 0.5 {
-                    return Err(SampleError::NotAMultiple);
-                }
+            let m = a.mass + b.mass;
+            // Beyond the truncation a stray class does no harm.
+            if m > reach * (1.0 + 1e-3) {
                 continue;
             }
-            let k = whole as usize;
-            if k <= n {
-                let term = i128::from(a.mu)
-                    .checked_mul(i128::from(b.mu))
-                    .ok_or(SampleError::Overflow)?;
-                q[k] = q[k].checked_add(term).ok_or(SampleError::Overflow)?;
+            let class = decompose(m, units, 1e-3 * m.max(smallest))
+                .map_err(|_| SampleError::Ambiguous)?
+                .filter(|n| n.iter().any(|&k| k > 0))
+                .ok_or(SampleError::NotAMultiple)?;
+            if mass(&class, units) > reach * (1.0 + 1e-9) {
+                continue;
             }
+            let term = i128::from(a.mu)
+                .checked_mul(i128::from(b.mu))
+                .ok_or(SampleError::Overflow)?;
+            let slot = q.entry(class).or_insert(0);
+            *slot = slot.checked_add(term).ok_or(SampleError::Overflow)?;
         }
     }
     Ok(StreetSeries {

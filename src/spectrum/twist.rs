@@ -18,7 +18,7 @@
 
 use super::warning::{SpectrumWarning, SpectrumWarningKind};
 use super::{Kind, Spectrum};
-use crate::solitons::{read, Reading, Twist};
+use crate::solitons::{read, read_with, Reading, Signs, Twist};
 
 /// A linear function over GF(2) known on some vectors: rows kept reduced
 /// (each with its own leading bit), as `(mask, value)`.
@@ -113,6 +113,7 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
     let mut consistent = true;
     let mut open = Vec::new();
     let mut decided = Vec::new();
+    let mut joint = Vec::new();
     for (idx, s) in spectrum.states.iter().enumerate() {
         let Some(data) = &s.streets else { continue };
         let class = class_of(s);
@@ -130,11 +131,15 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
             Reading::Either { keep, flip } if s.omega.is_none() => {
                 open.push((idx, class, keep, flip));
             }
+            Reading::Joint if s.omega.is_none() => joint.push(idx),
             _ => {}
         }
     }
     for (idx, omegas) in decided {
         set_index(&mut spectrum.states[idx], &omegas);
+    }
+    for group in phase_groups(spectrum, &joint) {
+        settle_phase(spectrum, &group, &mut linear, consistent);
     }
     for (idx, class, keep, flip) in open {
         // Flipped exactly when q = l + part is even.
@@ -167,6 +172,179 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
         )
         .about(state.abs, state.phase);
         spectrum.warnings.push(warning);
+    }
+}
+
+/// The states read in several classes, by phase (states of one phase
+/// share its units).
+fn phase_groups(spectrum: &Spectrum, joint: &[usize]) -> Vec<Vec<usize>> {
+    let units = |i: usize| {
+        spectrum.states[i]
+            .streets
+            .as_ref()
+            .map(|d| d.units.clone())
+            .unwrap_or_default()
+    };
+    let same = |a: &[f64], b: &[f64]| {
+        a.len() == b.len()
+            && a.iter()
+                .zip(b)
+                .all(|(x, y)| (x - y).abs() <= 1e-6 * x.abs().max(1.0))
+    };
+    let mut groups: Vec<(Vec<f64>, Vec<usize>)> = Vec::new();
+    for &i in joint {
+        let u = units(i);
+        match groups.iter_mut().find(|(g, _)| same(g, &u)) {
+            Some((_, members)) => members.push(i),
+            None => groups.push((u, vec![i])),
+        }
+    }
+    groups.into_iter().map(|(_, m)| m).collect()
+}
+
+/// Unit signs left to try at one phase at most (2^this readings).
+const MAX_OPEN_UNITS: usize = 6;
+
+/// Reads the states of one phase of several units: `q` on each unit is
+/// the fitted refinement's where the fit fixes it; the units it does not
+/// fix are tried both ways, and a choice stands when it alone reads every
+/// state of the phase whole (it then joins the fit) or when all that do
+/// agree.
+fn settle_phase(
+    spectrum: &mut Spectrum,
+    group: &[usize],
+    linear: &mut Gf2Character,
+    consistent: bool,
+) {
+    let Some(first) = group
+        .first()
+        .and_then(|&i| spectrum.states[i].streets.as_ref())
+    else {
+        return;
+    };
+    let n = first.units.len();
+    let units = first.units.clone();
+    let unit_charge = |i: usize| {
+        group.iter().find_map(|&k| {
+            let s = &spectrum.states[k];
+            let d = s.streets.as_ref()?;
+            let is_unit = d
+                .class
+                .iter()
+                .enumerate()
+                .all(|(j, &c)| c == u32::from(j == i));
+            if is_unit {
+                s.charge.clone()
+            } else {
+                None
+            }
+        })
+    };
+    let charges: Option<Vec<Vec<i64>>> = (0..n).map(unit_charge).collect();
+    let pairing = spectrum.lattice.as_ref().map(|l| l.pairing.clone());
+    let outcome: Result<Vec<Result<Vec<i64>, String>>, String> = (|| {
+        let charges = charges.ok_or("a unit of its phase has no charge")?;
+        let m = pairing.ok_or("no pairing")?;
+        let mut bits = vec![vec![false; n]; n];
+        for i in 0..n {
+            for j in 0..n {
+                let p = crate::charges::intmat::form(&m, &charges[i], &charges[j])
+                    .map_err(|e| format!("{e:?}"))?;
+                bits[i][j] = p.rem_euclid(2) == 1;
+            }
+        }
+        // q on each unit where the fit fixes it: q = l + part.
+        let fixed: Vec<Option<bool>> = charges
+            .iter()
+            .map(|c| {
+                let mask = parity(c)?;
+                consistent
+                    .then(|| linear.value(mask))
+                    .flatten()
+                    .map(|l| l ^ pairing_part(c, &m))
+            })
+            .collect();
+        let free: Vec<usize> = (0..n).filter(|&i| fixed[i].is_none()).collect();
+        if free.len() > MAX_OPEN_UNITS {
+            return Err(format!(
+                "{} units of its phase have no fixed sign",
+                free.len()
+            ));
+        }
+        // Every choice of the free signs, with what each state reads.
+        type Readings = Vec<Result<Vec<i64>, String>>;
+        let mut tried: Vec<(Vec<bool>, Readings)> = Vec::new();
+        for choice in 0..1_usize << free.len() {
+            let mut q: Vec<bool> = fixed.iter().map(|f| f.unwrap_or(false)).collect();
+            for (b, &i) in free.iter().enumerate() {
+                q[i] = choice >> b & 1 == 1;
+            }
+            let signs = Signs {
+                q: q.clone(),
+                pairing: bits.clone(),
+            };
+            let read: Readings = group
+                .iter()
+                .map(|&k| {
+                    let d = spectrum.states[k]
+                        .streets
+                        .as_ref()
+                        .ok_or("no street data")?;
+                    read_with(d, &signs)
+                })
+                .collect();
+            tried.push((q, read));
+        }
+        // The choices under which the most states read whole stand; a
+        // state whose index they do not agree on stays unknown.
+        let whole = |r: &Readings| r.iter().filter(|x| x.is_ok()).count();
+        let best = tried.iter().map(|(_, r)| whole(r)).max().unwrap_or(0);
+        let standing: Vec<&(Vec<bool>, Readings)> =
+            tried.iter().filter(|(_, r)| whole(r) == best).collect();
+        if let [(q, _)] = standing.as_slice() {
+            if !free.is_empty() && best > 0 {
+                for (i, c) in charges.iter().enumerate() {
+                    if let Some(mask) = parity(c) {
+                        linear.insert(mask, q[i] ^ pairing_part(c, &m));
+                    }
+                }
+            }
+        }
+        Ok((0..group.len())
+            .map(|k| {
+                let mut values = standing.iter().map(|(_, r)| &r[k]);
+                let first = values.next().cloned().unwrap_or(Err(String::new()))?;
+                if values.all(|v| v.as_ref() == Ok(&first)) {
+                    Ok(first)
+                } else {
+                    Err("the signs of its phase's classes are not fixed: readings under different signs disagree".into())
+                }
+            })
+            .collect::<Vec<_>>())
+    })();
+    let per_state = match outcome {
+        Ok(all) => all,
+        Err(why) => vec![Err(why); group.len()],
+    };
+    for (&k, read) in group.iter().zip(per_state) {
+        match read {
+            Ok(omegas) => set_index(&mut spectrum.states[k], &omegas),
+            Err(why) => {
+                let state = &spectrum.states[k];
+                let warning = SpectrumWarning::new(
+                    SpectrumWarningKind::IndexUnknownSamePhase,
+                    format!(
+                        "the web with |Z| = {:.6} at phase {:.6} has index unknown: read in the {} classes of its phase ({}), its streets give none: {why}",
+                        state.abs,
+                        state.phase,
+                        n,
+                        units.iter().map(|u| format!("{u:.6}")).collect::<Vec<_>>().join(", "),
+                    ),
+                )
+                .about(state.abs, state.phase);
+                spectrum.warnings.push(warning);
+            }
+        }
     }
 }
 

@@ -118,6 +118,9 @@ const HIT_FRACTION: f64 = 0.05;
 const WARN_Z_ERROR: f64 = 1e-6;
 /// Relative agreement of two webs' charges found at one phase.
 const SAME_WEB: f64 = 1e-7;
+/// A web's mass is a sum of others' at its phase within this relative
+/// difference (the webs' Z are quadratures, good to 1e-9 and better).
+const UNIT_TOLERANCE: f64 = 1e-5;
 /// At the scan's tolerance, a candidate's wall must pass its branch point
 /// within this fraction of the capture radius at the candidate's phase
 /// (the phase is then off by about the scan's relative error in W, which
@@ -1563,9 +1566,9 @@ impl<'a> WebFinder<'a> {
                         web.problems.clear();
                         om.first().copied()
                     }
-                    // Two even indices: the twist is settled once charges
-                    // are known.
-                    Reading::Either { .. } if !simple => {
+                    // Two even indices, or classes of several units: the
+                    // signs are settled once charges are known.
+                    Reading::Either { .. } | Reading::Joint if !simple => {
                         web.problems.clear();
                         None
                     }
@@ -1598,15 +1601,31 @@ impl<'a> WebFinder<'a> {
     /// `sides`, the whole networks on both sides of the critical phase
     /// ([`solitons`]).
     fn street_indices(&self, sides: [&Network; 2], webs: &[Web]) -> Vec<StreetData> {
+        // Webs of independent charges at the phase: their series are read
+        // in all the phase's classes at once.
+        let masses: Vec<f64> = webs.iter().map(|w| w.z.norm()).collect();
+        let units = solitons::series::units_of(&masses, UNIT_TOLERANCE);
         webs.iter()
             .map(|web| {
-                solitons::street_data(
-                    self.curve,
-                    sides,
-                    &web.polylines,
-                    web.z.norm(),
-                    self.settings.reach,
-                )
+                let abs = web.z.norm();
+                let class = solitons::series::decompose(abs, &units, UNIT_TOLERANCE * abs);
+                match class {
+                    Ok(Some(class)) if units.len() > 1 => solitons::street_data_in(
+                        self.curve,
+                        sides,
+                        &web.polylines,
+                        &units,
+                        &class,
+                        self.settings.reach,
+                    ),
+                    _ => solitons::street_data(
+                        self.curve,
+                        sides,
+                        &web.polylines,
+                        abs,
+                        self.settings.reach,
+                    ),
+                }
             })
             .collect()
     }
