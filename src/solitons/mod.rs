@@ -37,7 +37,7 @@ use crate::curve::Curve;
 use crate::network::Network;
 use num_complex::Complex64;
 use series::{exponents_in, mass, Terms};
-use streets::{series_at, SampleError};
+use streets::{classify, series_at, SampleError};
 
 /// Offset of the two resolutions from the critical phase, radians. Small
 /// enough that the walls of a street stay within a hair of it (they move
@@ -53,6 +53,14 @@ const BAND: f64 = 1e-2;
 /// length scale, always count as the street's, and the next wall of the
 /// pair that only passes by was 1e-2 away or more in every case looked at.
 const TIGHT: f64 = 1e-3;
+/// Another web's polyline runs along a sample's street when it passes
+/// within this of the point, relative to the length scale, parallel to
+/// it: two polylines of one street differ by their chords (steps of 1e-2
+/// of the scale bow by 1e-5 of it), and distinct streets that come this
+/// close at a sample point cross it.
+const ON_STREET: f64 = 1e-4;
+/// `|sin|` of the angle between two polylines of one street, at most.
+const PARALLEL: f64 = 0.05;
 /// Sample points along each polyline of a web, as fractions of its length.
 const SAMPLES: [f64; 3] = [0.3, 0.5, 0.7];
 
@@ -61,8 +69,14 @@ const SAMPLES: [f64; 3] = [0.3, 0.5, 0.7];
 #[derive(Clone, Debug, PartialEq)]
 pub struct StreetSample {
     pub x: Complex64,
-    /// The coefficient of each class of the phase (see [`StreetData`]).
+    /// The coefficient of each class of the phase (see [`StreetData`]);
+    /// empty when the pairs are no combination of the units.
     pub q: Terms,
+    /// The soliton pairs as found, `(mass, mu_a mu_b)`: read again in the
+    /// units of all states at the phase ([`read_phase`]).
+    pub pairs: Vec<(f64, i128)>,
+    /// The street's direction at x (a unit vector).
+    pub dir: Complex64,
     /// `covers[r]`: how often web r of the state runs through x
     /// (overlapping walls counted each time); one entry for one web.
     pub covers: Vec<i64>,
@@ -84,6 +98,14 @@ pub struct StreetData {
     pub tried: usize,
     /// A sample that should have given a series and did not.
     pub problem: Option<String>,
+    /// A sample's pairs are no combination of the units (the phase holds
+    /// a class that this web's units miss).
+    pub unclassified: Option<String>,
+    /// Each web's polylines (one entry for one web), for how often a web
+    /// runs through another state's samples ([`read_phase`]).
+    pub lines: Vec<Vec<Vec<Complex64>>>,
+    /// The curve's length scale.
+    pub scale: f64,
 }
 
 /// How the engine's series of a class reads in the twisted torus. Every
@@ -164,7 +186,7 @@ pub enum Reading {
 /// `Omega(k gamma)`, k = 1.., from every sample under the signs of the
 /// phase's classes, or why not.
 pub fn read_with(data: &StreetData, signs: &Signs) -> Result<Vec<i64>, String> {
-    if let Some(p) = &data.problem {
+    if let Some(p) = data.problem.as_ref().or(data.unclassified.as_ref()) {
         return Err(p.clone());
     }
     let own = mass(&data.class, &data.units);
@@ -175,14 +197,7 @@ pub fn read_with(data: &StreetData, signs: &Signs) -> Result<Vec<i64>, String> {
     if data.samples.is_empty() {
         return Err("no point of its streets could be sampled".into());
     }
-    let mut alphas = Vec::with_capacity(data.samples.len());
-    for s in &data.samples {
-        let twisted: Terms =
-            s.q.iter()
-                .map(|(k, &c)| (k.clone(), signs.apply(k, c)))
-                .collect();
-        alphas.push(exponents_in(&twisted, &data.units, data.reach).map_err(|e| format!("{e:?}"))?);
-    }
+    let alphas = sample_exponents(data, signs)?;
     // alpha_(k gamma)(p) = k sum_r w_r covers_r(p), Omega(k gamma) = sum_r w_r.
     let covers: Vec<&[i64]> = data.samples.iter().map(|s| s.covers.as_slice()).collect();
     let mut omegas = Vec::with_capacity(n as usize);
@@ -202,6 +217,133 @@ pub fn read_with(data: &StreetData, signs: &Signs) -> Result<Vec<i64>, String> {
         omegas.push(whole as i64);
     }
     Ok(omegas)
+}
+
+/// The indices of all the states at one phase (`states`, their street
+/// data read in the same units) from all their streets together. The
+/// chain of a class c, `L(c) = sum_p alpha_c(p) [p]`, need not run along
+/// the webs of c alone: where a multiple or a sum of lighter classes has
+/// webs of its own, those share streets with the lighter states' webs.
+/// So every sample of every state is used, and `L(c)` is sought as a
+/// combination `sum_r w_r j_r chain_r` of the webs r of the classes `c /
+/// j_r` on c's ray: `alpha_c(p) = sum_r w_r j_r covers_r(p)` at every
+/// sample, and `Omega(c) = sum_r w_r` (fixed whenever some solution is; see
+/// [`chain_weight`]). Each state gets `Omega(k gamma)`, k = 1.., as
+/// [`read_with`] gives it.
+pub fn read_phase(
+    states: &[&StreetData],
+    units: &[f64],
+    signs: &Signs,
+) -> Vec<Result<Vec<i64>, String>> {
+    let fail = |why: String| vec![Err(why); states.len()];
+    if let Some(p) = states.iter().find_map(|d| d.problem.clone()) {
+        return fail(p);
+    }
+    let reach = states.iter().map(|d| d.reach).fold(f64::INFINITY, f64::min);
+    // Each state's class over the phase's units.
+    let mut classes = Vec::with_capacity(states.len());
+    for d in states {
+        let m = mass(&d.class, &d.units);
+        match series::decompose(m, units, 1e-5 * m) {
+            Ok(Some(c)) => classes.push(c),
+            _ => return fail("a state's mass is no combination of its phase's units".into()),
+        }
+    }
+    // Every web of the phase with its class.
+    let webs: Vec<(&[u32], &[Vec<Complex64>])> = states
+        .iter()
+        .zip(&classes)
+        .flat_map(|(d, c)| d.lines.iter().map(move |l| (c.as_slice(), l.as_slice())))
+        .collect();
+    let mut alphas = Vec::new();
+    let mut covers: Vec<Vec<i64>> = Vec::new();
+    for d in states {
+        for s in &d.samples {
+            let exps = classify(&s.pairs, units, reach)
+                .map_err(|e| format!("a street sample gave no series ({e:?})"))
+                .and_then(|q| {
+                    let twisted: Terms = q
+                        .iter()
+                        .map(|(k, &c)| (k.clone(), signs.apply(k, c)))
+                        .collect();
+                    exponents_in(&twisted, units, reach).map_err(|e| format!("{e:?}"))
+                });
+            match exps {
+                Ok(e) => alphas.push(e),
+                Err(e) => return fail(e),
+            }
+            covers.push(
+                webs.iter()
+                    .map(|(_, lines)| {
+                        lines
+                            .iter()
+                            .filter(|l| runs_along(l, s.x, s.dir, ON_STREET * d.scale))
+                            .count() as i64
+                    })
+                    .collect(),
+            );
+        }
+    }
+    classes
+        .iter()
+        .map(|class| {
+            let own = mass(class, units);
+            let n = ((reach * (1.0 + 1e-9)) / own).floor().max(1.0) as u32;
+            (1..=n)
+                .map(|k| {
+                    let c: Vec<u32> = class.iter().map(|&x| x * k).collect();
+                    // The webs on c's ray below it: c = j c_r.
+                    let cols: Vec<(usize, i64)> = webs
+                        .iter()
+                        .enumerate()
+                        .filter_map(|(r, (cr, _))| divides(cr, &c).map(|j| (r, j)))
+                        .collect();
+                    let a: Vec<Vec<i64>> = covers
+                        .iter()
+                        .map(|row| cols.iter().map(|&(r, j)| j * row[r]).collect())
+                        .collect();
+                    let rows: Vec<&[i64]> = a.iter().map(Vec::as_slice).collect();
+                    let rhs: Vec<f64> = alphas
+                        .iter()
+                        .map(|al| al.get(&c).copied().unwrap_or(0) as f64)
+                        .collect();
+                    let total = chain_weight(&rows, &rhs)?;
+                    let whole = total.round();
+                    if (total - whole).abs() > 1e-6 {
+                        return Err(format!(
+                            "its streets give the fractional index {total:.4} to {k} times its class"
+                        ));
+                    }
+                    Ok(whole as i64)
+                })
+                .collect()
+        })
+        .collect()
+}
+
+/// The j with `c = j b` (j >= 1), if any.
+fn divides(b: &[u32], c: &[u32]) -> Option<i64> {
+    let (i, &b0) = b.iter().enumerate().find(|(_, &x)| x > 0)?;
+    let j = c.get(i)? / b0;
+    (j >= 1 && b.len() == c.len() && b.iter().zip(c).all(|(&x, &y)| x * j == y))
+        .then_some(i64::from(j))
+}
+
+/// The exponents at each sample under the signs of the phase's classes.
+fn sample_exponents(
+    data: &StreetData,
+    signs: &Signs,
+) -> Result<Vec<std::collections::BTreeMap<Vec<u32>, i64>>, String> {
+    data.samples
+        .iter()
+        .map(|s| {
+            let twisted: Terms =
+                s.q.iter()
+                    .map(|(k, &c)| (k.clone(), signs.apply(k, c)))
+                    .collect();
+            exponents_in(&twisted, &data.units, data.reach).map_err(|e| format!("{e:?}"))
+        })
+        .collect()
 }
 
 /// `sum_r w_r` for the weights with `rhs[p] = sum_r w_r covers[p][r]` at
@@ -241,7 +383,7 @@ fn chain_weight(covers: &[&[i64]], rhs: &[f64]) -> Result<f64, String> {
 
 /// Reads the index off the street data (see [`Reading`]).
 pub fn read(data: &StreetData) -> Reading {
-    if let Some(p) = &data.problem {
+    if let Some(p) = data.problem.as_ref().or(data.unclassified.as_ref()) {
         return Reading::Neither(p.clone());
     }
     if data.units.len() > 1 {
@@ -286,6 +428,8 @@ pub fn street_data_in(
     let n = ((reach * (1.0 + 1e-9)) / abs).floor().max(1.0);
     let mut data = StreetData {
         complete_to: n * abs,
+        lines: vec![web.to_vec()],
+        scale,
         units: units.to_vec(),
         class: class.to_vec(),
         reach,
@@ -293,7 +437,9 @@ pub fn street_data_in(
     };
     for line in web {
         for f in SAMPLES {
-            let Some(x) = along(line, f) else { continue };
+            let Some((x, dir)) = along(line, f) else {
+                continue;
+            };
             // How often the web runs through x (overlapping walls of the web
             // share their points).
             let covers = web
@@ -309,10 +455,20 @@ pub fn street_data_in(
             let band = (BAND * scale).min(0.25 * room);
             for net in sides {
                 data.tried += 1;
-                match series_at(curve, net, x, band, TIGHT * scale, units, reach) {
+                match series_at(curve, net, x, band, TIGHT * scale, reach) {
                     Ok(s) => data.samples.push(StreetSample {
                         x,
-                        q: s.q,
+                        q: match classify(&s.pairs, units, reach) {
+                            Ok(q) => q,
+                            Err(e) => {
+                                data.unclassified.get_or_insert(format!(
+                                    "a street sample gave no series ({e:?})"
+                                ));
+                                Terms::new()
+                            }
+                        },
+                        pairs: s.pairs,
+                        dir,
                         covers: vec![covers],
                     }),
                     Err(SampleError::CutBetween | SampleError::SeveralPairs) => {}
@@ -335,6 +491,8 @@ pub fn street_data_in(
 pub fn merge(parts: &[&StreetData], webs: &[&[Vec<Complex64>]], scale: f64) -> StreetData {
     let first = parts.first();
     let mut out = StreetData {
+        lines: webs.iter().map(|w| w.to_vec()).collect(),
+        scale,
         units: first.map(|p| p.units.clone()).unwrap_or_default(),
         class: first.map(|p| p.class.clone()).unwrap_or_default(),
         reach: first.map_or(0.0, |p| p.reach),
@@ -355,6 +513,9 @@ pub fn merge(parts: &[&StreetData], webs: &[&[Vec<Complex64>]], scale: f64) -> S
         out.tried += part.tried;
         if problem.is_none() {
             problem.clone_from(&part.problem);
+        }
+        if out.unclassified.is_none() {
+            out.unclassified.clone_from(&part.unclassified);
         }
         if !same_units(&part.units) || part.class != out.class {
             problem.get_or_insert_with(|| "its webs were read in different classes".to_string());
@@ -379,8 +540,9 @@ pub fn merge(parts: &[&StreetData], webs: &[&[Vec<Complex64>]], scale: f64) -> S
     out
 }
 
-/// Point at fraction `f` of the arclength of `line`.
-fn along(line: &[Complex64], f: f64) -> Option<Complex64> {
+/// Point at fraction `f` of the arclength of `line`,
+/// and the unit direction of the line there.
+fn along(line: &[Complex64], f: f64) -> Option<(Complex64, Complex64)> {
     let total: f64 = line.windows(2).map(|w| (w[1] - w[0]).norm()).sum();
     if total.is_nan() || total <= 0.0 {
         return None;
@@ -389,11 +551,23 @@ fn along(line: &[Complex64], f: f64) -> Option<Complex64> {
     for w in line.windows(2) {
         let d = (w[1] - w[0]).norm();
         if left <= d && d > 0.0 {
-            return Some(w[0] + (w[1] - w[0]) * (left / d));
+            return Some((w[0] + (w[1] - w[0]) * (left / d), (w[1] - w[0]) / d));
         }
         left -= d;
     }
-    line.last().copied()
+    None
+}
+
+/// Whether `line` runs along the street through `x` in direction `dir`
+/// (either way): a segment within `tol` of x, parallel to it.
+fn runs_along(line: &[Complex64], x: Complex64, dir: Complex64, tol: f64) -> bool {
+    line.windows(2).any(|w| {
+        let d = w[1] - w[0];
+        let len = d.norm();
+        len > 0.0
+            && crate::geometry::to_segment(w[0], w[1], x).0 <= tol
+            && (d / len * dir.conj()).im.abs() <= PARALLEL
+    })
 }
 
 /// Distance from `x` to a polyline.
@@ -418,6 +592,8 @@ mod tests {
                     .map(|(k, &c)| (vec![k as u32], c))
                     .collect(),
                 covers: vec![1],
+                pairs: Vec::new(),
+                dir: Complex64::new(1.0, 0.0),
             }],
             units: vec![1.0],
             class: vec![1],
@@ -425,6 +601,7 @@ mod tests {
             complete_to: reach,
             tried: 1,
             problem: None,
+            ..StreetData::default()
         }
     }
 
@@ -444,6 +621,8 @@ mod tests {
                 x: Complex64::new(0.0, 0.0),
                 q: q.clone(),
                 covers: vec![1],
+                pairs: Vec::new(),
+                dir: Complex64::new(1.0, 0.0),
             }],
             units: vec![6.0, 9.0],
             class,
@@ -451,6 +630,7 @@ mod tests {
             complete_to: 20.0,
             tried: 1,
             problem: None,
+            ..StreetData::default()
         };
         let right = Signs {
             q: vec![true, false],

@@ -105,18 +105,39 @@ const CLUSTER: f64 = 50.0;
 /// The series at a sample point.
 #[derive(Clone, Debug, PartialEq)]
 pub struct StreetSeries {
-    /// The coefficient of each closed class (a multi-index over the
-    /// phase's units) of mass up to the reach.
-    pub q: Terms,
+    /// Each soliton pair's closed class, as its mass and signed count
+    /// `mu_a mu_b` (masses up to the reach, with a margin).
+    pub pairs: Vec<(f64, i128)>,
     /// The street's pair, in the labels at the point.
     pub pair: [usize; 2],
     /// Walls in the ij and the ji direction.
     pub counts: [usize; 2],
 }
 
-/// `Q(x)` from the passes at `x`, in the closed classes of the phase's
-/// units (the masses of the classes no other class at the phase is a sum
-/// of; one unit at a generic critical phase), up to mass `reach`: walls
+/// `Q(x)` in the closed classes of the phase's units (the masses of the
+/// classes no other class at the phase is a sum of; one unit at a generic
+/// critical phase), up to mass `reach`, from the soliton pairs at a point.
+pub fn classify(pairs: &[(f64, i128)], units: &[f64], reach: f64) -> Result<Terms, SampleError> {
+    let mut q = Terms::new();
+    let smallest = units.iter().copied().fold(f64::INFINITY, f64::min);
+    for &(m, term) in pairs {
+        if m > reach * (1.0 + 1e-3) {
+            continue;
+        }
+        let class = decompose(m, units, 1e-3 * m.max(smallest))
+            .map_err(|_| SampleError::Ambiguous)?
+            .filter(|n| n.iter().any(|&k| k > 0))
+            .ok_or(SampleError::NotAMultiple)?;
+        if mass(&class, units) > reach * (1.0 + 1e-9) {
+            continue;
+        }
+        let slot = q.entry(class).or_insert(0);
+        *slot = slot.checked_add(term).ok_or(SampleError::Overflow)?;
+    }
+    Ok(q)
+}
+
+/// The soliton pairs at `x` up to mass `reach` (see [`classify`]): walls
 /// within `band` are looked at, and those in the cluster nearest x (at
 /// least `tight` wide) are the street's.
 pub fn series_at(
@@ -125,7 +146,6 @@ pub fn series_at(
     x: Complex64,
     band: f64,
     tight: f64,
-    units: &[f64],
     reach: f64,
 ) -> Result<StreetSeries, SampleError> {
     let mut passes = passes_near(net, x, band);
@@ -173,8 +193,7 @@ pub fn series_at(
         .map(|(p, _)| p)
         .filter(|p| [usize::from(p.kind.j), usize::from(p.kind.i)] == pair)
         .collect();
-    let mut q = Terms::new();
-    let smallest = units.iter().copied().fold(f64::INFINITY, f64::min);
+    let mut found = Vec::new();
     for a in &forward {
         for b in &backward {
             let m = a.mass + b.mass;
@@ -182,22 +201,14 @@ pub fn series_at(
             if m > reach * (1.0 + 1e-3) {
                 continue;
             }
-            let class = decompose(m, units, 1e-3 * m.max(smallest))
-                .map_err(|_| SampleError::Ambiguous)?
-                .filter(|n| n.iter().any(|&k| k > 0))
-                .ok_or(SampleError::NotAMultiple)?;
-            if mass(&class, units) > reach * (1.0 + 1e-9) {
-                continue;
-            }
             let term = i128::from(a.mu)
                 .checked_mul(i128::from(b.mu))
                 .ok_or(SampleError::Overflow)?;
-            let slot = q.entry(class).or_insert(0);
-            *slot = slot.checked_add(term).ok_or(SampleError::Overflow)?;
+            found.push((m, term));
         }
     }
     Ok(StreetSeries {
-        q,
+        pairs: found,
         pair,
         counts: [forward.len(), backward.len()],
     })

@@ -310,12 +310,12 @@ pub fn find(
     if settings.validate().is_ok() {
         crate::charges::assign_with(&lattice, curve, &mut spectrum);
         twist::settle(&mut spectrum);
+        drop_decided(&mut spectrum);
         // A web whose streets give index 0 closes, but no BPS state has
         // its charge (at a symmetric point such a web comes apart into
         // none when the curve is deformed): it is not listed.
         spectrum.states.retain(|s| s.omega != Some(0));
         twist::warn_aligned(&mut spectrum);
-        drop_decided(&mut spectrum);
     }
     split_massless(curve, &mut spectrum);
     limit::to_singular_limit(curve, &mut spectrum);

@@ -18,7 +18,7 @@
 
 use super::warning::{SpectrumWarning, SpectrumWarningKind};
 use super::{Kind, Spectrum};
-use crate::solitons::{read, read_with, Reading, Signs, Twist};
+use crate::solitons::{read, read_phase, read_with, Reading, Signs, Twist};
 
 /// A linear function over GF(2) known on some vectors: rows kept reduced
 /// (each with its own leading bit), as `(mask, value)`.
@@ -138,8 +138,16 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
     for (idx, omegas) in decided {
         set_index(&mut spectrum.states[idx], &omegas);
     }
-    for group in phase_groups(spectrum, &joint) {
-        settle_phase(spectrum, &group, &mut linear, consistent);
+    for (group, units) in phase_groups(spectrum, &joint) {
+        settle_phase(
+            spectrum,
+            &group,
+            &units,
+            &joint,
+            &mut linear,
+            consistent,
+            true,
+        );
     }
     for (idx, class, keep, flip) in open {
         // Flipped exactly when q = l + part is even.
@@ -173,68 +181,99 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
         .about(state.abs, state.phase);
         spectrum.warnings.push(warning);
     }
+    // States that their own streets leave open (a web covered in part,
+    // the multiples of a class with webs of their own): all the streets
+    // of their phase together. Where that fails too, the web's own
+    // warnings stand.
+    let rest: Vec<usize> = spectrum
+        .states
+        .iter()
+        .enumerate()
+        .filter(|(_, s)| {
+            s.omega.is_none()
+                && s.streets
+                    .as_ref()
+                    .is_some_and(|d| matches!(read(d), Reading::Neither(_)))
+        })
+        .map(|(k, _)| k)
+        .collect();
+    for (group, units) in phase_groups(spectrum, &rest) {
+        settle_phase(
+            spectrum,
+            &group,
+            &units,
+            &rest,
+            &mut linear,
+            consistent,
+            false,
+        );
+    }
 }
 
-/// The states read in several classes, by phase (states of one phase
-/// share its units).
-fn phase_groups(spectrum: &Spectrum, joint: &[usize]) -> Vec<Vec<usize>> {
-    let units = |i: usize| {
-        spectrum.states[i]
-            .streets
-            .as_ref()
-            .map(|d| d.units.clone())
-            .unwrap_or_default()
-    };
-    let same = |a: &[f64], b: &[f64]| {
-        a.len() == b.len()
-            && a.iter()
-                .zip(b)
-                .all(|(x, y)| (x - y).abs() <= 1e-6 * x.abs().max(1.0))
-    };
-    let mut groups: Vec<(Vec<f64>, Vec<usize>)> = Vec::new();
-    for &i in joint {
-        let u = units(i);
-        match groups.iter_mut().find(|(g, _)| same(g, &u)) {
-            Some((_, members)) => members.push(i),
-            None => groups.push((u, vec![i])),
+/// The states with street data at each phase that holds one of `wanted`,
+/// and the phase's units from all their masses.
+fn phase_groups(spectrum: &Spectrum, wanted: &[usize]) -> Vec<(Vec<usize>, Vec<f64>)> {
+    let mut groups: Vec<Vec<usize>> = Vec::new();
+    for &i in wanted {
+        if groups.iter().any(|g| g.contains(&i)) {
+            continue;
         }
+        let phase = spectrum.states[i].phase;
+        let members: Vec<usize> = spectrum
+            .states
+            .iter()
+            .enumerate()
+            .filter(|(_, s)| s.streets.is_some() && (s.phase - phase).abs() <= ALIGNED)
+            .map(|(k, _)| k)
+            .collect();
+        groups.push(members);
     }
-    groups.into_iter().map(|(_, m)| m).collect()
+    groups
+        .into_iter()
+        .map(|g| {
+            let masses: Vec<f64> = g.iter().map(|&k| spectrum.states[k].abs).collect();
+            let units = crate::solitons::series::units_of(&masses, 1e-5);
+            (g, units)
+        })
+        .collect()
 }
 
 /// Unit signs left to try at one phase at most (2^this readings).
 const MAX_OPEN_UNITS: usize = 6;
 
-/// Reads the states of one phase of several units: `q` on each unit is
-/// the fitted refinement's where the fit fixes it; the units it does not
-/// fix are tried both ways, and a choice stands when it alone reads every
-/// state of the phase whole (it then joins the fit) or when all that do
-/// agree.
+/// Reads the states of one phase (`group`, in the phase's `units`) from
+/// all their streets together ([`read_phase`]) and gives those in
+/// `targets` their indices. `q` on each unit is the fitted refinement's
+/// where the fit fixes it; the units it does not fix are tried both ways,
+/// and the choices under which the most targets read whole stand (a
+/// single one joins the fit); a target they disagree on stays unknown.
 fn settle_phase(
     spectrum: &mut Spectrum,
     group: &[usize],
+    units: &[f64],
+    targets: &[usize],
     linear: &mut Gf2Character,
     consistent: bool,
+    warn: bool,
 ) {
-    let Some(first) = group
-        .first()
-        .and_then(|&i| spectrum.states[i].streets.as_ref())
-    else {
-        return;
+    let n = units.len();
+    let class_of = |k: usize| {
+        crate::solitons::series::decompose(
+            spectrum.states[k].abs,
+            units,
+            1e-5 * spectrum.states[k].abs,
+        )
+        .ok()
+        .flatten()
     };
-    let n = first.units.len();
-    let units = first.units.clone();
     let unit_charge = |i: usize| {
         group.iter().find_map(|&k| {
-            let s = &spectrum.states[k];
-            let d = s.streets.as_ref()?;
-            let is_unit = d
-                .class
+            let is_unit = class_of(k)?
                 .iter()
                 .enumerate()
                 .all(|(j, &c)| c == u32::from(j == i));
             if is_unit {
-                s.charge.clone()
+                spectrum.states[k].charge.clone()
             } else {
                 None
             }
@@ -242,7 +281,14 @@ fn settle_phase(
     };
     let charges: Option<Vec<Vec<i64>>> = (0..n).map(unit_charge).collect();
     let pairing = spectrum.lattice.as_ref().map(|l| l.pairing.clone());
+    let datas: Vec<&crate::solitons::StreetData> = group
+        .iter()
+        .filter_map(|&k| spectrum.states[k].streets.as_ref())
+        .collect();
     let outcome: Result<Vec<Result<Vec<i64>, String>>, String> = (|| {
+        if datas.len() != group.len() {
+            return Err("a state of its phase has no street data".into());
+        }
         let charges = charges.ok_or("a unit of its phase has no charge")?;
         let m = pairing.ok_or("no pairing")?;
         let mut bits = vec![vec![false; n]; n];
@@ -265,12 +311,26 @@ fn settle_phase(
             })
             .collect();
         let free: Vec<usize> = (0..n).filter(|&i| fixed[i].is_none()).collect();
+        let classes: Vec<Option<Vec<u32>>> = group.iter().map(|&k| class_of(k)).collect();
+        let distinct = classes
+            .iter()
+            .enumerate()
+            .all(|(i, a)| a.is_some() && classes[i + 1..].iter().all(|b| b != a));
+        if !distinct && !warn {
+            return Err("charges of its phase share a mass".into());
+        }
         if free.len() > MAX_OPEN_UNITS {
             return Err(format!(
                 "{} units of its phase have no fixed sign",
                 free.len()
             ));
         }
+        let aimed: Vec<usize> = group
+            .iter()
+            .enumerate()
+            .filter(|(_, k)| targets.contains(k))
+            .map(|(i, _)| i)
+            .collect();
         // Every choice of the free signs, with what each state reads.
         type Readings = Vec<Result<Vec<i64>, String>>;
         let mut tried: Vec<(Vec<bool>, Readings)> = Vec::new();
@@ -283,21 +343,16 @@ fn settle_phase(
                 q: q.clone(),
                 pairing: bits.clone(),
             };
-            let read: Readings = group
-                .iter()
-                .map(|&k| {
-                    let d = spectrum.states[k]
-                        .streets
-                        .as_ref()
-                        .ok_or("no street data")?;
-                    read_with(d, &signs)
-                })
-                .collect();
+            let read = if distinct {
+                read_phase(&datas, units, &signs)
+            } else {
+                // Charges that share a mass are one class to the
+                // streets: each state reads its own streets only.
+                datas.iter().map(|d| read_with(d, &signs)).collect()
+            };
             tried.push((q, read));
         }
-        // The choices under which the most states read whole stand; a
-        // state whose index they do not agree on stays unknown.
-        let whole = |r: &Readings| r.iter().filter(|x| x.is_ok()).count();
+        let whole = |r: &Readings| aimed.iter().filter(|&&i| r[i].is_ok()).count();
         let best = tried.iter().map(|(_, r)| whole(r)).max().unwrap_or(0);
         let standing: Vec<&(Vec<bool>, Readings)> =
             tried.iter().filter(|(_, r)| whole(r) == best).collect();
@@ -310,9 +365,10 @@ fn settle_phase(
                 }
             }
         }
-        Ok((0..group.len())
-            .map(|k| {
-                let mut values = standing.iter().map(|(_, r)| &r[k]);
+        Ok(aimed
+            .iter()
+            .map(|&i| {
+                let mut values = standing.iter().map(|(_, r)| &r[i]);
                 let first = values.next().cloned().unwrap_or(Err(String::new()))?;
                 if values.all(|v| v.as_ref() == Ok(&first)) {
                     Ok(first)
@@ -320,23 +376,30 @@ fn settle_phase(
                     Err("the signs of its phase's classes are not fixed: readings under different signs disagree".into())
                 }
             })
-            .collect::<Vec<_>>())
+            .collect())
     })();
+    let aimed: Vec<usize> = group
+        .iter()
+        .copied()
+        .filter(|k| targets.contains(k))
+        .collect();
     let per_state = match outcome {
         Ok(all) => all,
-        Err(why) => vec![Err(why); group.len()],
+        Err(why) => vec![Err(why); aimed.len()],
     };
-    for (&k, read) in group.iter().zip(per_state) {
+    for (&k, read) in aimed.iter().zip(per_state) {
         match read {
             Ok(omegas) => set_index(&mut spectrum.states[k], &omegas),
+            Err(_) if !warn => {}
             Err(why) => {
                 let state = &spectrum.states[k];
                 let warning = SpectrumWarning::new(
                     SpectrumWarningKind::IndexUnknownSamePhase,
                     format!(
-                        "the web with |Z| = {:.6} at phase {:.6} has index unknown: read in the {} classes of its phase ({}), its streets give none: {why}",
+                        "the web with |Z| = {:.6} at phase {:.6} has index unknown: read with the {} other state(s) of its phase ({} class(es): {}), its streets give none: {why}",
                         state.abs,
                         state.phase,
+                        group.len() - 1,
                         n,
                         units.iter().map(|u| format!("{u:.6}")).collect::<Vec<_>>().join(", "),
                     ),

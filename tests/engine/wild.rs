@@ -316,3 +316,70 @@ fn pentagon_wall_at_rank_three_holds_to_order_eight() {
     unbound.cone.retain(|s| s.0 != [1, 1]);
     assert_ne!(product(&unbound, order), product(y, order));
 }
+
+/// Where the network itself shows pairing 3 (our own point, the bound side
+/// of the wall above: u = 1.96 + 0.98i, v = 0.6 + 2i, reach 45): the hyper
+/// a (|Z| = 2.329) and the hyper c (|Z| = 38.59) pair to +-3, and between
+/// them the network closes webs of c + k a for k = 1, 2, 3 at phases of
+/// their own. The first two meet a branch point twice and are read with
+/// the streets of every state at their phase. For the 3-Kronecker quiver
+/// the moduli space of dimension (k, 1) is the Grassmannian Gr(k, 3), so
+/// Omega = 1, 3, 3, 1 for k = 0..3 (Reineke 2003, from memory; Euler
+/// characteristics C(3, k), all of even dimension). KS 2008: factoring
+/// K_a K_c in the other phase order must give the same indices.
+#[test]
+fn network_shows_the_three_kronecker_tower() {
+    let reach = 45.0;
+    let sp = spectrum(&pure_su3(c(1.96, 0.98), c(0.6, 2.0)), reach);
+    let s = side(&sp, 2.329, 38.59, true);
+    assert_eq!(s.m.abs(), 3, "pairing of a and c");
+    let tower: Vec<([i64; 2], Option<i64>)> =
+        found(&s).into_iter().filter(|(ab, _)| ab[1] == 1).collect();
+    assert_eq!(
+        tower,
+        vec![
+            ([0, 1], Some(1)),
+            ([1, 1], Some(3)),
+            ([2, 1], Some(3)),
+            ([3, 1], Some(1))
+        ],
+        "{:?}",
+        sp.warnings
+    );
+    // KS: the free product K_a K_c, written in the opposite phase order,
+    // factored in this side's order.
+    let arg = |ab: [i64; 2]| s.cone.iter().find(|x| x.0 == ab).map(|x| x.2).unwrap();
+    let free = phase_ordered_product(
+        &[
+            PhasedFactor {
+                factor: KsFactor {
+                    charge: [1, 0],
+                    omega: 1,
+                },
+                arg_z: arg([0, 1]),
+            },
+            PhasedFactor {
+                factor: KsFactor {
+                    charge: [0, 1],
+                    omega: 1,
+                },
+                arg_z: arg([1, 0]),
+            },
+        ],
+        s.m,
+        6,
+    )
+    .unwrap();
+    let predicted: Vec<([i64; 2], i64)> = factor(&free, s.z1, s.z2)
+        .unwrap()
+        .into_iter()
+        .filter(|f| f.charge[1] <= 1)
+        .map(|f| (f.charge, f.omega))
+        .collect();
+    for (ab, omega) in &tower {
+        assert!(
+            predicted.contains(&(*ab, omega.unwrap())),
+            "{ab:?}: found {omega:?}, KS {predicted:?}"
+        );
+    }
+}
