@@ -464,7 +464,7 @@ pub(super) fn warn_aligned(spectrum: &mut Spectrum) {
         )),
         (None, Some(p)) => Some(message(
             p,
-            "their charges pair to zero, so this is no wall, but their streets' series mix at that phase and the indices there are not read",
+            "their charges pair to zero, so this is no wall, but their streets' series mix at that phase and not every index there could be read",
         )),
         (None, None) => None,
     };
