@@ -127,7 +127,12 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
                 lines[k].push(s.web.clone());
                 m.web.extend(s.web);
                 m.z_error = m.z_error.max(s.z_error);
-                m.kind = Kind::Other;
+                // A ring domain stays one through the merge.
+                if !(m.kind == Kind::Vector || s.kind == Kind::Vector) {
+                    m.kind = Kind::Other;
+                } else {
+                    m.kind = Kind::Vector;
+                }
                 m.omega = None;
                 parts[k] = parts[k].take().zip(s.streets).map(|(mut v, d)| {
                     v.push(d);

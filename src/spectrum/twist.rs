@@ -190,7 +190,10 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
         .iter()
         .enumerate()
         .filter(|(_, s)| {
+            // A ring domain's streets are walls spiralling round it, which
+            // this reading does not follow: its index stays open.
             s.omega.is_none()
+                && s.kind != Kind::Vector
                 && s.streets
                     .as_ref()
                     .is_some_and(|d| matches!(read(d), Reading::Neither(_)))
