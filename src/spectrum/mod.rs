@@ -314,8 +314,38 @@ pub fn find(
         // A web whose streets give index 0 closes, but no BPS state has
         // its charge (at a symmetric point such a web comes apart into
         // none when the curve is deformed): it is not listed.
-        spectrum.states.retain(|s| s.omega != Some(0));
+        let zero: Vec<String> = spectrum
+            .states
+            .iter()
+            .filter(|s| s.omega == Some(0))
+            .map(|s| format!("{:.6}", s.abs))
+            .collect();
+        if !zero.is_empty() {
+            let gone: Vec<(f64, f64)> = spectrum
+                .states
+                .iter()
+                .filter(|s| s.omega == Some(0))
+                .map(|s| (s.abs, s.phase))
+                .collect();
+            spectrum.warnings.retain(|w| {
+                w.about.is_none_or(|a| {
+                    !gone.iter().any(|g| {
+                        (a.0 - g.0).abs() <= 1e-9 * (1.0 + a.0) && (a.1 - g.1).abs() <= 1e-9
+                    })
+                })
+            });
+            spectrum.states.retain(|s| s.omega != Some(0));
+            spectrum.warnings.push(SpectrumWarning::new(
+                SpectrumWarningKind::IndexZero,
+                format!(
+                    "{} web(s) close but their streets give index 0, so no state has their charge; not listed (|Z| = {})",
+                    zero.len(),
+                    zero.join(", ")
+                ),
+            ));
+        }
         twist::warn_aligned(&mut spectrum);
+        web::summarise_unknown(&mut spectrum.warnings);
     }
     split_massless(curve, &mut spectrum);
     limit::to_singular_limit(curve, &mut spectrum);

@@ -106,6 +106,9 @@ pub enum SpectrumWarningKind {
     NoCharge,
     /// A state was dropped: its cycle is null in homology.
     NullCycle,
+    /// Webs that close but whose streets give index 0: no state, not
+    /// listed.
+    IndexZero,
     /// Self-check: a state's Z differs from its charge's period.
     ChargeMismatch,
     /// Self-check: the charges found do not span the gauge lattice.
@@ -129,7 +132,7 @@ pub enum SpectrumWarningKind {
 
 impl SpectrumWarningKind {
     /// Every kind, in declaration order.
-    pub const ALL: [Self; 35] = [
+    pub const ALL: [Self; 36] = [
         Self::InvalidSettings,
         Self::RankUnsupported,
         Self::NonSimpleBranchPoint,
@@ -156,6 +159,7 @@ impl SpectrumWarningKind {
         Self::NoLattice,
         Self::NoCharge,
         Self::NullCycle,
+        Self::IndexZero,
         Self::ChargeMismatch,
         Self::ChargesDoNotSpan,
         Self::Resolved,
@@ -196,6 +200,7 @@ impl SpectrumWarningKind {
             Self::NoLattice => "no_lattice",
             Self::NoCharge => "no_charge",
             Self::NullCycle => "null_cycle",
+            Self::IndexZero => "index_zero",
             Self::ChargeMismatch => "charge_mismatch",
             Self::ChargesDoNotSpan => "charges_do_not_span",
             Self::Resolved => "resolved",

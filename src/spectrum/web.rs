@@ -148,6 +148,7 @@ fn summarised(
     notes: Vec<SpectrumWarning>,
     what: &str,
     rest: SpectrumWarningKind,
+    shown: usize,
 ) -> Vec<SpectrumWarning> {
     // Webs of one state (one charge at one phase) say the same thing: once.
     let mut unique: Vec<SpectrumWarning> = Vec::with_capacity(notes.len());
@@ -161,14 +162,43 @@ fn summarised(
     }
     let notes = unique;
     let n = notes.len();
-    let mut out: Vec<SpectrumWarning> = notes.into_iter().take(NOTES_SHOWN).collect();
-    if n > NOTES_SHOWN {
+    let mut out: Vec<SpectrumWarning> = notes.into_iter().take(shown).collect();
+    if n > shown {
         out.push(SpectrumWarning::new(
             rest,
-            format!("{} more webs {what} (not listed)", n - NOTES_SHOWN),
+            format!("{} more webs {what} (not listed)", n - shown),
         ));
     }
     out
+}
+
+/// Lists the first few warnings that a state's index is unknown, once
+/// every stage has decided what it can, and counts the rest in one line.
+pub(super) fn summarise_unknown(warnings: &mut Vec<SpectrumWarning>) {
+    let unknown = |w: &SpectrumWarning| {
+        w.kind.is_index_unknown() && w.kind != SpectrumWarningKind::IndexUnknownNotListed
+    };
+    let mut seen = 0;
+    let mut hidden = 0;
+    warnings.retain(|w| {
+        if w.kind == SpectrumWarningKind::IndexUnknownNotListed {
+            return false;
+        }
+        if !unknown(w) {
+            return true;
+        }
+        seen += 1;
+        if seen > NOTES_SHOWN {
+            hidden += 1;
+        }
+        seen <= NOTES_SHOWN
+    });
+    if hidden > 0 {
+        warnings.push(SpectrumWarning::new(
+            SpectrumWarningKind::IndexUnknownNotListed,
+            format!("{hidden} more notes on webs of unknown index (not listed)"),
+        ));
+    }
 }
 
 /// Why a web's index is unknown, as the sentence its warning lists.
@@ -1052,7 +1082,7 @@ impl<'a> WebFinder<'a> {
                             "the web with |Z| = {:.6} at phase {:.6} bounds a ring domain of closed trajectories: a vector multiplet, index unknown (walls of another pair cross the ring)",
                             web.abs, web.phase
                         ),
-                    ));
+                    ).about(web.abs, web.phase));
                 }
                 continue;
             }
@@ -1081,7 +1111,7 @@ impl<'a> WebFinder<'a> {
                         "the ring domain with |Z| = {:.6} at phase {phase:.6} (a vector multiplet) has index unknown: walls of another pair cross its annulus",
                         z.norm()
                     ),
-                ));
+                ).about(z.norm(), phase));
             }
             if z_error > WARN_Z_ERROR * z.norm() {
                 self.error_notes.push(SpectrumWarning::new(
@@ -1217,7 +1247,7 @@ impl<'a> WebFinder<'a> {
                             "the web with |Z| = {:.6} at phase {:.6}: the integrator's charge differs from the quadrature by {:.1e} (a joint placed less accurately); Z is the quadrature's",
                             state.abs, state.phase, state.z_error
                         ),
-                    ));
+                    ).about(state.abs, state.phase));
                 }
                 // One warning lists every reason; its kind is the first.
                 if let Some(&first) = problems.first() {
@@ -1638,15 +1668,19 @@ impl<'a> WebFinder<'a> {
             .collect();
         let mut notes = open;
         notes.append(&mut self.unknown_notes);
+        // All listed for now: the stages after charges decide some of
+        // them ([`summarise_unknown`] counts what is left).
         warnings.extend(summarised(
             notes,
             "have index unknown",
             SpectrumWarningKind::IndexUnknownNotListed,
+            usize::MAX,
         ));
         warnings.extend(summarised(
             std::mem::take(&mut self.error_notes),
             "have charges that disagree by more than 1e-6 relative",
             SpectrumWarningKind::ZErrorNotListed,
+            NOTES_SHOWN,
         ));
         if self.truncated {
             warnings.push(SpectrumWarning::new(
