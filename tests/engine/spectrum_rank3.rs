@@ -948,3 +948,32 @@ fn webs_of_one_charge_are_one_state() {
         sp.warnings
     );
 }
+
+/// A web whose streets give index 0 is no state: on the symmetric quartic
+/// y^3 - 2 z^2 y + z^4 - 1 = 0 two webs close at |Z| = 5.0398 (phase pi/2)
+/// and read 0. They are not listed but named in a warning, and the curve
+/// deformed off its symmetry (+-0.01i z, where no charges align) has no
+/// state near that |Z|: an independent reading at generic phases.
+#[test]
+fn webs_of_index_zero_are_named_not_listed() {
+    let sp = spectrum(&curve_with("y^3 - 2 z^2 y + z^4 - 1 = 0", &[]), 6.0);
+    let note = sp
+        .warnings
+        .iter()
+        .find(|w| w.kind == SpectrumWarningKind::IndexZero)
+        .unwrap_or_else(|| panic!("no index-0 note: {:?}", sp.warnings));
+    assert!(note.message.contains("5.039847"), "{}", note.message);
+    assert!(sp.states.iter().all(|s| (s.abs - 5.039847).abs() > 1e-3));
+    assert!(sp.states.iter().all(|s| s.omega != Some(0)));
+    for e in ["0.01", "-0.01"] {
+        let off = spectrum(
+            &curve_with(&format!("y^3 - 2 z^2 y + z^4 - 1 + {e}*i*z = 0"), &[]),
+            6.0,
+        );
+        assert!(
+            off.states.iter().all(|s| (s.abs - 5.0398).abs() > 2e-3),
+            "deformed by {e}: {:?}",
+            off.states.iter().map(|s| s.abs).collect::<Vec<_>>()
+        );
+    }
+}
