@@ -128,11 +128,11 @@ fn merge_equal_charges(curve: &Curve, spectrum: &mut Spectrum) {
                 m.web.extend(s.web);
                 m.z_error = m.z_error.max(s.z_error);
                 // A ring domain stays one through the merge.
-                if !(m.kind == Kind::Vector || s.kind == Kind::Vector) {
-                    m.kind = Kind::Other;
+                m.kind = if m.kind == Kind::Vector || s.kind == Kind::Vector {
+                    Kind::Vector
                 } else {
-                    m.kind = Kind::Vector;
-                }
+                    Kind::Other
+                };
                 m.omega = None;
                 parts[k] = parts[k].take().zip(s.streets).map(|(mut v, d)| {
                     v.push(d);

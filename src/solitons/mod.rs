@@ -193,7 +193,7 @@ pub fn read_with(data: &StreetData, signs: &Signs) -> Result<Vec<i64>, String> {
     if own.is_nan() || own <= 0.0 {
         return Err("the state's class has no mass".into());
     }
-    let n = ((data.reach * (1.0 + 1e-9)) / own).floor().max(1.0) as u32;
+    let n = multiples(data.reach, own);
     if data.samples.is_empty() {
         return Err("no point of its streets could be sampled".into());
     }
@@ -207,16 +207,26 @@ pub fn read_with(data: &StreetData, signs: &Signs) -> Result<Vec<i64>, String> {
             .iter()
             .map(|a| a.get(&ray).copied().unwrap_or(0) as f64 / f64::from(k))
             .collect();
-        let total = chain_weight(&covers, &rhs)?;
-        let whole = total.round();
-        if (total - whole).abs() > 1e-6 {
-            return Err(format!(
-                "its streets give the fractional index {total:.4} to {k} times its class"
-            ));
-        }
-        omegas.push(whole as i64);
+        omegas.push(whole_index(chain_weight(&covers, &rhs)?, k)?);
     }
     Ok(omegas)
+}
+
+/// How many multiples `k gamma` of a class of mass `own` lie within the
+/// reach (at least 1): the orders the series is exact to.
+fn multiples(reach: f64, own: f64) -> u32 {
+    ((reach * (1.0 + 1e-9)) / own).floor().max(1.0) as u32
+}
+
+/// `Omega(k gamma)` from the weight its streets give it, which must be whole.
+fn whole_index(total: f64, k: u32) -> Result<i64, String> {
+    let whole = total.round();
+    if (total - whole).abs() > 1e-6 {
+        return Err(format!(
+            "its streets give the fractional index {total:.4} to {k} times its class"
+        ));
+    }
+    Ok(whole as i64)
 }
 
 /// The indices of all the states at one phase (`states`, their street
@@ -261,13 +271,7 @@ pub fn read_phase(
         for s in &d.samples {
             let exps = classify(&s.pairs, units, reach)
                 .map_err(|e| format!("a street sample gave no series ({e:?})"))
-                .and_then(|q| {
-                    let twisted: Terms = q
-                        .iter()
-                        .map(|(k, &c)| (k.clone(), signs.apply(k, c)))
-                        .collect();
-                    exponents_in(&twisted, units, reach).map_err(|e| format!("{e:?}"))
-                });
+                .and_then(|q| twisted_exponents(&q, signs, units, reach));
             match exps {
                 Ok(e) => alphas.push(e),
                 Err(e) => return fail(e),
@@ -288,8 +292,7 @@ pub fn read_phase(
         .iter()
         .map(|class| {
             let own = mass(class, units);
-            let n = ((reach * (1.0 + 1e-9)) / own).floor().max(1.0) as u32;
-            (1..=n)
+            (1..=multiples(reach, own))
                 .map(|k| {
                     let c: Vec<u32> = class.iter().map(|&x| x * k).collect();
                     // The webs on c's ray below it: c = j c_r.
@@ -307,14 +310,7 @@ pub fn read_phase(
                         .iter()
                         .map(|al| al.get(&c).copied().unwrap_or(0) as f64)
                         .collect();
-                    let total = chain_weight(&rows, &rhs)?;
-                    let whole = total.round();
-                    if (total - whole).abs() > 1e-6 {
-                        return Err(format!(
-                            "its streets give the fractional index {total:.4} to {k} times its class"
-                        ));
-                    }
-                    Ok(whole as i64)
+                    whole_index(chain_weight(&rows, &rhs)?, k)
                 })
                 .collect()
         })
@@ -329,21 +325,28 @@ fn divides(b: &[u32], c: &[u32]) -> Option<i64> {
         .then_some(i64::from(j))
 }
 
+type Exponents = std::collections::BTreeMap<Vec<u32>, i64>;
+
 /// The exponents at each sample under the signs of the phase's classes.
-fn sample_exponents(
-    data: &StreetData,
-    signs: &Signs,
-) -> Result<Vec<std::collections::BTreeMap<Vec<u32>, i64>>, String> {
+fn sample_exponents(data: &StreetData, signs: &Signs) -> Result<Vec<Exponents>, String> {
     data.samples
         .iter()
-        .map(|s| {
-            let twisted: Terms =
-                s.q.iter()
-                    .map(|(k, &c)| (k.clone(), signs.apply(k, c)))
-                    .collect();
-            exponents_in(&twisted, &data.units, data.reach).map_err(|e| format!("{e:?}"))
-        })
+        .map(|s| twisted_exponents(&s.q, signs, &data.units, data.reach))
         .collect()
+}
+
+/// The exponents of a series read in the twisted variables.
+fn twisted_exponents(
+    q: &Terms,
+    signs: &Signs,
+    units: &[f64],
+    reach: f64,
+) -> Result<Exponents, String> {
+    let twisted: Terms = q
+        .iter()
+        .map(|(k, &c)| (k.clone(), signs.apply(k, c)))
+        .collect();
+    exponents_in(&twisted, units, reach).map_err(|e| format!("{e:?}"))
 }
 
 /// `sum_r w_r` for the weights with `rhs[p] = sum_r w_r covers[p][r]` at
@@ -359,25 +362,15 @@ fn chain_weight(covers: &[&[i64]], rhs: &[f64]) -> Result<f64, String> {
     }
     let a = DMatrix::from_fn(covers.len(), webs, |p, r| covers[p][r] as f64);
     let b = DVector::from_column_slice(rhs);
-    let w = a
-        .clone()
-        .svd(true, true)
-        .solve(&b, 1e-9)
-        .map_err(|e| e.to_string())?;
-    if (&a * &w - &b).amax() > 1e-6 {
-        return Err("its streets give different indices".into());
-    }
+    // A solution of `m x = v` to 1e-6, if there is one.
+    let solve = |m: &DMatrix<f64>, v: &DVector<f64>| {
+        let x = m.clone().svd(true, true).solve(v, 1e-9).ok()?;
+        ((m * &x - v).amax() <= 1e-6).then_some(x)
+    };
+    let w = solve(&a, &b).ok_or("its streets give different indices")?;
     // The sum is fixed when the all-ones vector is in the row space.
-    let at = a.transpose();
-    let ones = DVector::from_element(webs, 1.0);
-    let y = at
-        .clone()
-        .svd(true, true)
-        .solve(&ones, 1e-9)
-        .map_err(|e| e.to_string())?;
-    if (&at * &y - &ones).amax() > 1e-6 {
-        return Err("a web of the state has no sampled street of its own".into());
-    }
+    solve(&a.transpose(), &DVector::from_element(webs, 1.0))
+        .ok_or("a web of the state has no sampled street of its own")?;
     Ok(w.sum())
 }
 
@@ -425,9 +418,8 @@ pub fn street_data_in(
 ) -> StreetData {
     let scale = curve.length_scale();
     let abs = mass(class, units);
-    let n = ((reach * (1.0 + 1e-9)) / abs).floor().max(1.0);
     let mut data = StreetData {
-        complete_to: n * abs,
+        complete_to: f64::from(multiples(reach, abs)) * abs,
         lines: vec![web.to_vec()],
         scale,
         units: units.to_vec(),

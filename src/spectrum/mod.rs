@@ -311,45 +311,20 @@ pub fn find(
         crate::charges::assign_with(&lattice, curve, &mut spectrum);
         twist::settle(&mut spectrum);
         drop_decided(&mut spectrum);
-        // A web whose streets give index 0 closes, but no BPS state has
-        // its charge (at a symmetric point such a web comes apart into
-        // none when the curve is deformed): it is not listed.
-        let zero: Vec<String> = spectrum
-            .states
-            .iter()
-            .filter(|s| s.omega == Some(0))
-            .map(|s| format!("{:.6}", s.abs))
-            .collect();
-        if !zero.is_empty() {
-            let gone: Vec<(f64, f64)> = spectrum
-                .states
-                .iter()
-                .filter(|s| s.omega == Some(0))
-                .map(|s| (s.abs, s.phase))
-                .collect();
-            spectrum.warnings.retain(|w| {
-                w.about.is_none_or(|a| {
-                    !gone.iter().any(|g| {
-                        (a.0 - g.0).abs() <= 1e-9 * (1.0 + a.0) && (a.1 - g.1).abs() <= 1e-9
-                    })
-                })
-            });
-            spectrum.states.retain(|s| s.omega != Some(0));
-            spectrum.warnings.push(SpectrumWarning::new(
-                SpectrumWarningKind::IndexZero,
-                format!(
-                    "{} web(s) close but their streets give index 0, so no state has their charge; not listed (|Z| = {})",
-                    zero.len(),
-                    zero.join(", ")
-                ),
-            ));
-        }
+        drop_index_zero(&mut spectrum);
         twist::warn_aligned(&mut spectrum);
         web::summarise_unknown(&mut spectrum.warnings);
     }
     split_massless(curve, &mut spectrum);
     limit::to_singular_limit(curve, &mut spectrum);
     spectrum
+}
+
+/// Whether a warning's `about` names the state of `(abs, phase)`.
+fn is_about(w: &SpectrumWarning, state: (f64, f64)) -> bool {
+    w.about.is_some_and(|a| {
+        (a.0 - state.0).abs() <= 1e-9 * (1.0 + a.0) && (a.1 - state.1).abs() <= 1e-9
+    })
 }
 
 /// Drops the warnings that a state's index is unknown once a later stage
@@ -362,13 +337,38 @@ fn drop_decided(spectrum: &mut Spectrum) {
         .filter(|s| s.omega.is_some())
         .map(|s| (s.abs, s.phase))
         .collect();
-    let same = |a: (f64, f64), b: (f64, f64)| {
-        (a.0 - b.0).abs() <= 1e-9 * (1.0 + a.0) && (a.1 - b.1).abs() <= 1e-9
-    };
-    spectrum.warnings.retain(|w| {
-        let about_decided = w.about.is_some_and(|a| decided.iter().any(|&d| same(a, d)));
-        !(w.kind.is_index_unknown() && about_decided)
-    });
+    spectrum
+        .warnings
+        .retain(|w| !(w.kind.is_index_unknown() && decided.iter().any(|&d| is_about(w, d))));
+}
+
+/// A web whose streets give index 0 closes, but no BPS state has its
+/// charge (at a symmetric point such a web comes apart into none when the
+/// curve is deformed): it is not listed, its notes go with it, and one
+/// warning names it.
+fn drop_index_zero(spectrum: &mut Spectrum) {
+    let gone: Vec<(f64, f64)> = spectrum
+        .states
+        .iter()
+        .filter(|s| s.omega == Some(0))
+        .map(|s| (s.abs, s.phase))
+        .collect();
+    if gone.is_empty() {
+        return;
+    }
+    spectrum.states.retain(|s| s.omega != Some(0));
+    spectrum
+        .warnings
+        .retain(|w| !gone.iter().any(|&g| is_about(w, g)));
+    let masses: Vec<String> = gone.iter().map(|g| format!("{:.6}", g.0)).collect();
+    spectrum.warnings.push(SpectrumWarning::new(
+        SpectrumWarningKind::IndexZero,
+        format!(
+            "{} web(s) close but their streets give index 0, so no state has their charge; not listed (|Z| = {})",
+            gone.len(),
+            masses.join(", ")
+        ),
+    ));
 }
 
 /// The central charge of a cycle that vanishes at a resolved singular

@@ -288,6 +288,10 @@ fn settle_phase(
         .iter()
         .filter_map(|&k| spectrum.states[k].streets.as_ref())
         .collect();
+    // The targets' places in the group.
+    let aimed: Vec<usize> = (0..group.len())
+        .filter(|&i| targets.contains(&group[i]))
+        .collect();
     let outcome: Result<Vec<Result<Vec<i64>, String>>, String> = (|| {
         if datas.len() != group.len() {
             return Err("a state of its phase has no street data".into());
@@ -328,12 +332,6 @@ fn settle_phase(
                 free.len()
             ));
         }
-        let aimed: Vec<usize> = group
-            .iter()
-            .enumerate()
-            .filter(|(_, k)| targets.contains(k))
-            .map(|(i, _)| i)
-            .collect();
         // Every choice of the free signs, with what each state reads.
         type Readings = Vec<Result<Vec<i64>, String>>;
         let mut tried: Vec<(Vec<bool>, Readings)> = Vec::new();
@@ -381,16 +379,12 @@ fn settle_phase(
             })
             .collect())
     })();
-    let aimed: Vec<usize> = group
-        .iter()
-        .copied()
-        .filter(|k| targets.contains(k))
-        .collect();
     let per_state = match outcome {
         Ok(all) => all,
         Err(why) => vec![Err(why); aimed.len()],
     };
-    for (&k, read) in aimed.iter().zip(per_state) {
+    for (&i, read) in aimed.iter().zip(per_state) {
+        let k = group[i];
         match read {
             Ok(omegas) => set_index(&mut spectrum.states[k], &omegas),
             Err(_) if !warn => {}
