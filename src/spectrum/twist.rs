@@ -114,6 +114,7 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
     let mut open = Vec::new();
     let mut decided = Vec::new();
     let mut joint = Vec::new();
+    let mut unfitting = Vec::new();
     for (idx, s) in spectrum.states.iter().enumerate() {
         let Some(data) = &s.streets else { continue };
         let class = class_of(s);
@@ -131,12 +132,36 @@ pub(super) fn settle(spectrum: &mut Spectrum) {
             Reading::Either { keep, flip } if s.omega.is_none() => {
                 open.push((idx, class, keep, flip));
             }
+            // A simple web is a hypermultiplet whatever its streets say;
+            // where the reach leaves its series whole both ways, the one
+            // way that gives it 1 fixes q at its class all the same.
+            Reading::Either { keep, flip } if s.kind == Kind::Hyper && s.omega == Some(1) => {
+                let (k, f) = (keep.first() == Some(&1), flip.first() == Some(&1));
+                match (class, k, f) {
+                    (Some((mask, part)), true, false) => consistent &= linear.insert(mask, !part),
+                    (Some((mask, part)), false, true) => consistent &= linear.insert(mask, part),
+                    (_, false, false) => unfitting.push(idx),
+                    _ => {}
+                }
+            }
             Reading::Joint if s.omega.is_none() => joint.push(idx),
             _ => {}
         }
     }
     for (idx, omegas) in decided {
         set_index(&mut spectrum.states[idx], &omegas);
+    }
+    for idx in unfitting {
+        let s = &spectrum.states[idx];
+        let warning = SpectrumWarning::new(
+            SpectrumWarningKind::StreetsDisagree,
+            format!(
+                "the simple web with |Z| = {:.6} at phase {:.6}: its streets give 1 under neither sign (1 is kept)",
+                s.abs, s.phase
+            ),
+        )
+        .about(s.abs, s.phase);
+        spectrum.warnings.push(warning);
     }
     for (group, units) in phase_groups(spectrum, &joint) {
         settle_phase(

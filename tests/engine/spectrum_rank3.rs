@@ -977,3 +977,47 @@ fn webs_of_index_zero_are_named_not_listed() {
         );
     }
 }
+
+/// Pure SU(3) at two intermediate points (u = 4 + i, v = 3 - 2i and
+/// u = -3 + 2i, v = 1 + 4i, reach 25): a web bounding a ring domain of
+/// closed trajectories is a vector multiplet (the geometry says so: a
+/// family of closed BPS strings), and a vector multiplet has Omega = -2 (a
+/// fact of the trade). Their streets read +-2 and cannot fix the sign
+/// alone; the sign comes from the quadratic refinement, which the simple
+/// webs (hypermultiplets by their geometry, Omega = 1) fix even where the
+/// reach leaves their own series whole under both signs. So each
+/// ring-bounding web must read -2, and no index may be left to the sign.
+#[test]
+fn ring_webs_take_their_sign_from_the_simple_webs() {
+    for (u, v, ring) in [
+        (c(4.0, 1.0), c(3.0, -2.0), 18.976783),
+        (c(-3.0, 2.0), c(1.0, 4.0), 18.485155),
+    ] {
+        let sp = spectrum(&pure_su3(u, v), 25.0);
+        print("pure SU(3), intermediate coupling", &sp);
+        assert_self_check(&sp);
+        let w = sp
+            .states
+            .iter()
+            .find(|s| (s.abs - ring).abs() < 1e-5)
+            .unwrap_or_else(|| panic!("no web at |Z| = {ring}: {:?}", sp.warnings));
+        assert_eq!(w.kind, Kind::Vector);
+        assert_eq!(w.omega, Some(-2), "{:?}", sp.warnings);
+        for s in &sp.states {
+            assert!(
+                matches!(s.omega, None | Some(1) | Some(-2)),
+                "|Z| {}: {:?}",
+                s.abs,
+                s.omega
+            );
+        }
+        assert!(
+            !sp.warnings.iter().any(|w| matches!(
+                w.kind,
+                SpectrumWarningKind::IndexUnknownTwist | SpectrumWarningKind::StreetsDisagree
+            )),
+            "{:?}",
+            sp.warnings
+        );
+    }
+}
