@@ -663,6 +663,13 @@ impl<'a> Ctx<'a> {
     /// Every pass of a wall of `net` through the capture disc of a simple
     /// branch point where the wall's own pair meets.
     fn passes(&self, net: &Network) -> Vec<Pass> {
+        self.passes_with(net, false)
+    }
+
+    /// [`Self::passes`], with `returning` also the passes of walls back
+    /// through their own branch point's disc after leaving it (the edges
+    /// of ring domains: a wall round a puncture back to where it started).
+    fn passes_with(&self, net: &Network, returning: bool) -> Vec<Pass> {
         let mut out = Vec::new();
         for (w_idx, wall) in net.walls.iter().enumerate() {
             let own = match wall.origin {
@@ -683,9 +690,12 @@ impl<'a> Ctx<'a> {
                 },
             );
             for (to, bp) in self.curve.branch_points.iter().enumerate() {
-                if self.ramification[to] == 0 || own == Some(to) {
+                let back = own == Some(to);
+                if self.ramification[to] == 0 || (back && !returning) {
                     continue;
                 }
+                // A wall's own start lies in its branch point's disc.
+                let mut leaving = back;
                 let r = self.radii[to];
                 // A wall whose box stays a radius away from b cannot pass.
                 if box_lo.re - bp.z.re >= r
@@ -709,6 +719,10 @@ impl<'a> Ctx<'a> {
                         let d = dz.norm();
                         (d < r).then_some(d)
                     });
+                    if leaving {
+                        leaving = inside.is_some();
+                        continue;
+                    }
                     match inside {
                         Some(d) => run.push((k, d)),
                         None if !run.is_empty() => {
@@ -1068,6 +1082,10 @@ impl<'a> WebFinder<'a> {
             let phase = phase_mod_pi(cand.z.arg()) + 0.0;
             let net = self.network_at(phase, self.settings.tolerance, None);
             let alone = !ring_crossed(self.curve, &net, &line, sheets);
+            let same = match same {
+                None if !alone => self.ring_edge(net, cand.z),
+                _ => same,
+            };
             if let Some(k) = same {
                 let web = &mut self.states[k];
                 web.kind = Kind::Vector;
@@ -1141,6 +1159,39 @@ impl<'a> WebFinder<'a> {
                 }],
             });
         }
+    }
+
+    /// The web at the edge of a ring domain of charge `z`, from the whole
+    /// network at the ring's phase: the wall of the ring's charge that runs
+    /// into a branch point there, and every web closing with it (listed
+    /// with their street data). The phase search misses these webs where
+    /// walls spiral into the ring as the phase nears it; the ring's own
+    /// period gives the phase exactly. The index of the listed state of
+    /// the ring's charge, if any.
+    fn ring_edge(&mut self, net: Network, z: Complex64) -> Option<usize> {
+        let passes = self.passes_with(&net, true);
+        let best = passes
+            .iter()
+            .filter(|p| {
+                same_up_to_sign(p.w, z, WEB_MATCH) && p.distance <= HIT_FRACTION * self.radii[p.to]
+            })
+            .min_by(|a, b| a.distance.total_cmp(&b.distance))?;
+        let mut memo = EdgeMemo::default();
+        let web = self.web_of(&net, best, &mut memo)?;
+        let tol = self.settings.tolerance;
+        let at = net.theta;
+        let mut nets = self.networks_at(&[
+            (at - RESOLUTION_EPS, tol, None),
+            (at + RESOLUTION_EPS, tol, None),
+        ]);
+        let (Some(above), Some(below)) = (nets.pop(), nets.pop()) else {
+            return None;
+        };
+        let found = self.states_at(&net, &passes, web, [&below, &above], memo);
+        self.admit(found);
+        self.states
+            .iter()
+            .position(|s| same_up_to_sign(s.z, z, CANDIDATE_MATCH))
     }
 
     /// Candidates from the charge lattice, when the webs the scan found do
@@ -1224,50 +1275,57 @@ impl<'a> WebFinder<'a> {
             self.tried.push((z, ends.clone()));
             let ahead = self.next_candidates();
             let found = self.confirm_looking_ahead(z, ends.as_deref(), ahead);
-            for (state, problems) in found {
-                let dup = self.states.iter().any(|s| {
-                    same_up_to_sign(s.z, state.z, CANDIDATE_MATCH) && s.endpoints == state.endpoints
-                });
-                if dup || state.abs >= self.settings.reach {
-                    continue;
-                }
-                // A web of the sum may run through other branch points:
-                // these candidates are confirmed on whole networks.
-                for s in &self.states {
-                    for z in [s.z + state.z, s.z - state.z] {
-                        if z.norm() < self.settings.reach {
-                            self.queue.push((z, None));
-                        }
+            self.admit(found);
+        }
+    }
+
+    /// Lists the states a confirmation found (those not listed yet, below
+    /// the reach) with their notes, and queues the sums and differences
+    /// with every known state.
+    fn admit(&mut self, found: Vec<(BpsState, Vec<SpectrumWarningKind>)>) {
+        for (state, problems) in found {
+            let dup = self.states.iter().any(|s| {
+                same_up_to_sign(s.z, state.z, CANDIDATE_MATCH) && s.endpoints == state.endpoints
+            });
+            if dup || state.abs >= self.settings.reach {
+                continue;
+            }
+            // A web of the sum may run through other branch points:
+            // these candidates are confirmed on whole networks.
+            for s in &self.states {
+                for z in [s.z + state.z, s.z - state.z] {
+                    if z.norm() < self.settings.reach {
+                        self.queue.push((z, None));
                     }
                 }
-                if state.z_error > WARN_Z_ERROR * state.abs {
-                    self.error_notes.push(SpectrumWarning::new(
+            }
+            if state.z_error > WARN_Z_ERROR * state.abs {
+                self.error_notes.push(SpectrumWarning::new(
                         SpectrumWarningKind::ZError,
                         format!(
                             "the web with |Z| = {:.6} at phase {:.6}: the integrator's charge differs from the quadrature by {:.1e} (a joint placed less accurately); Z is the quadrature's",
                             state.abs, state.phase, state.z_error
                         ),
                     ).about(state.abs, state.phase));
-                }
-                // One warning lists every reason; its kind is the first.
-                if let Some(&first) = problems.first() {
-                    let why: Vec<&str> = problems.iter().map(|&p| problem_text(p)).collect();
-                    self.web_notes.push((
-                        self.states.len(),
-                        SpectrumWarning::new(
-                            first,
-                            format!(
-                                "the web with |Z| = {:.6} at phase {:.6} has index unknown: {}",
-                                state.abs,
-                                state.phase,
-                                why.join("; ")
-                            ),
-                        )
-                        .about(state.abs, state.phase),
-                    ));
-                }
-                self.states.push(state);
             }
+            // One warning lists every reason; its kind is the first.
+            if let Some(&first) = problems.first() {
+                let why: Vec<&str> = problems.iter().map(|&p| problem_text(p)).collect();
+                self.web_notes.push((
+                    self.states.len(),
+                    SpectrumWarning::new(
+                        first,
+                        format!(
+                            "the web with |Z| = {:.6} at phase {:.6} has index unknown: {}",
+                            state.abs,
+                            state.phase,
+                            why.join("; ")
+                        ),
+                    )
+                    .about(state.abs, state.phase),
+                ));
+            }
+            self.states.push(state);
         }
     }
 
