@@ -343,6 +343,41 @@ impl Curve {
         Ok(curve)
     }
 
+    /// The coefficients [`Curve::nudged`] can move without leaving the
+    /// family, as `(k, power of z)`: every power up to the degree of the
+    /// numerator of each non-zero u_k, k >= 1 (the degrees and the
+    /// denominators, so the poles and their orders, stay; a coefficient
+    /// that is zero may become non-zero, which breaks symmetries such as
+    /// z -> -z that moving the others keeps).
+    pub fn coefficient_slots(&self) -> Vec<(usize, usize)> {
+        let mut slots = Vec::new();
+        for (k, r) in self.u.iter().enumerate().skip(1) {
+            if !r.is_zero() {
+                slots.extend((0..=r.num.degree()).map(|m| (k, m)));
+            }
+        }
+        slots
+    }
+
+    /// The curve with the coefficient at `slot` (see
+    /// [`Curve::coefficient_slots`]) moved by `by` relative: multiplied by
+    /// `1 + by`, or set to `by` times the numerator's largest coefficient
+    /// where it is zero.
+    pub fn nudged(&self, slot: (usize, usize), by: Complex64) -> Result<Self, CurveError> {
+        let mut u = self.u.clone();
+        if let Some(r) = u.get_mut(slot.0) {
+            let scale = r.num.norm_inf();
+            if let Some(c) = r.num.coeffs.get_mut(slot.1) {
+                if *c == Complex64::new(0.0, 0.0) {
+                    *c = by * scale;
+                } else {
+                    *c *= Complex64::new(1.0, 0.0) + by;
+                }
+            }
+        }
+        Self::from_monic(self.rank, u)
+    }
+
     /// For rank 2: `q(z)` with `y^2 = q` (after removing any linear term).
     pub fn quadratic_differential(&self) -> Option<Rational> {
         (self.rank == 2).then(|| {

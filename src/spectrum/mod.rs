@@ -33,6 +33,7 @@
 pub mod annulus;
 pub mod crossing;
 mod limit;
+mod nearby;
 mod ordered;
 pub mod pair;
 pub mod period;
@@ -306,17 +307,39 @@ pub fn find(
     progress: &mut dyn FnMut(f64),
 ) -> Spectrum {
     let lattice = crate::charges::Lattice::new(curve);
-    let mut spectrum = find_states(curve, settings, cancel, progress, lattice.as_ref().ok());
+    let mut spectrum = find_charged(curve, settings, cancel, progress, &lattice);
     if settings.validate().is_ok() {
-        crate::charges::assign_with(&lattice, curve, &mut spectrum);
-        twist::settle(&mut spectrum);
-        drop_decided(&mut spectrum);
+        if let Ok(lat) = &lattice {
+            let find = |c: &Curve, s: &SpectrumSettings, t: &CancelToken, l: &_| {
+                find_charged(c, s, t, &mut |_| {}, l)
+            };
+            nearby::read_nearby(curve, settings, cancel, lat, &find, &mut spectrum);
+            drop_decided(&mut spectrum);
+        }
         drop_index_zero(&mut spectrum);
         twist::warn_aligned(&mut spectrum);
         web::summarise_unknown(&mut spectrum.warnings);
     }
     split_massless(curve, &mut spectrum);
     limit::to_singular_limit(curve, &mut spectrum);
+    spectrum
+}
+
+/// The states with their charges and every index the soliton data and
+/// the twist decide (no state dropped yet).
+fn find_charged(
+    curve: &Curve,
+    settings: &SpectrumSettings,
+    cancel: &CancelToken,
+    progress: &mut dyn FnMut(f64),
+    lattice: &Result<crate::charges::Lattice, crate::charges::LatticeError>,
+) -> Spectrum {
+    let mut spectrum = find_states(curve, settings, cancel, progress, lattice.as_ref().ok());
+    if settings.validate().is_ok() {
+        crate::charges::assign_with(lattice, curve, &mut spectrum);
+        twist::settle(&mut spectrum);
+        drop_decided(&mut spectrum);
+    }
     spectrum
 }
 

@@ -77,7 +77,7 @@ fn parity(charge: &[i64]) -> Option<u64> {
 
 /// Gives a state its index from its street reading; a state already known
 /// to be a vector multiplet (a ring domain) keeps its kind.
-fn set_index(state: &mut super::BpsState, omegas: &[i64]) {
+pub(super) fn set_index(state: &mut super::BpsState, omegas: &[i64]) {
     state.omega = omegas.first().copied();
     state.kind = match state.omega {
         _ if state.kind == Kind::Vector => Kind::Vector,

@@ -92,6 +92,9 @@ pub enum SpectrumWarningKind {
     /// States of independent charges share a phase: the parameters lie on
     /// a wall of marginal stability.
     AlignedCharges,
+    /// Indices read at two nearby points of the family, where states that
+    /// share a phase here (charges pairing to zero) part.
+    ReadNearby,
     /// The soliton data on a simple web's streets give another index than
     /// the simple web's 1 (the simple web's is kept).
     StreetsDisagree,
@@ -132,7 +135,7 @@ pub enum SpectrumWarningKind {
 
 impl SpectrumWarningKind {
     /// Every kind, in declaration order.
-    pub const ALL: [Self; 36] = [
+    pub const ALL: [Self; 37] = [
         Self::InvalidSettings,
         Self::RankUnsupported,
         Self::NonSimpleBranchPoint,
@@ -153,6 +156,7 @@ impl SpectrumWarningKind {
         Self::IndexUnknownTwist,
         Self::StreetsDisagree,
         Self::AlignedCharges,
+        Self::ReadNearby,
         Self::IndexUnknownNotListed,
         Self::ZError,
         Self::ZErrorNotListed,
@@ -194,6 +198,7 @@ impl SpectrumWarningKind {
             Self::IndexUnknownTwist => "index_unknown_twist",
             Self::StreetsDisagree => "streets_disagree",
             Self::AlignedCharges => "aligned_charges",
+            Self::ReadNearby => "read_nearby",
             Self::IndexUnknownNotListed => "index_unknown_not_listed",
             Self::ZError => "z_error",
             Self::ZErrorNotListed => "z_error_not_listed",
