@@ -331,12 +331,12 @@ fn mat_mul(a: &Mat, b: &Mat) -> Mat {
         .collect()
 }
 
-fn transpose(a: &Mat) -> Mat {
+pub(super) fn transpose(a: &Mat) -> Mat {
     let n = a.first().map_or(0, Vec::len);
     (0..n).map(|j| a.iter().map(|r| r[j]).collect()).collect()
 }
 
-fn mat_vec(a: &Mat, v: &[i64]) -> Vec<i64> {
+pub(super) fn mat_vec(a: &Mat, v: &[i64]) -> Vec<i64> {
     a.iter()
         .map(|row| row.iter().zip(v).map(|(x, y)| x * y).sum())
         .collect()

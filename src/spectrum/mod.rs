@@ -235,6 +235,12 @@ pub fn same_up_to_sign(a: Complex64, b: Complex64, rel: f64) -> bool {
     (a - b).norm() <= tol || (a + b).norm() <= tol
 }
 
+/// Two charges are independent: not proportional (some 2x2 minor is
+/// non-zero).
+fn independent(a: &[i64], b: &[i64]) -> bool {
+    a.len() == b.len() && (0..a.len()).any(|i| (0..a.len()).any(|j| a[i] * b[j] != a[j] * b[i]))
+}
+
 /// `theta mod pi`, in [0, pi).
 fn phase_mod_pi(theta: f64) -> f64 {
     let t = theta.rem_euclid(PI);
@@ -310,10 +316,7 @@ pub fn find(
     let mut spectrum = find_charged(curve, settings, cancel, progress, &lattice);
     if settings.validate().is_ok() {
         if let Ok(lat) = &lattice {
-            let find = |c: &Curve, s: &SpectrumSettings, t: &CancelToken, l: &_| {
-                find_charged(c, s, t, &mut |_| {}, l)
-            };
-            nearby::read_nearby(curve, settings, cancel, lat, &find, &mut spectrum);
+            nearby::read_nearby(curve, settings, cancel, lat, &mut spectrum);
             drop_decided(&mut spectrum);
         }
         drop_index_zero(&mut spectrum);

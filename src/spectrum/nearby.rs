@@ -7,17 +7,17 @@
 //! phases come apart and each web reads alone.
 //!
 //! One coefficient of the curve is moved to both sides until the phases
-//! part ([`parting_moves`], [`Curve::nudged`]), the charge basis is continued to each moved
-//! curve ([`continued_basis`]), and the spectrum is found there. An index
-//! is carried back only when both sides read the same integer and every
-//! index known below it reads again as it was (a check that
-//! the move crossed no wall).
+//! part ([`parting_moves`], [`Curve::nudged`]), the charge basis is
+//! continued to each moved curve ([`continued_basis`]), and the spectrum
+//! is found there. An index is carried back only when both sides read the
+//! same integer and every index known below it reads again as it was (a
+//! check that the move crossed no wall).
 
-use super::crossing::continued_basis;
+use super::crossing::{continued_basis, mat_vec, transpose};
 use super::warning::{SpectrumWarning, SpectrumWarningKind};
-use super::{phase_gap, BpsState, Spectrum, SpectrumSettings};
+use super::{independent, phase_gap, BpsState, Spectrum, SpectrumSettings};
 use crate::cancel::CancelToken;
-use crate::charges::intmat::form;
+use crate::charges::intmat::{form, Mat};
 use crate::charges::Lattice;
 use crate::curve::Curve;
 use num_complex::Complex64;
@@ -42,19 +42,9 @@ const ALIGNED: f64 = 1e-8;
 /// The moved spectra are sought this far beyond the heaviest state read.
 const REACH_MARGIN: f64 = 1.1;
 
-/// The spectrum at a nearby point, with its charges in this lattice's
-/// basis (`find` with every stage up to the twist, none after).
-pub(super) type Finder<'a> = dyn Fn(
-        &Curve,
-        &SpectrumSettings,
-        &CancelToken,
-        &Result<Lattice, crate::charges::LatticeError>,
-    ) -> Spectrum
-    + 'a;
-
 /// A moved curve, its lattice, and the basis continued to it (rows: this
 /// lattice's classes in the moved basis).
-type Moved = (Curve, Lattice, Vec<Vec<i64>>);
+type Moved = (Curve, Lattice, Mat);
 
 /// Reads the indices [`targets`] picks at two nearby points and carries
 /// back those both agree on; one warning says which.
@@ -63,7 +53,6 @@ pub(super) fn read_nearby(
     settings: &SpectrumSettings,
     cancel: &CancelToken,
     lattice: &Lattice,
-    find: &Finder<'_>,
     spectrum: &mut Spectrum,
 ) {
     if curve.rank < 3 || !curve.resolutions.is_empty() || spectrum.cancelled {
@@ -87,11 +76,11 @@ pub(super) fn read_nearby(
     };
     let mut sides = Vec::with_capacity(2);
     for (moved, moved_lat, basis) in moves {
-        let found = find(&moved, &near, cancel, &Ok(moved_lat));
+        let found = super::find_charged(&moved, &near, cancel, &mut |_| {}, &Ok(moved_lat));
         if found.cancelled || cancel.is_cancelled() {
             return;
         }
-        sides.push((found, basis));
+        sides.push((found, transpose(&basis)));
     }
     let mut carried = Vec::new();
     for &i in &targets {
@@ -99,13 +88,13 @@ pub(super) fn read_nearby(
         let Some(c) = &s.charge else { continue };
         // Every index known below this state reads again as it was: the
         // move crossed no wall that could change this one.
-        let steady = sides.iter().all(|(found, basis)| {
+        let steady = sides.iter().all(|(found, to_moved)| {
             spectrum.states.iter().all(|t| {
                 let (Some(e), Some(tc)) = (t.omega, &t.charge) else {
                     return true;
                 };
                 t.abs >= s.abs
-                    || match read(found, &continue_charge(basis, tc)) {
+                    || match read(found, &mat_vec(to_moved, tc)) {
                         Read::Index(m) => m == e,
                         Read::Absent => e == 0,
                         Read::Unknown => false,
@@ -114,7 +103,7 @@ pub(super) fn read_nearby(
         });
         let reads: Vec<Read> = sides
             .iter()
-            .map(|(found, basis)| read(found, &continue_charge(basis, c)))
+            .map(|(found, to_moved)| read(found, &mat_vec(to_moved, c)))
             .collect();
         if let (true, Read::Index(w)) = (steady, reads[0]) {
             if reads.iter().all(|r| *r == Read::Index(w)) {
@@ -162,14 +151,15 @@ fn parting_moves(
         })
         .collect();
     // The least parting of two independent charges on one ray.
-    let parting = |moved_lat: &Lattice, basis: &[Vec<i64>]| {
+    let parting = |moved_lat: &Lattice, basis: &Mat| {
+        let to_moved = transpose(basis);
         let mut least = f64::INFINITY;
         for charges in &ray_charges {
             for a in charges {
                 for b in charges {
                     if independent(a, b) {
-                        let za = moved_lat.central_charge(&continue_charge(basis, a));
-                        let zb = moved_lat.central_charge(&continue_charge(basis, b));
+                        let za = moved_lat.central_charge(&mat_vec(&to_moved, a));
+                        let zb = moved_lat.central_charge(&mat_vec(&to_moved, b));
                         least = least.min(phase_gap(za.arg(), zb.arg()));
                     }
                 }
@@ -250,23 +240,6 @@ fn ray_of(spectrum: &Spectrum, i: usize) -> Vec<usize> {
         .collect()
 }
 
-/// Not proportional: some 2x2 minor is non-zero.
-fn independent(a: &[i64], b: &[i64]) -> bool {
-    a.len() == b.len() && (0..a.len()).any(|i| (0..a.len()).any(|j| a[i] * b[j] != a[j] * b[i]))
-}
-
-/// A charge in the moved lattice: `sum_i c_i basis[i]`.
-fn continue_charge(basis: &[Vec<i64>], c: &[i64]) -> Vec<i64> {
-    let n = basis.first().map_or(0, Vec::len);
-    let mut out = vec![0_i64; n];
-    for (ci, row) in c.iter().zip(basis) {
-        for (o, r) in out.iter_mut().zip(row) {
-            *o += ci * r;
-        }
-    }
-    out
-}
-
 /// What a moved spectrum says of a charge.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 enum Read {
@@ -300,7 +273,7 @@ mod tests {
     #[test]
     fn charges_continue_row_by_row() {
         let basis = vec![vec![1, 0], vec![1, 1]];
-        assert_eq!(continue_charge(&basis, &[2, -1]), vec![1, -1]);
+        assert_eq!(mat_vec(&transpose(&basis), &[2, -1]), vec![1, -1]);
     }
 
     #[test]

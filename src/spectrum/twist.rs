@@ -448,10 +448,7 @@ pub(super) fn warn_aligned(spectrum: &mut Spectrum) {
     let binds = |a: &[i64], b: &[i64]| {
         pairing.is_none_or(|m| !matches!(crate::charges::intmat::form(m, a, b), Ok(0)))
     };
-    let independent = |a: &[i64], b: &[i64]| {
-        // Not proportional: some 2x2 minor is non-zero.
-        (0..a.len()).any(|i| (0..a.len()).any(|j| a[i] * b[j] != a[j] * b[i]))
-    };
+    let independent = super::independent;
     // The first aligned pair that binds (a wall); failing that, the first
     // pair that does not bind but leaves an index at its phase unknown.
     let mut wall: Option<(usize, usize)> = None;

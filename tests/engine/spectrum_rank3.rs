@@ -22,7 +22,8 @@ use num_complex::Complex64;
 use std::f64::consts::PI;
 use wallflower::quad::gauss_legendre_unit;
 use wallflower::spectrum::{
-    find, same_up_to_sign, BpsState, Kind, Spectrum, SpectrumSettings, SpectrumWarningKind,
+    find, same_up_to_sign, BpsState, Kind, Spectrum, SpectrumSettings, SpectrumWarning,
+    SpectrumWarningKind,
 };
 use wallflower::walls::Origin;
 use wallflower::{compute, CancelToken, Curve, Settings};
@@ -347,6 +348,19 @@ fn scenario_spectrum_has_the_curve_symmetries() {
     }
 }
 
+/// The `read_nearby` note of a spectrum in which every index is known.
+fn read_nearby_note(sp: &Spectrum) -> &SpectrumWarning {
+    assert!(
+        sp.states.iter().all(|s| s.omega.is_some()),
+        "{:?}",
+        sp.warnings
+    );
+    sp.warnings
+        .iter()
+        .find(|w| w.kind == SpectrumWarningKind::ReadNearby)
+        .unwrap_or_else(|| panic!("no read-nearby note: {:?}", sp.warnings))
+}
+
 /// y^3 - 2 z^2 y + z^4 - 1 = 0 is invariant under z -> -z and under
 /// conjugation, so pairs of webs of different charges close at one phase
 /// with equal |Z| (5.1154 at phases 0.2775 and 2.8640). Their charges
@@ -361,16 +375,7 @@ fn symmetric_curve_reads_aligned_webs_nearby() {
     let cv = curve_with("y^3 - 2 z^2 y + z^4 - 1 = 0", &[]);
     let sp = spectrum(&cv, 6.0);
     print("symmetric quartic", &sp);
-    assert!(
-        sp.states.iter().all(|s| s.omega.is_some()),
-        "{:?}",
-        sp.warnings
-    );
-    let note = sp
-        .warnings
-        .iter()
-        .find(|w| w.kind == SpectrumWarningKind::ReadNearby)
-        .unwrap_or_else(|| panic!("no read-nearby note: {:?}", sp.warnings));
+    let note = read_nearby_note(&sp);
     assert!(note.message.contains("5.115407"), "{}", note.message);
     let near = |sp: &Spectrum| -> Vec<(Kind, Option<i64>)> {
         sp.states
@@ -1013,16 +1018,7 @@ fn webs_of_index_zero_are_named_not_listed() {
 fn aligned_charges_that_pair_to_zero_are_read_nearby() {
     let at = |v: Complex64| pure_su3(c(1.0, 0.0), v);
     let sp = spectrum(&at(c(0.5, 0.0)), 20.0);
-    assert!(
-        sp.states.iter().all(|s| s.omega.is_some()),
-        "{:?}",
-        sp.warnings
-    );
-    let note = sp
-        .warnings
-        .iter()
-        .find(|w| w.kind == SpectrumWarningKind::ReadNearby)
-        .unwrap_or_else(|| panic!("no read-nearby note: {:?}", sp.warnings));
+    let note = read_nearby_note(&sp);
     assert!(note.message.contains("15.1779"), "{}", note.message);
     assert!(sp.states.iter().all(|s| (s.abs - 15.1779).abs() > 1e-2));
     assert_eq!(sp.states.len(), 6, "{:?}", sp.states);
