@@ -49,6 +49,17 @@ impl Curve {
         roots_of_monic(&c)
     }
 
+    /// [`Self::roots_unordered`] started from `guess`, the roots at a
+    /// nearby point (see [`crate::algebra::Poly::roots_near`]).
+    pub fn roots_near(&self, z: Complex64, guess: &[Complex64]) -> Vec<Complex64> {
+        let c = self.coeffs_at(z);
+        if c.len() == 3 || guess.len() + 1 != c.len() {
+            return roots_of_monic(&c);
+        }
+        let ascending: Vec<Complex64> = c.iter().rev().copied().collect();
+        crate::algebra::Poly { coeffs: ascending }.roots_near(guess)
+    }
+
     /// `P(y, z)` and `dP/dy` for monic coefficients `c` (descending).
     #[inline]
     pub fn eval_p(c: &[Complex64], y: Complex64) -> (Complex64, Complex64) {

@@ -112,12 +112,14 @@ impl<'a> PairQuadrature<'a> {
         let whole = || -> Option<(Complex64, Pair)> {
             let mut prev = start;
             let mut total = Complex64::new(0.0, 0.0);
+            // Each node's roots start the next node's root finder.
+            let mut roots: Vec<Complex64> = Vec::new();
             for &(s, w) in &self.segment_rule {
-                let roots = self.curve.roots_unordered(za + (zb - za) * s);
+                roots = self.curve.roots_near(za + (zb - za) * s, &roots);
                 prev = pick(&roots, prev.a, prev.b)?;
                 total += prev.diff() * w;
             }
-            let end = pick(&self.curve.roots_unordered(zb), prev.a, prev.b)?;
+            let end = pick(&self.curve.roots_near(zb, &roots), prev.a, prev.b)?;
             Some((total * (zb - za), end))
         };
         if let Some(done) = whole() {
@@ -159,14 +161,15 @@ impl<'a> PairQuadrature<'a> {
         let mut g = start.diff();
         let mut total = Complex64::new(0.0, 0.0);
         let mut last: Option<(Pair, Vec<Complex64>)> = None;
+        let mut roots: Vec<Complex64> = Vec::new();
         for &(s, w) in self.endpoint_rule.iter().rev() {
-            let roots = self.curve.roots_unordered(b + delta * (s * s));
+            roots = self.curve.roots_near(b + delta * (s * s), &roots);
             let pair = pick(&roots, mean + g * (0.5 * s), mean - g * (0.5 * s))?;
             let d = pair.diff();
             total += d * (2.0 * s) * w;
             mean = (pair.a + pair.b) * 0.5;
             g = d / s;
-            last = Some((pair, roots));
+            last = Some((pair, roots.clone()));
         }
         let (pair, roots) = last?;
         // The pair meets at b: its gap shrinks like s (far below its size at
@@ -209,9 +212,11 @@ impl<'a> PairQuadrature<'a> {
         // The last two nodes (s, pair), newest first.
         let mut prev: (f64, Pair) = (1.0, start);
         let mut older: Option<(f64, Pair)> = None;
-        let mut last_roots = Vec::new();
+        let mut last_roots: Vec<Complex64> = Vec::new();
         for &(s, w) in self.endpoint_rule.iter().rev() {
-            let roots = self.curve.roots_unordered(b + delta * s.powi(q as i32));
+            let roots = self
+                .curve
+                .roots_near(b + delta * s.powi(q as i32), &last_roots);
             let guess = |pick_a: bool| {
                 let (s1, p1) = prev;
                 let y1 = if pick_a { p1.a } else { p1.b };
