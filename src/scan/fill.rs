@@ -323,7 +323,7 @@ fn carried(
         return None;
     }
     out.states.retain(|s| s.abs < reach);
-    out.states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
+    crate::spectrum::sort_by_mass(&mut out.states);
     out.warnings = curve
         .notes
         .iter()

@@ -211,7 +211,7 @@ impl Spectrum {
                 "cancelled: the spectrum is partial",
             ));
         }
-        states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
+        sort_by_mass(&mut states);
         Self {
             reach: settings.reach,
             states,
@@ -325,6 +325,7 @@ pub fn find(
     }
     split_massless(curve, &mut spectrum);
     limit::to_singular_limit(curve, &mut spectrum);
+    sort_by_mass(&mut spectrum.states);
     spectrum
 }
 
@@ -959,5 +960,77 @@ impl<'a> Finder<'a> {
             self.cancelled,
             self.stats,
         )
+    }
+}
+
+/// Sorts states by `|Z|`; states of equal `|Z|` (to 1e-9 relative: a
+/// symmetric curve's images, whose last bits depend on the root finder's
+/// start) by phase, and those of one phase by charge, so that their
+/// numbering is the same run to run.
+pub fn sort_by_mass(states: &mut [BpsState]) {
+    states.sort_by(|a, b| a.abs.total_cmp(&b.abs));
+    let close = |x: f64, y: f64| (x - y).abs() <= 1e-9 * x.abs().max(1.0);
+    for run in runs(states, |a, b| close(a.abs, b.abs)) {
+        let run = &mut states[run];
+        run.sort_by(|a, b| a.phase.total_cmp(&b.phase));
+        for same in runs(run, |a, b| close(a.phase, b.phase)) {
+            run[same].sort_by(|a, b| a.charge.cmp(&b.charge));
+        }
+    }
+}
+
+/// The maximal ranges of consecutive states that `together` links.
+fn runs(
+    states: &[BpsState],
+    together: impl Fn(&BpsState, &BpsState) -> bool,
+) -> Vec<std::ops::Range<usize>> {
+    let mut out = Vec::new();
+    let mut start = 0;
+    for k in 1..=states.len() {
+        if k == states.len() || !together(&states[k - 1], &states[k]) {
+            out.push(start..k);
+            start = k;
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn state(abs: f64, phase: f64, charge: i64) -> BpsState {
+        BpsState {
+            z: Complex64::from_polar(abs, phase),
+            abs,
+            phase,
+            kind: Kind::Hyper,
+            omega: Some(1),
+            endpoints: Vec::new(),
+            web: Vec::new(),
+            z_error: 0.0,
+            charge: Some(vec![charge]),
+            lift: Vec::new(),
+            streets: None,
+        }
+    }
+
+    /// Images of a symmetric curve: |Z| equal but for the last bits, in
+    /// any order, always come out by phase and then by charge.
+    #[test]
+    fn states_of_equal_mass_are_ordered_by_phase_then_charge() {
+        let a = state(2.0, 0.3, 1);
+        let b = state(2.0 * (1.0 + 1e-14), 2.8, 2);
+        let c = state(2.0 * (1.0 - 1e-14), 0.3, 0);
+        let light = state(1.0, 3.0, 5);
+        let heavy = state(2.1, 0.1, 0);
+        let want = [&light, &c, &a, &b, &heavy].map(|s| s.charge.clone());
+        for order in [[0, 1, 2, 3, 4], [4, 3, 2, 1, 0], [2, 0, 4, 1, 3]] {
+            let all = [&a, &b, &c, &light, &heavy];
+            let mut states: Vec<BpsState> = order.iter().map(|&k| all[k].clone()).collect();
+            sort_by_mass(&mut states);
+            let got: Vec<_> = states.iter().map(|s| s.charge.clone()).collect();
+            assert_eq!(got, want, "from order {order:?}");
+        }
     }
 }
