@@ -201,66 +201,32 @@ impl Poly {
         let zeros = self.order_at_zero();
         let reduced = Self::new(self.coeffs[zeros..].to_vec());
         let mut roots = vec![Complex64::new(0.0, 0.0); zeros];
-        roots.extend(aberth(&reduced, None).unwrap_or_default());
+        roots.extend(aberth(&reduced));
         roots
-    }
-
-    /// [`Self::roots`] started from `guess`, the roots of a nearby
-    /// polynomial (the previous node of a quadrature): a few iterations
-    /// instead of a few dozen. Falls back to the cold start when the guess
-    /// does not fit (wrong count, a zero root), does not converge within
-    /// [`WARM_ITER`], or ends with a root missing (two approximations on
-    /// one root, seen by the sum of the roots).
-    pub fn roots_near(&self, guess: &[Complex64]) -> Vec<Complex64> {
-        let n = self.degree();
-        let fits = n >= 2
-            && guess.len() == n
-            && self.order_at_zero() == 0
-            && guess.iter().all(|g| g.is_finite());
-        if fits {
-            if let Some(z) = aberth(self, Some(guess)) {
-                return z;
-            }
-        }
-        self.roots()
     }
 }
 
-/// Iterations of a warm start before it gives up for the cold one: from
-/// the roots of the previous quadrature node, 3-6 suffice (measured).
-const WARM_ITER: usize = 40;
-
 /// Aberth-Ehrlich simultaneous root finding on a polynomial with non-zero
-/// constant term, from `start` (warm: `None` when it fails) or from a
-/// circle (cold: always `Some`).
-fn aberth(p: &Poly, start: Option<&[Complex64]>) -> Option<Vec<Complex64>> {
+/// constant term.
+fn aberth(p: &Poly) -> Vec<Complex64> {
     let n = p.degree();
     if n == 0 || !p.leading().is_finite() {
-        return Some(Vec::new());
+        return Vec::new();
     }
     if n == 1 {
-        return Some(vec![-p.coeffs[0] / p.coeffs[1]]);
+        return vec![-p.coeffs[0] / p.coeffs[1]];
     }
     let lead = p.leading();
     let monic: Vec<Complex64> = p.coeffs.iter().map(|c| c / lead).collect();
-    let mut z: Vec<Complex64> = match start {
-        Some(guess) => guess.to_vec(),
-        // Initial guesses on a circle whose radius is the geometric mean of
-        // the root moduli (|c0|^(1/n) for a monic polynomial), rotated off
-        // symmetry axes.
-        None => {
-            let radius = monic[0].norm().powf(1.0 / n as f64).max(1e-300);
-            (0..n)
-                .map(|k| {
-                    Complex64::from_polar(radius, std::f64::consts::TAU * k as f64 / n as f64 + 0.4)
-                })
-                .collect()
-        }
-    };
+    // Initial guesses on a circle whose radius is the geometric mean of the
+    // root moduli (|c0|^(1/n) for a monic polynomial), rotated off symmetry axes.
+    let radius = monic[0].norm().powf(1.0 / n as f64).max(1e-300);
+    let mut z: Vec<Complex64> = (0..n)
+        .map(|k| Complex64::from_polar(radius, std::f64::consts::TAU * k as f64 / n as f64 + 0.4))
+        .collect();
     let mp = Poly { coeffs: monic };
     const MAX_ITER: usize = 500;
-    let mut converged = false;
-    for _ in 0..if start.is_some() { WARM_ITER } else { MAX_ITER } {
+    for _ in 0..MAX_ITER {
         // Squared: |w|^2 / (1 + |z|^2) bounds (|w| / (1 + |z|))^2 from
         // above, so the test is no looser, and hypot was half the cost.
         let mut max_rel2 = 0.0_f64;
@@ -291,17 +257,7 @@ fn aberth(p: &Poly, start: Option<&[Complex64]>) -> Option<Vec<Complex64>> {
             }
         }
         if max_rel2 < 1e-26 {
-            converged = true;
             break;
-        }
-    }
-    if start.is_some() {
-        // The roots sum to -c_(n-1): a root approximated twice leaves
-        // another out and the sum off by their distance.
-        let sum: Complex64 = z.iter().sum();
-        let size: f64 = z.iter().map(|r| r.l1_norm()).sum();
-        if !converged || (sum + mp.coeffs[n - 1]).l1_norm() > 1e-9 * (1.0 + size) {
-            return None;
         }
     }
     // A couple of Newton steps on the original polynomial sharpen simple roots.
@@ -316,7 +272,7 @@ fn aberth(p: &Poly, start: Option<&[Complex64]>) -> Option<Vec<Complex64>> {
             }
         }
     }
-    Some(z)
+    z
 }
 
 #[cfg(test)]
@@ -340,31 +296,6 @@ mod tests {
                 .fold((0, f64::INFINITY), |a, b| if b.1 < a.1 { b } else { a });
             assert!(d < 1e-12, "root {w} missed by {d}");
             got.remove(idx);
-        }
-    }
-
-    /// A warm start from nearby roots ends on the cold start's roots; a
-    /// guess with two points on one root (each already a root, so the
-    /// iteration has nothing to move) is caught by the sum of the roots
-    /// and the cold start runs instead.
-    #[test]
-    fn warm_start_agrees_with_the_cold_one_and_refuses_a_collapsed_guess() {
-        let want = [c(1.0, 0.0), c(2.0, 0.5), c(-3.0, 1.0), c(0.5, -2.0)];
-        let p = Poly::from_roots(c(1.5, -0.5), &want);
-        let nearby: Vec<Complex64> = want.iter().map(|w| w + c(1e-3, -2e-3)).collect();
-        let collapsed = [want[0], want[0], want[2], want[3]];
-        for guess in [&nearby[..], &collapsed[..]] {
-            let mut got = p.roots_near(guess);
-            assert_eq!(got.len(), 4);
-            for w in want {
-                let (idx, d) = got
-                    .iter()
-                    .enumerate()
-                    .map(|(i, g)| (i, (g - w).norm()))
-                    .fold((0, f64::INFINITY), |a, b| if b.1 < a.1 { b } else { a });
-                assert!(d < 1e-12, "root {w} missed by {d} from {guess:?}");
-                got.remove(idx);
-            }
         }
     }
 

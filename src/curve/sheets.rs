@@ -49,15 +49,34 @@ impl Curve {
         roots_of_monic(&c)
     }
 
-    /// [`Self::roots_unordered`] started from `guess`, the roots at a
-    /// nearby point (see [`crate::algebra::Poly::roots_near`]).
+    /// [`Self::roots_unordered`] from `guess`, the roots at a nearby point
+    /// (the previous node of a quadrature): each guess is polished by
+    /// Newton's method, two or three steps instead of a root finder's
+    /// cold start. The cold start runs instead when the guess does not
+    /// fit, a Newton run does not settle, or two guesses land on one root
+    /// (the roots then miss their sum, `-u_1`, by the distance to the
+    /// root left out).
     pub fn roots_near(&self, z: Complex64, guess: &[Complex64]) -> Vec<Complex64> {
-        let c = self.coeffs_at(z);
-        if c.len() == 3 || guess.len() + 1 != c.len() {
-            return roots_of_monic(&c);
+        let k = self.rank;
+        let zero = Complex64::new(0.0, 0.0);
+        let mut c = [zero; super::MAX_RANK + 1];
+        if guess.len() != k || k > super::MAX_RANK {
+            return self.roots_unordered(z);
         }
-        let ascending: Vec<Complex64> = c.iter().rev().copied().collect();
-        crate::algebra::Poly { coeffs: ascending }.roots_near(guess)
+        self.coeffs_into(z, &mut c);
+        let mut out = Vec::with_capacity(k);
+        for &g in guess {
+            match Self::newton_root(&c[..=k], g) {
+                Some(y) => out.push(y),
+                None => return roots_of_monic(&c[..=k]),
+            }
+        }
+        let sum: Complex64 = out.iter().sum();
+        let size: f64 = out.iter().map(|r| r.l1_norm()).sum::<f64>() + c[1].l1_norm();
+        if (sum + c[1]).l1_norm() > 1e-9 * (1.0 + size) {
+            return roots_of_monic(&c[..=k]);
+        }
+        out
     }
 
     /// `P(y, z)` and `dP/dy` for monic coefficients `c` (descending).
@@ -401,4 +420,42 @@ pub fn closest_pair(roots: &[Complex64]) -> (usize, usize, f64) {
 /// Orders roots by increasing real part, then imaginary part.
 pub fn sort_roots(roots: &mut [Complex64]) {
     roots.sort_by(|a, b| a.re.total_cmp(&b.re).then(a.im.total_cmp(&b.im)));
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::algebra::parse_equation;
+    use std::collections::BTreeMap;
+
+    fn nearest(roots: &[Complex64], w: Complex64) -> f64 {
+        roots
+            .iter()
+            .map(|r| (r - w).norm())
+            .fold(f64::INFINITY, f64::min)
+    }
+
+    /// From the roots at a nearby point, or from a guess with two points
+    /// on one root (each Newton run settles at once, so only the sum of
+    /// the roots shows that one is missing), the warm start returns every
+    /// root the cold start finds.
+    #[test]
+    fn warm_roots_are_the_cold_ones_even_from_a_collapsed_guess() {
+        let poly = parse_equation("y^3 - 1.5 * z * y + z^3 - 1 = 0")
+            .unwrap()
+            .evaluate(&BTreeMap::new())
+            .unwrap();
+        let curve = Curve::from_poly_in_y(&poly).unwrap();
+        let z = Complex64::new(0.3, 0.2);
+        let cold = curve.roots_unordered(z);
+        let nearby = curve.roots_unordered(z + Complex64::new(1e-3, -1e-3));
+        let collapsed = [cold[0], cold[0], cold[2]];
+        for guess in [&nearby[..], &collapsed[..]] {
+            let warm = curve.roots_near(z, guess);
+            assert_eq!(warm.len(), 3);
+            for w in &cold {
+                assert!(nearest(&warm, *w) < 1e-12, "{w} missing from {warm:?}");
+            }
+        }
+    }
 }
