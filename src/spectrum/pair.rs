@@ -1,11 +1,13 @@
 //! Periods of `(y_a - y_b) dz` for one pair of sheets of a curve of any
 //! rank, by direct quadrature.
 //!
-//! Everything here solves `P(., z) = 0` afresh (Aberth-Ehrlich, through
-//! [`Curve::roots_unordered`]) at every quadrature node and follows the two
-//! sheets by continuity: the nearest root to a prediction from the previous
-//! node. It never uses the wall integrator's Newton tracking, so a period
-//! computed here is an independent check of a wall's mass. A match is
+//! Everything here finds all K roots of `P(., z) = 0` at every quadrature
+//! node, the first node of a segment by Aberth-Ehrlich, each next one by
+//! Newton from the previous node's roots with the set checked by its sum
+//! ([`Curve::roots_near`]), and follows the two sheets by continuity: the
+//! nearest root to a prediction from the previous node. It never uses the
+//! wall integrator's tracking or its labels, so a period computed here is
+//! an independent check of a wall's mass. A match is
 //! accepted only when the nearest root is clearly nearer than the next one;
 //! otherwise the segment is split (a bounded number of times).
 //!
