@@ -60,7 +60,8 @@ impl Curve {
         let k = self.rank;
         let zero = Complex64::new(0.0, 0.0);
         let mut c = [zero; super::MAX_RANK + 1];
-        if guess.len() != k || k > super::MAX_RANK {
+        // Two sheets have their closed form, cheaper than any start.
+        if k == 2 || guess.len() != k || k > super::MAX_RANK {
             return self.roots_unordered(z);
         }
         self.coeffs_into(z, &mut c);

@@ -68,7 +68,7 @@ pub fn to_singular_limit(curve: &Curve, spectrum: &mut Spectrum) {
         state.phase = phase;
         state.z_error = (z - z_check).norm();
     }
-    crate::spectrum::sort_by_mass(&mut spectrum.states);
+    // Re-sorted by `find`, the only caller, once every stage is done.
     let mut note = "the massive states' Z are periods of the singular curve itself (the limit of their cycles on the resolution); the lattice's basis periods are those of the resolution".to_string();
     if failed > 0 {
         note.push_str(&format!(

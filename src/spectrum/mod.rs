@@ -963,8 +963,8 @@ impl<'a> Finder<'a> {
     }
 }
 
-/// Sorts states by `|Z|`; states of equal `|Z|` (to 1e-9 relative: a
-/// symmetric curve's images, whose last bits depend on the root finder's
+/// Sorts states by `|Z|`; states of equal `|Z|` (to 1e-9, relative above
+/// 1: a symmetric curve's images, whose last bits depend on the root finder's
 /// start) by phase, and those of one phase by charge, so that their
 /// numbering is the same run to run.
 pub fn sort_by_mass(states: &mut [BpsState]) {

@@ -162,7 +162,7 @@ impl<'a> PairQuadrature<'a> {
         // g = (y_a - y_b) / s, analytic in s when the pair meets at b.
         let mut g = start.diff();
         let mut total = Complex64::new(0.0, 0.0);
-        let mut last: Option<(Pair, Vec<Complex64>)> = None;
+        let mut last: Option<Pair> = None;
         let mut roots: Vec<Complex64> = Vec::new();
         for &(s, w) in self.endpoint_rule.iter().rev() {
             roots = self.curve.roots_near(b + delta * (s * s), &roots);
@@ -171,9 +171,10 @@ impl<'a> PairQuadrature<'a> {
             total += d * (2.0 * s) * w;
             mean = (pair.a + pair.b) * 0.5;
             g = d / s;
-            last = Some((pair, roots.clone()));
+            last = Some(pair);
         }
-        let (pair, roots) = last?;
+        // `roots` are the last node's.
+        let pair = last?;
         // The pair meets at b: its gap shrinks like s (far below its size at
         // z0), and every other sheet stays well away from it.
         let gap = pair.diff().norm();
